@@ -1,0 +1,70 @@
+package udf
+
+import (
+	"database/sql/driver"
+	"fmt"
+	"math"
+)
+
+// floats converts a DuckDB LIST(DOUBLE) value into a []float64. NULL
+// elements become NaN: plumb treats NULL and NaN alike as missing, and every
+// function documents what it does with a missing value.
+func floats(v driver.Value) ([]float64, error) {
+	list, ok := v.([]any)
+	if !ok {
+		return nil, fmt.Errorf("expected a list of numbers, got %T", v)
+	}
+	out := make([]float64, len(list))
+	for i, e := range list {
+		switch x := e.(type) {
+		case float64:
+			out[i] = x
+		case nil:
+			out[i] = math.NaN()
+		default:
+			return nil, fmt.Errorf("expected a list of DOUBLE, got an element of type %T", e)
+		}
+	}
+	return out, nil
+}
+
+// listOrNull returns x as a DuckDB list with NaN written as NULL, so that a
+// missing input never reaches the user as a NaN that aggregates would absorb.
+func listOrNull(x []float64) []any {
+	out := make([]any, len(x))
+	for i, v := range x {
+		if !math.IsNaN(v) {
+			out[i] = v
+		}
+	}
+	return out
+}
+
+// integer reads a BIGINT argument.
+func integer(v driver.Value, name string) (int, error) {
+	switch x := v.(type) {
+	case int64:
+		return int(x), nil
+	case int32:
+		return int(x), nil
+	default:
+		return 0, fmt.Errorf("%s must be an integer, got %T", name, v)
+	}
+}
+
+// text reads a VARCHAR argument.
+func text(v driver.Value, name string) (string, error) {
+	s, ok := v.(string)
+	if !ok {
+		return "", fmt.Errorf("%s must be text, got %T", name, v)
+	}
+	return s, nil
+}
+
+// orNull returns v, or nil (SQL NULL) when v is NaN or ±Inf.
+func orNull(v float64) any {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return nil
+	}
+	return v
+}

@@ -1,0 +1,70 @@
+package udf
+
+import (
+	"database/sql/driver"
+
+	"github.com/duckdb/duckdb-go/v2"
+
+	"github.com/plumb-sql/plumb/stats"
+)
+
+// differenceFunctions wraps stats.Difference and stats.Undifference.
+//
+//	difference(series, lag := 1, times := 1)       -> DOUBLE[]
+//	undifference(series, anchor, lag := 1)         -> DOUBLE[]
+func differenceFunctions(t *types) []*function {
+	return []*function{{
+		name:   "plumb_difference",
+		params: []duckdb.TypeInfo{t.doubles(), t.bigint(), t.bigint()},
+		result: t.doubles(),
+		eval: func(args []driver.Value) (any, error) {
+			x, err := floats(args[0])
+			if err != nil {
+				return nil, err
+			}
+			lag, err := integer(args[1], "lag")
+			if err != nil {
+				return nil, err
+			}
+			times, err := integer(args[2], "times")
+			if err != nil {
+				return nil, err
+			}
+			d, err := stats.Difference(x, lag, times)
+			if err != nil {
+				return nil, err
+			}
+			return listOrNull(d), nil
+		},
+	}, {
+		name:   "plumb_undifference",
+		params: []duckdb.TypeInfo{t.doubles(), t.doubles(), t.bigint()},
+		result: t.doubles(),
+		eval: func(args []driver.Value) (any, error) {
+			d, err := floats(args[0])
+			if err != nil {
+				return nil, err
+			}
+			anchor, err := floats(args[1])
+			if err != nil {
+				return nil, err
+			}
+			lag, err := integer(args[2], "lag")
+			if err != nil {
+				return nil, err
+			}
+			y, err := stats.Undifference(d, anchor, lag)
+			if err != nil {
+				return nil, err
+			}
+			return listOrNull(y), nil
+		},
+	}}
+}
+
+const differenceMacros = `
+CREATE OR REPLACE TEMP MACRO difference(series, lag := 1, times := 1) AS
+    plumb_difference(series::DOUBLE[], lag, times);
+CREATE OR REPLACE TEMP MACRO undifference(series, anchor, lag := 1) AS
+    plumb_undifference(series::DOUBLE[], anchor::DOUBLE[], lag);
+`

@@ -1,0 +1,124 @@
+package udf
+
+import (
+	"context"
+	"database/sql"
+	"database/sql/driver"
+	"fmt"
+	"net/url"
+	"strings"
+	"sync/atomic"
+
+	"github.com/duckdb/duckdb-go/v2"
+)
+
+// Options say which database to open and how.
+type Options struct {
+	// Path is the database file; empty means an in-memory database.
+	Path string
+	// ReadOnly opens the file read-only (ignored for in-memory databases).
+	ReadOnly bool
+	// Settings are DuckDB configuration options applied at start-up, such
+	// as "threads" or "memory_limit".
+	Settings map[string]string
+}
+
+// Open opens a DuckDB database with every plumb function registered.
+// Scalar functions are registered once on the database; the macros that give
+// them named options, and the table macros, are created as TEMP macros on
+// every connection as it opens, so they are there on every connection of the
+// returned pool and never stored in a database file.
+func Open(ctx context.Context, opts Options) (*sql.DB, error) {
+	dsn := opts.Path
+	query := url.Values{}
+	if opts.ReadOnly && opts.Path != "" {
+		query.Set("access_mode", "read_only")
+	}
+	for k, v := range opts.Settings {
+		query.Set(k, v)
+	}
+	if len(query) > 0 {
+		dsn += "?" + query.Encode()
+	}
+	var ready atomic.Bool
+	connector, err := duckdb.NewConnector(dsn, func(execer driver.ExecerContext) error {
+		if !ready.Load() {
+			return nil // the first connection: Open creates its macros below
+		}
+		return createMacros(ctx, execer)
+	})
+	if err != nil {
+		return nil, fmt.Errorf("open database %q: %w", displayPath(opts.Path), err)
+	}
+	db := sql.OpenDB(connector)
+	if err := registerAll(ctx, db, &ready); err != nil {
+		db.Close()
+		return nil, err
+	}
+	return db, nil
+}
+
+func displayPath(p string) string {
+	if p == "" {
+		return ":memory:"
+	}
+	return p
+}
+
+// registerAll registers every scalar function through the pool's first
+// connection, creates the macros on it, and then sets ready so that every
+// later connection creates its own macros as it opens. DuckDB binds a macro
+// body when the macro is created, so the functions must come first.
+func registerAll(ctx context.Context, db *sql.DB, ready *atomic.Bool) error {
+	conn, err := db.Conn(ctx)
+	if err != nil {
+		return fmt.Errorf("udf: connect: %w", err)
+	}
+	defer conn.Close()
+	functions, err := allFunctions()
+	if err != nil {
+		return err
+	}
+	if err := register(conn, functions); err != nil {
+		return err
+	}
+	err = conn.Raw(func(driverConn any) error {
+		execer, ok := driverConn.(driver.ExecerContext)
+		if !ok {
+			return fmt.Errorf("udf: connection %T cannot execute statements", driverConn)
+		}
+		return createMacros(ctx, execer)
+	})
+	if err != nil {
+		return err
+	}
+	ready.Store(true)
+	return nil
+}
+
+// allFunctions lists every Go scalar function plumb registers.
+func allFunctions() ([]*function, error) {
+	t := &types{}
+	var all []*function
+	for _, group := range [][]*function{
+		differenceFunctions(t),
+		differencedFunctions(t),
+	} {
+		all = append(all, group...)
+	}
+	return all, t.err
+}
+
+// macros is the SQL that creates plumb's TEMP macros on a connection.
+var macros = strings.Join([]string{
+	differenceMacros,
+	differencedMacro,
+}, "\n")
+
+// createMacros creates plumb's TEMP macros on one connection.
+func createMacros(ctx context.Context, execer driver.ExecerContext) error {
+	if _, err := execer.ExecContext(ctx, macros, nil); err != nil {
+		return fmt.Errorf("udf: create macros: %w", err)
+	}
+	return nil
+}

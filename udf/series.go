@@ -1,0 +1,96 @@
+package udf
+
+import (
+	"fmt"
+	"strings"
+)
+
+// seriesQuery describes the per-group series behind every table function:
+// which source, which columns form the group key, which orders time and
+// which holds the value.
+type seriesQuery struct {
+	function string   // the table function's SQL name, for error messages
+	source   string   // a FROM item from sourceSQL
+	by       []string // group columns, unquoted
+	at       string   // time column, unquoted
+	value    string   // value column, unquoted
+}
+
+// byList returns the quoted group columns joined with commas, with a prefix
+// on each ("g." gives g."store", g."product").
+func (q seriesQuery) byList(prefix string) string {
+	parts := make([]string, len(q.by))
+	for i, b := range q.by {
+		parts[i] = prefix + quoteIdent(b)
+	}
+	return strings.Join(parts, ", ")
+}
+
+// groupLabel is an SQL expression naming the current group in messages,
+// such as store=3, product=milk.
+func (q seriesQuery) groupLabel() string {
+	parts := make([]string, len(q.by))
+	for i, b := range q.by {
+		parts[i] = fmt.Sprintf("%s || coalesce(%s::VARCHAR, 'NULL')", quoteLiteral(b+"="), quoteIdent(b))
+	}
+	return "concat_ws(', ', " + strings.Join(parts, ", ") + ")"
+}
+
+// inputCTE selects the needed columns from the source as plumb_input. Each
+// is picked with COLUMNS(lambda c: c = 'name') rather than by name, because
+// when a name is missing DuckDB's error for an empty COLUMNS lists every
+// column the source has, where a plain reference lists only a few look-alikes.
+func (q seriesQuery) inputCTE() string {
+	names := append(append([]string{}, q.by...), q.at, q.value)
+	seen := map[string]bool{}
+	var cols []string
+	for _, n := range names {
+		if seen[n] {
+			continue
+		}
+		seen[n] = true
+		cols = append(cols, fmt.Sprintf("COLUMNS(lambda c: c = %s)", quoteLiteral(n)))
+	}
+	return fmt.Sprintf("plumb_input AS (\n    SELECT %s\n    FROM %s\n)", strings.Join(cols, ", "), q.source)
+}
+
+// groupsCTE returns three common table expressions:
+//
+//	plumb_input:  the needed columns of the source (see inputCTE);
+//
+//	plumb_groups: one row per group with the group columns, plumb_rows,
+//	              plumb_at (the at values in order) and plumb_raw (the value
+//	              column in at order, in its own type);
+//	plumb_series: the same plus plumb_value, the values as DOUBLE[], after
+//	              checking that at is never NULL and never repeats within a
+//	              group (either is an error that names the group).
+//
+// The value column is cast to DOUBLE, so any numeric type works; a column
+// DuckDB cannot cast fails with DuckDB's own conversion message.
+func (q seriesQuery) groupsCTE() string {
+	at := quoteIdent(q.at)
+	value := quoteIdent(q.value)
+	by := q.byList("")
+	label := q.groupLabel()
+	name := quoteLiteral(q.function + ": ")
+	return q.inputCTE() + fmt.Sprintf(`, plumb_groups AS (
+    SELECT %[1]s,
+           count(*) AS plumb_rows,
+           count(%[2]s) AS plumb_at_present,
+           count(DISTINCT %[2]s) AS plumb_at_distinct,
+           list(%[2]s ORDER BY %[2]s) AS plumb_at,
+           list(%[3]s ORDER BY %[2]s) AS plumb_raw
+    FROM plumb_input
+    GROUP BY %[1]s
+), plumb_series AS (
+    SELECT %[1]s, plumb_rows, plumb_at, plumb_raw,
+           CASE
+               WHEN plumb_at_present < plumb_rows THEN
+                   error(%[5]s || 'column ' || %[6]s || ' is NULL in ' || (plumb_rows - plumb_at_present) || ' rows of group ' || %[7]s)
+               WHEN plumb_at_distinct < plumb_rows THEN
+                   error(%[5]s || 'column ' || %[6]s || ' repeats a value in group ' || %[7]s || ' (' || (plumb_rows - plumb_at_distinct) || ' duplicates); each group needs one row per time point')
+               ELSE plumb_raw::DOUBLE[]
+           END AS plumb_value
+    FROM plumb_groups
+)`, by, at, value, "", name, quoteLiteral(quoteIdent(q.at)), label)
+}
