@@ -6,7 +6,6 @@ import (
 	"testing"
 )
 
-
 func TestDifferencedMatchesWindowLag(t *testing.T) {
 	db := openTest(t)
 	dir := t.TempDir()

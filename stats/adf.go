@@ -1,0 +1,199 @@
+package stats
+
+import "math"
+
+// ADFOptions configure the Augmented Dickey-Fuller test. The zero value
+// fits a constant and chooses the lag by AIC up to Schwert's maximum.
+type ADFOptions struct {
+	Deterministic Deterministic
+	LagRule       LagRule
+	// MaxLag is the largest number of lagged differences tried, or the
+	// number used under LagFixed. Nil means SchwertMaxLag(len(x)), capped at
+	// len(x)/2 - terms - 1 so that the common sample keeps half the series.
+	MaxLag *int
+	// SameSample keeps the chosen model as fitted on the common sample of
+	// the lag search. By default (false) the chosen model is re-fitted on its
+	// own longest sample, len(x)-1-lags observations, as is common practice
+	// (and what python3-statsmodels' adfuller does), so that a short chosen
+	// lag does not waste the observations the longest candidate needed.
+	SameSample bool
+}
+
+// ADF performs the Augmented Dickey-Fuller test (Dickey & Fuller 1979; Said
+// & Dickey 1984) of the null hypothesis that x has a unit root. It fits
+//
+//	Δy_t = [α + β·t] + γ·y_{t-1} + Σ_{i=1..k} δ_i·Δy_{t-i} + e_t
+//
+// by least squares and reports the t-statistic of γ. Under the lag rules AIC,
+// BIC and t_stat every k from 0 to MaxLag is fitted on one common sample
+// (t = MaxLag+2..T), all from one QR factorisation of the widest design (see
+// nestedLS), so their criteria are comparable; the chosen k is then re-fitted
+// on its own longest sample unless SameSample is set. AIC is
+// n·log(SSR/n) + 2m and BIC n·log(SSR/n) + m·log(n) for m regressors.
+//
+// The p-value is MacKinnon's (1994) asymptotic approximation; the critical
+// values are MacKinnon's (2010) finite-sample response surface at the
+// regression's number of observations.
+//
+// Statuses: non_finite for NaN or ±Inf anywhere; constant for a constant
+// series; too_short when the requested lags leave fewer than two residual
+// degrees of freedom or MaxLag exceeds len(x)/2 - terms - 1; singular when
+// the regression fits perfectly or its design is rank deficient.
+func ADF(x []float64, opts ADFOptions) (UnitRootResult, error) {
+	d, err := opts.Deterministic.normalize()
+	if err != nil {
+		return UnitRootResult{}, err
+	}
+	rule, err := opts.LagRule.normalize()
+	if err != nil {
+		return UnitRootResult{}, err
+	}
+	fail := func(s Status) (UnitRootResult, error) { return failed("adf", d, NullUnitRoot, s), nil }
+	if s := checkFinite(x); s != StatusOK {
+		return fail(s)
+	}
+	T := len(x)
+	terms := d.terms()
+	limit := T/2 - terms - 1
+	maxLag := min(SchwertMaxLag(T), limit)
+	if opts.MaxLag != nil {
+		maxLag = *opts.MaxLag
+		if maxLag < 0 {
+			return UnitRootResult{}, errorf("adf: the maximum lag must not be negative, got %d", maxLag)
+		}
+	}
+	if maxLag < 0 || maxLag > limit || T-1-maxLag < terms+1+maxLag+2 {
+		return fail(StatusTooShort)
+	}
+	if isConstant(x) {
+		return fail(StatusConstant)
+	}
+	a := newADFDesign(scaled(x), terms)
+
+	lags := maxLag
+	if rule != LagFixed {
+		lags, err = a.chooseLag(maxLag, rule)
+		if err != nil {
+			return fail(StatusSingular)
+		}
+	}
+	start := lags
+	if opts.SameSample {
+		start = maxLag
+	}
+	tau, n, ok := a.tau(lags, start)
+	if !ok {
+		return fail(StatusSingular)
+	}
+	return UnitRootResult{
+		Method: "adf", Deterministic: d, NullHypothesis: NullUnitRoot, Status: StatusOK,
+		Statistic: tau, PValue: MacKinnonP(tau, d), PValueBound: PValueEstimate,
+		CriticalValues: MacKinnonCritical(d, n), Lags: lags, NObs: n,
+	}, nil
+}
+
+// adfDesign builds ADF regressions on one (scaled) series.
+type adfDesign struct {
+	x, dx []float64
+	terms int
+	ls    nestedLS
+}
+
+func newADFDesign(x []float64, terms int) *adfDesign {
+	dx := make([]float64, len(x)-1)
+	for i := range dx {
+		dx[i] = x[i+1] - x[i]
+	}
+	return &adfDesign{x: x, dx: dx, terms: terms}
+}
+
+// columns returns the design for the sample t = start..len(dx)-1 (indices
+// of dx): the deterministic columns, then the lagged level if levelFirst,
+// then lags lagged differences, then the lagged level if not levelFirst;
+// and the response Δy_t.
+func (a *adfDesign) columns(lags, start int, levelFirst bool) ([][]float64, []float64) {
+	n := len(a.dx) - start
+	cols := make([][]float64, 0, a.terms+1+lags)
+	backing := make([]float64, n*(a.terms+1+lags))
+	next := func() []float64 {
+		c := backing[:n:n]
+		backing = backing[n:]
+		cols = append(cols, c)
+		return c
+	}
+	if a.terms >= 1 {
+		c := next()
+		for i := range c {
+			c[i] = 1
+		}
+	}
+	if a.terms == 2 {
+		c := next()
+		for i := range c {
+			c[i] = float64(i+1) / float64(n) // scaled time: same fit, better conditioning
+		}
+	}
+	level := func() {
+		copy(next(), a.x[start:start+n])
+	}
+	if levelFirst {
+		level()
+	}
+	for j := 1; j <= lags; j++ {
+		copy(next(), a.dx[start-j:start-j+n])
+	}
+	if !levelFirst {
+		level()
+	}
+	y := append([]float64(nil), a.dx[start:]...)
+	return cols, y
+}
+
+// chooseLag fits every lag 0..maxLag on the common sample and applies rule.
+func (a *adfDesign) chooseLag(maxLag int, rule LagRule) (int, error) {
+	cols, y := a.columns(maxLag, maxLag, true)
+	a.ls.factor(cols, y)
+	base := a.terms + 1
+	if a.ls.rank < base {
+		return 0, errSingular
+	}
+	n := float64(a.ls.n)
+	if rule == LagTStat {
+		for k := maxLag; k >= 1; k-- {
+			if base+k <= a.ls.rank && math.Abs(a.ls.tLast(base+k)) >= 1.6448536269514722 {
+				return k, nil
+			}
+		}
+		return 0, nil
+	}
+	best, bestIC := 0, math.Inf(1)
+	for k := 0; k <= maxLag && base+k <= a.ls.rank; k++ {
+		m := float64(base + k)
+		ssr := a.ls.ssr(base + k)
+		if ssr <= 0 {
+			return 0, errSingular
+		}
+		penalty := 2 * m
+		if rule == LagBIC {
+			penalty = m * math.Log(n)
+		}
+		if ic := n*math.Log(ssr/n) + penalty; ic < bestIC {
+			best, bestIC = k, ic
+		}
+	}
+	return best, nil
+}
+
+// tau fits the model with lags lagged differences on the sample starting at
+// start and returns the t-statistic of the lagged level and the number of
+// observations.
+func (a *adfDesign) tau(lags, start int) (float64, int, bool) {
+	cols, y := a.columns(lags, start, false)
+	var ls nestedLS
+	ls.factor(cols, y)
+	m := len(cols)
+	if ls.rank < m || ls.ssr(m) <= 1e-24*ls.n0() {
+		return math.NaN(), 0, false
+	}
+	return ls.tLast(m), ls.n, true
+}

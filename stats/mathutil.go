@@ -1,0 +1,34 @@
+package stats
+
+import (
+	"fmt"
+	"math"
+)
+
+func sqrt(x float64) float64 { return math.Sqrt(x) }
+func nan() float64           { return math.NaN() }
+
+// maxAbs returns the largest |x_i|.
+func maxAbs(x []float64) float64 {
+	m := 0.0
+	for _, v := range x {
+		m = math.Max(m, math.Abs(v))
+	}
+	return m
+}
+
+// scaled returns x divided by its largest magnitude, so that sums of
+// squares cannot overflow even for values near 1e300; every test statistic
+// here is invariant to the scale of the series.
+func scaled(x []float64) []float64 {
+	m := maxAbs(x)
+	out := make([]float64, len(x))
+	for i, v := range x {
+		out[i] = v / m
+	}
+	return out
+}
+
+var errSingular = errorf("singular design")
+
+func errorf(format string, args ...any) error { return fmt.Errorf("stats: "+format, args...) }

@@ -1,0 +1,71 @@
+package stats
+
+import (
+	"encoding/csv"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+)
+
+// The reference values in ../testdata/reference were produced by
+// testdata/reference/regenerate.sh from Debian's python3-statsmodels 0.13.5,
+// r-cran-urca 1.3-3 and r-cran-tseries 0.10-53; see the scripts there.
+const referenceDir = "../testdata/reference"
+
+// readCSV reads a reference CSV file as maps from column name to text.
+func readCSV(t testing.TB, name string) []map[string]string {
+	t.Helper()
+	f, err := os.Open(filepath.Join(referenceDir, name))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	r := csv.NewReader(f)
+	r.FieldsPerRecord = -1
+	recs, err := r.ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	var out []map[string]string
+	for _, rec := range recs[1:] {
+		if len(rec) < len(recs[0]) {
+			continue
+		}
+		m := map[string]string{}
+		for i, h := range recs[0] {
+			m[h] = strings.TrimSpace(rec[i])
+		}
+		out = append(out, m)
+	}
+	return out
+}
+
+func num(t testing.TB, s string) float64 {
+	t.Helper()
+	if s == "NA" || s == "" {
+		return 0
+	}
+	v, err := strconv.ParseFloat(s, 64)
+	if err != nil {
+		t.Fatalf("parse %q: %v", s, err)
+	}
+	return v
+}
+
+// referenceSeries reads every series the reference values were computed on:
+// R's datasets, statsmodels' macrodata and the simulated series, in file order.
+func referenceSeries(t testing.TB) (names []string, series map[string][]float64) {
+	series = map[string][]float64{}
+	for _, f := range []string{"datasets_r.csv", "datasets_statsmodels.csv", "simulated.csv"} {
+		for _, row := range readCSV(t, f) {
+			name := row["dataset"]
+			if _, ok := series[name]; !ok {
+				names = append(names, name)
+			}
+			series[name] = append(series[name], num(t, row["value"]))
+		}
+	}
+	return names, series
+}
