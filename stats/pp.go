@@ -1,0 +1,127 @@
+package stats
+
+import "math"
+
+// PPOptions configure the Phillips-Perron test. The zero value fits a
+// constant and uses the bandwidth SchwertShortLag(len(x)).
+type PPOptions struct {
+	Deterministic Deterministic
+	// Bandwidth of the Bartlett long-run variance; nil means
+	// floor(4·(T/100)^(1/4)).
+	Bandwidth *int
+}
+
+// PPResult adds the normalised-bias statistic Z(α) to the Z(τ) result.
+type PPResult struct {
+	UnitRootResult
+	// ZAlpha is Z(α), the normalised-bias form (no p-value is computed for it).
+	ZAlpha float64
+}
+
+// PhillipsPerron performs the Phillips & Perron (1988) test of the null
+// hypothesis that x has a unit root. It fits
+//
+//	y_t = [α + β·t] + ρ·y_{t-1} + u_t,   t = 2..T (n = T-1 observations),
+//
+// and corrects the Dickey-Fuller statistics for serial correlation in u
+// non-parametrically: with γ_0 = Σû²/n, s² = Σû²/(n-k), λ² the Bartlett
+// long-run variance of û (LongRunVariance) and σ̂ the standard error of ρ̂,
+//
+//	Z(τ) = sqrt(γ_0/λ²)·t_ρ - (λ² - γ_0)·n·σ̂ / (2·λ·s),
+//	Z(α) = n·(ρ̂ - 1) - n²·σ̂²·(λ² - γ_0) / (2·s²).
+//
+// Z(τ) has the Dickey-Fuller τ distribution, so its p-value and critical
+// values are MacKinnon's as for ADF.
+func PhillipsPerron(x []float64, opts PPOptions) (PPResult, error) {
+	d, err := opts.Deterministic.normalize()
+	if err != nil {
+		return PPResult{}, err
+	}
+	if opts.Bandwidth != nil && *opts.Bandwidth < 0 {
+		return PPResult{}, errorf("pp: the bandwidth must not be negative, got %d", *opts.Bandwidth)
+	}
+	fail := func(s Status) (PPResult, error) {
+		return PPResult{UnitRootResult: failed("pp", d, NullUnitRoot, s), ZAlpha: math.NaN()}, nil
+	}
+	if s := checkFinite(x); s != StatusOK {
+		return fail(s)
+	}
+	T := len(x)
+	k := d.terms() + 1
+	if T-1 < k+3 {
+		return fail(StatusTooShort)
+	}
+	if isConstant(x) {
+		return fail(StatusConstant)
+	}
+	l := SchwertShortLag(T)
+	if opts.Bandwidth != nil {
+		l = *opts.Bandwidth
+		if l >= T-1 {
+			return fail(StatusTooShort)
+		}
+	}
+	xs := scaled(x)
+	n := T - 1
+	cols := make([][]float64, 0, k)
+	if d.terms() >= 1 {
+		c := make([]float64, n)
+		for i := range c {
+			c[i] = 1
+		}
+		cols = append(cols, c)
+	}
+	if d.terms() == 2 {
+		c := make([]float64, n)
+		for i := range c {
+			c[i] = float64(i+1) / float64(n)
+		}
+		cols = append(cols, c)
+	}
+	cols = append(cols, append([]float64(nil), xs[:n]...))
+	y := append([]float64(nil), xs[1:]...)
+	var ls nestedLS
+	ls.factor(cols, y)
+	if ls.rank < k {
+		return fail(StatusSingular)
+	}
+	rho := ls.coefLast(k)
+	se := ls.seLast(k)
+	ssr := ls.ssr(k)
+	// Residuals: the Householder-transformed response's tail holds them only
+	// up to rotation, so recompute them from the fitted coefficients.
+	u := residuals(xs, d, rho, ls, k)
+	gamma0 := ssr / float64(n)
+	s := math.Sqrt(ssr / float64(n-k))
+	lambda2 := LongRunVariance(u, l)
+	if !(lambda2 > 0) || !(s > 0) {
+		return fail(StatusSingular)
+	}
+	lambda := math.Sqrt(lambda2)
+	tRho := (rho - 1) / se
+	nf := float64(n)
+	zTau := math.Sqrt(gamma0/lambda2)*tRho - (lambda2-gamma0)*nf*se/(2*lambda*s)
+	zAlpha := nf*(rho-1) - nf*nf*se*se*(lambda2-gamma0)/(2*s*s)
+	return PPResult{
+		UnitRootResult: UnitRootResult{
+			Method: "pp", Deterministic: d, NullHypothesis: NullUnitRoot, Status: StatusOK,
+			Statistic: zTau, PValue: MacKinnonP(zTau, d), PValueBound: PValueEstimate,
+			CriticalValues: MacKinnonCritical(d, n), Lags: l, NObs: n,
+		},
+		ZAlpha: zAlpha,
+	}, nil
+}
+
+// residuals returns y_t - fitted for the Phillips-Perron regression, the
+// deterministic coefficients recovered by least squares on y_t - ρ·y_{t-1}.
+func residuals(xs []float64, d Deterministic, rho float64, _ nestedLS, _ int) []float64 {
+	n := len(xs) - 1
+	w := make([]float64, n)
+	for i := range w {
+		w[i] = xs[i+1] - rho*xs[i]
+	}
+	if d == DeterministicNone {
+		return w
+	}
+	return detrend(w, d)
+}
