@@ -9,7 +9,8 @@ type ADFOptions struct {
 	LagRule       LagRule
 	// MaxLag is the largest number of lagged differences tried, or the
 	// number used under LagFixed. Nil means SchwertMaxLag(len(x)), capped at
-	// len(x)/2 - terms - 1 so that the common sample keeps half the series.
+	// len(x)/2 - terms - 1 so that the common sample keeps half the series,
+	// and so that the widest model keeps two residual degrees of freedom.
 	MaxLag *int
 	// SameSample keeps the chosen model as fitted on the common sample of
 	// the lag search. By default (false) the chosen model is re-fitted on its
@@ -26,8 +27,8 @@ type ADFOptions struct {
 //
 // by least squares and reports the t-statistic of γ. Under the lag rules AIC,
 // BIC and t_stat every k from 0 to MaxLag is fitted on one common sample
-// (t = MaxLag+2..T), all from one QR factorisation of the widest design (see
-// nestedLS), so their criteria are comparable; the chosen k is then re-fitted
+// (t = MaxLag+2..T), all from one factorisation of the widest design (see
+// nestedLS and factorGram), so their criteria are comparable; the chosen k is then re-fitted
 // on its own longest sample unless SameSample is set. AIC is
 // n·log(SSR/n) + 2m and BIC n·log(SSR/n) + m·log(n) for m regressors.
 //
@@ -53,9 +54,13 @@ func ADF(x []float64, opts ADFOptions) (UnitRootResult, error) {
 		return fail(s)
 	}
 	T := len(x)
+	if T >= 2 && isConstant(x) {
+		return fail(StatusConstant)
+	}
 	terms := d.terms()
 	limit := T/2 - terms - 1
-	maxLag := min(SchwertMaxLag(T), limit)
+	// The default also keeps two residual degrees of freedom in the widest model.
+	maxLag := min(SchwertMaxLag(T), limit, (T-4-terms)/2)
 	if opts.MaxLag != nil {
 		maxLag = *opts.MaxLag
 		if maxLag < 0 {
@@ -64,9 +69,6 @@ func ADF(x []float64, opts ADFOptions) (UnitRootResult, error) {
 	}
 	if maxLag < 0 || maxLag > limit || T-1-maxLag < terms+1+maxLag+2 {
 		return fail(StatusTooShort)
-	}
-	if isConstant(x) {
-		return fail(StatusConstant)
 	}
 	a := newADFDesign(scaled(x), terms)
 
@@ -151,8 +153,7 @@ func (a *adfDesign) columns(lags, start int, levelFirst bool) ([][]float64, []fl
 
 // chooseLag fits every lag 0..maxLag on the common sample and applies rule.
 func (a *adfDesign) chooseLag(maxLag int, rule LagRule) (int, error) {
-	cols, y := a.columns(maxLag, maxLag, true)
-	a.ls.factor(cols, y)
+	a.crossProducts(maxLag)
 	base := a.terms + 1
 	if a.ls.rank < base {
 		return 0, errSingular
@@ -196,4 +197,75 @@ func (a *adfDesign) tau(lags, start int) (float64, int, bool) {
 		return math.NaN(), 0, false
 	}
 	return ls.tLast(m), ls.n, true
+}
+
+// crossProducts factors the cross-product matrix of the lag search's widest
+// design [deterministic, level, lags 1..maxLag, Δy] on the common sample.
+// The lagged differences and the response are shifts of one series, Δy, so
+// the products among them follow from the first row by the recurrence
+//
+//	S(i+1, j+1) = S(i, j) + Δy_{s-1-i}·Δy_{s-1-j} - Δy_{s+n-1-i}·Δy_{s+n-1-j}
+//
+// (s the first row of the sample, n its length): about 4·n·p work in all
+// instead of n·p²/2, as DESIGN.md suggests.
+func (a *adfDesign) crossProducts(maxLag int) {
+	start := maxLag
+	n := len(a.dx) - start
+	shift := func(j int) []float64 { return a.dx[start-j : start-j+n] } // lag j; j = 0 is Δy itself
+	var other [][]float64                                               // columns that are not shifts
+	if a.terms >= 1 {
+		c := make([]float64, n)
+		for i := range c {
+			c[i] = 1
+		}
+		other = append(other, c)
+	}
+	if a.terms == 2 {
+		c := make([]float64, n)
+		for i := range c {
+			c[i] = float64(i+1) / float64(n)
+		}
+		other = append(other, c)
+	}
+	other = append(other, a.x[start:start+n])
+	k := len(other)
+	p := k + maxLag
+	m := p + 1
+	mat := make([]float64, m*m)
+	// index of lag j (0..maxLag) in the matrix: lags at k..k+maxLag-1, Δy last.
+	at := func(j int) int {
+		if j == 0 {
+			return p
+		}
+		return k + j - 1
+	}
+	set := func(r, c int, v float64) {
+		if r < c {
+			r, c = c, r
+		}
+		mat[r*m+c] = v
+	}
+	for i := 0; i < k; i++ {
+		for j := 0; j <= i; j++ {
+			set(i, j, dot(other[i], other[j]))
+		}
+		for l := 0; l <= maxLag; l++ {
+			set(at(l), i, dot(other[i], shift(l)))
+		}
+	}
+	s0 := make([]float64, maxLag+1) // S(0, j)
+	for j := 0; j <= maxLag; j++ {
+		s0[j] = dot(shift(0), shift(j))
+	}
+	dx := a.dx
+	for d := 0; d <= maxLag; d++ { // diagonal band: pairs (i, i+d)
+		v := s0[d]
+		set(at(0), at(d), v)
+		for i := 0; i+d < maxLag; i++ {
+			j := i + d
+			v += dx[start-1-i]*dx[start-1-j] - dx[start+n-1-i]*dx[start+n-1-j]
+			set(at(i+1), at(j+1), v)
+		}
+	}
+	a.ls.factorCross(mat, p, n)
 }

@@ -1,0 +1,107 @@
+package stats
+
+import (
+	"math"
+	"math/rand/v2"
+	"testing"
+)
+
+// allUnitRootTests runs every unit-root and stationarity test on x with
+// default options.
+func allUnitRootTests(x []float64) []UnitRootResult {
+	adf, _ := ADF(x, ADFOptions{})
+	adfTrend, _ := ADF(x, ADFOptions{Deterministic: DeterministicTrend, LagRule: LagTStat})
+	kpss, _ := KPSS(x, KPSSOptions{})
+	kpssTrend, _ := KPSS(x, KPSSOptions{Deterministic: DeterministicTrend})
+	pp, _ := PhillipsPerron(x, PPOptions{})
+	dfgls, _ := DFGLS(x, DFGLSOptions{Deterministic: DeterministicTrend})
+	return []UnitRootResult{adf, adfTrend, kpss, kpssTrend, pp.UnitRootResult, dfgls}
+}
+
+func TestUnitRootBadInput(t *testing.T) {
+	ramp := func(n int) []float64 {
+		x := make([]float64, n)
+		for i := range x {
+			x[i] = float64(i%3) + 0.1*float64(i)
+		}
+		return x
+	}
+	rng := rand.New(rand.NewPCG(9, 9))
+	huge := make([]float64, 100)
+	for i := range huge {
+		huge[i] = 1e300 * (0.5 + 0.1*rng.NormFloat64() + 0.002*float64(i))
+	}
+	for _, test := range []struct {
+		name string
+		x    []float64
+		want Status // "" means any status but ok is fine as long as nothing panics
+	}{
+		{"empty", nil, StatusTooShort},
+		{"one", []float64{1}, StatusTooShort},
+		{"three", []float64{1, 5, 2}, StatusTooShort},
+		{"constant", []float64{4, 4, 4, 4, 4, 4, 4, 4, 4, 4, 4, 4, 4, 4, 4, 4, 4, 4, 4, 4}, StatusConstant},
+		{"NaN", append(ramp(30), math.NaN()), StatusNonFinite},
+		{"+Inf", append(ramp(30), math.Inf(1)), StatusNonFinite},
+		{"-Inf", append([]float64{math.Inf(-1)}, ramp(30)...), StatusNonFinite},
+	} {
+		for _, r := range allUnitRootTests(test.x) {
+			if r.Status != test.want {
+				t.Errorf("%s: %s %s status %s, want %s", test.name, r.Method, r.Deterministic, r.Status, test.want)
+			}
+			if r.Status != StatusOK && !math.IsNaN(r.Statistic) {
+				t.Errorf("%s: %s status %s but statistic %v", test.name, r.Method, r.Status, r.Statistic)
+			}
+		}
+	}
+	// Magnitudes near 1e300: scaling keeps every sum finite, and the
+	// statistics equal those of the same series scaled down (every test is
+	// scale invariant).
+	small := make([]float64, len(huge))
+	for i, v := range huge {
+		small[i] = v / 1e300
+	}
+	a, b := allUnitRootTests(huge), allUnitRootTests(small)
+	for i := range a {
+		if a[i].Status != StatusOK || math.Abs(a[i].Statistic-b[i].Statistic) > 1e-9*math.Abs(b[i].Statistic) {
+			t.Errorf("near 1e300: %s %s %v (%s), scaled %v", a[i].Method, a[i].Deterministic, a[i].Statistic, a[i].Status, b[i].Statistic)
+		}
+	}
+	// A lag request larger than the series allows.
+	big := 40
+	if r, _ := ADF(ramp(30), ADFOptions{LagRule: LagFixed, MaxLag: &big}); r.Status != StatusTooShort {
+		t.Errorf("ADF with 40 lags on 30 values: %s", r.Status)
+	}
+	if r, _ := KPSS(ramp(30), KPSSOptions{Bandwidth: &big}); r.Status != StatusTooShort {
+		t.Errorf("KPSS with bandwidth 40 on 30 values: %s", r.Status)
+	}
+	// Unknown options are errors, not statuses.
+	if _, err := ADF(ramp(30), ADFOptions{LagRule: "aicc"}); err == nil {
+		t.Error("unknown lag rule gave no error")
+	}
+	if _, err := KPSS(ramp(30), KPSSOptions{Deterministic: DeterministicNone}); err == nil {
+		t.Error("KPSS without deterministic terms gave no error")
+	}
+	neg := -1
+	if _, err := ADF(ramp(30), ADFOptions{MaxLag: &neg}); err == nil {
+		t.Error("negative maximum lag gave no error")
+	}
+}
+
+// FuzzUnitRoot feeds arbitrary series to every test: none may panic, and an
+// ok status must come with a finite statistic and a p-value in [0, 1].
+func FuzzUnitRoot(f *testing.F) {
+	f.Add([]byte{1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12, 13, 14, 15, 16})
+	f.Add([]byte{0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 1})
+	f.Add([]byte{255, 0, 255, 0, 255, 0, 255, 0, 255, 0, 255, 0, 255, 0, 255, 0, 255, 0, 255, 0, 7, 7, 7})
+	f.Fuzz(func(t *testing.T, data []byte) {
+		x := make([]float64, len(data)/2)
+		for i := range x {
+			x[i] = float64(int16(uint16(data[2*i])<<8|uint16(data[2*i+1]))) * math.Pow(10, float64(data[2*i]%7))
+		}
+		for _, r := range allUnitRootTests(x) {
+			if r.Status == StatusOK && (math.IsNaN(r.Statistic) || math.IsInf(r.Statistic, 0) || !(r.PValue >= 0 && r.PValue <= 1)) {
+				t.Fatalf("%s on %v: ok with statistic %v, p %v", r.Method, x, r.Statistic, r.PValue)
+			}
+		}
+	})
+}
