@@ -103,6 +103,7 @@ func allFunctions() ([]*function, error) {
 	for _, group := range [][]*function{
 		differenceFunctions(t),
 		differencedFunctions(t),
+		unitRootFunctions(t),
 	} {
 		all = append(all, group...)
 	}
@@ -113,6 +114,7 @@ func allFunctions() ([]*function, error) {
 var macros = strings.Join([]string{
 	differenceMacros,
 	differencedMacro,
+	unitRootMacros,
 }, "\n")
 
 // createMacros creates plumb's TEMP macros on one connection.

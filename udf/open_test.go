@@ -82,7 +82,7 @@ func TestOpenRegistersEverything(t *testing.T) {
 		}
 	}
 	for name, kind := range map[string]string{
-		"difference": "macro", "undifference": "macro", "differenced": "table_macro",
+		"difference": "macro", "undifference": "macro", "differenced": "table_macro", "unit_root": "macro",
 	} {
 		if got[name] != kind {
 			t.Errorf("%s: registered as %q, want %q", name, got[name], kind)
