@@ -70,7 +70,7 @@ func ADF(x []float64, opts ADFOptions) (UnitRootResult, error) {
 	if maxLag < 0 || maxLag > limit || T-1-maxLag < terms+1+maxLag+2 {
 		return fail(StatusTooShort)
 	}
-	a := newADFDesign(scaled(x), terms)
+	a := newADFDesign(scaled(x), d)
 
 	lags := maxLag
 	if rule != LagFixed {
@@ -97,16 +97,17 @@ func ADF(x []float64, opts ADFOptions) (UnitRootResult, error) {
 // adfDesign builds ADF regressions on one (scaled) series.
 type adfDesign struct {
 	x, dx []float64
+	d     Deterministic
 	terms int
 	ls    nestedLS
 }
 
-func newADFDesign(x []float64, terms int) *adfDesign {
+func newADFDesign(x []float64, d Deterministic) *adfDesign {
 	dx := make([]float64, len(x)-1)
 	for i := range dx {
 		dx[i] = x[i+1] - x[i]
 	}
-	return &adfDesign{x: x, dx: dx, terms: terms}
+	return &adfDesign{x: x, dx: dx, d: d, terms: d.terms()}
 }
 
 // columns returns the design for the sample t = start..len(dx)-1 (indices
@@ -123,17 +124,8 @@ func (a *adfDesign) columns(lags, start int, levelFirst bool) ([][]float64, []fl
 		cols = append(cols, c)
 		return c
 	}
-	if a.terms >= 1 {
-		c := next()
-		for i := range c {
-			c[i] = 1
-		}
-	}
-	if a.terms == 2 {
-		c := next()
-		for i := range c {
-			c[i] = float64(i+1) / float64(n) // scaled time: same fit, better conditioning
-		}
+	for _, c := range a.d.columns(n) {
+		copy(next(), c)
 	}
 	level := func() {
 		copy(next(), a.x[start:start+n])
@@ -212,22 +204,7 @@ func (a *adfDesign) crossProducts(maxLag int) {
 	start := maxLag
 	n := len(a.dx) - start
 	shift := func(j int) []float64 { return a.dx[start-j : start-j+n] } // lag j; j = 0 is Δy itself
-	var other [][]float64                                               // columns that are not shifts
-	if a.terms >= 1 {
-		c := make([]float64, n)
-		for i := range c {
-			c[i] = 1
-		}
-		other = append(other, c)
-	}
-	if a.terms == 2 {
-		c := make([]float64, n)
-		for i := range c {
-			c[i] = float64(i+1) / float64(n)
-		}
-		other = append(other, c)
-	}
-	other = append(other, a.x[start:start+n])
+	other := append(a.d.columns(n), a.x[start:start+n])                 // the columns that are not shifts
 	k := len(other)
 	p := k + maxLag
 	m := p + 1

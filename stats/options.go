@@ -36,6 +36,26 @@ func (d Deterministic) terms() int {
 	return 1
 }
 
+// columns returns the deterministic regressors for n observations: a
+// column of ones, then (with a trend) the time index scaled to (0, 1],
+// which gives the same fit as 1..n with better conditioning.
+func (d Deterministic) columns(n int) [][]float64 {
+	k := d.terms()
+	out := make([][]float64, k)
+	backing := make([]float64, k*n)
+	for j := range out {
+		out[j] = backing[j*n : (j+1)*n : (j+1)*n]
+		for i := range out[j] {
+			if j == 0 {
+				out[j][i] = 1
+			} else {
+				out[j][i] = float64(i+1) / float64(n)
+			}
+		}
+	}
+	return out
+}
+
 // LagRule says how a test chooses its number of lagged differences.
 type LagRule string
 

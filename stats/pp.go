@@ -63,22 +63,7 @@ func PhillipsPerron(x []float64, opts PPOptions) (PPResult, error) {
 	}
 	xs := scaled(x)
 	n := T - 1
-	cols := make([][]float64, 0, k)
-	if d.terms() >= 1 {
-		c := make([]float64, n)
-		for i := range c {
-			c[i] = 1
-		}
-		cols = append(cols, c)
-	}
-	if d.terms() == 2 {
-		c := make([]float64, n)
-		for i := range c {
-			c[i] = float64(i+1) / float64(n)
-		}
-		cols = append(cols, c)
-	}
-	cols = append(cols, append([]float64(nil), xs[:n]...))
+	cols := append(d.columns(n), append([]float64(nil), xs[:n]...))
 	y := append([]float64(nil), xs[1:]...)
 	var ls nestedLS
 	ls.factor(cols, y)
@@ -89,8 +74,9 @@ func PhillipsPerron(x []float64, opts PPOptions) (PPResult, error) {
 	se := ls.seLast(k)
 	ssr := ls.ssr(k)
 	// Residuals: the Householder-transformed response's tail holds them only
-	// up to rotation, so recompute them from the fitted coefficients.
-	u := residuals(xs, d, rho, ls, k)
+	// up to rotation, so recompute them from ρ̂ (the deterministic part by
+	// least squares on y_t - ρ̂·y_{t-1}, which gives the same fit).
+	u := residuals(xs, d, rho)
 	gamma0 := ssr / float64(n)
 	s := math.Sqrt(ssr / float64(n-k))
 	lambda2 := LongRunVariance(u, l)
@@ -114,7 +100,7 @@ func PhillipsPerron(x []float64, opts PPOptions) (PPResult, error) {
 
 // residuals returns y_t - fitted for the Phillips-Perron regression, the
 // deterministic coefficients recovered by least squares on y_t - ρ·y_{t-1}.
-func residuals(xs []float64, d Deterministic, rho float64, _ nestedLS, _ int) []float64 {
+func residuals(xs []float64, d Deterministic, rho float64) []float64 {
 	n := len(xs) - 1
 	w := make([]float64, n)
 	for i := range w {
