@@ -27,8 +27,11 @@ type PPResult struct {
 // non-parametrically: with γ_0 = Σû²/n, s² = Σû²/(n-k), λ² the Bartlett
 // long-run variance of û (LongRunVariance) and σ̂ the standard error of ρ̂,
 //
-//	Z(τ) = sqrt(γ_0/λ²)·t_ρ - (λ² - γ_0)·n·σ̂ / (2·λ·s),
-//	Z(α) = n·(ρ̂ - 1) - n²·σ̂²·(λ² - γ_0) / (2·s²).
+//	Z(τ) = sqrt(γ_0/λ²)·t_ρ - f·(λ² - γ_0)·n·σ̂ / (2·λ·s),
+//	Z(α) = n·(ρ̂ - 1) - f²·n²·σ̂²·(λ² - γ_0) / (2·s²),
+//
+// where f = 1 with a constant (or none) and f = n/√(n²-1) with a trend, the
+// paper's closed form through the moment matrix's determinant.
 //
 // Z(τ) has the Dickey-Fuller τ distribution, so its p-value and critical
 // values are MacKinnon's as for ADF.
@@ -86,8 +89,16 @@ func PhillipsPerron(x []float64, opts PPOptions) (PPResult, error) {
 	lambda := math.Sqrt(lambda2)
 	tRho := (rho - 1) / se
 	nf := float64(n)
-	zTau := math.Sqrt(gamma0/lambda2)*tRho - (lambda2-gamma0)*nf*se/(2*lambda*s)
-	zAlpha := nf*(rho-1) - nf*nf*se*se*(lambda2-gamma0)/(2*s*s)
+	// With a trend, Phillips & Perron (1988) write n·σ̂/s through the
+	// determinant D of the regressors' moment matrix as n³/(4·√3·√D), which
+	// is the exact OLS value times n/√(n²-1); plumb uses the paper's form, as
+	// r-cran-tseries does (agreement 1e-11, TestPPAgainstTseries).
+	f := 1.0
+	if d == DeterministicTrend {
+		f = nf / math.Sqrt(nf*nf-1)
+	}
+	zTau := math.Sqrt(gamma0/lambda2)*tRho - f*(lambda2-gamma0)*nf*se/(2*lambda*s)
+	zAlpha := nf*(rho-1) - f*f*nf*nf*se*se*(lambda2-gamma0)/(2*s*s)
 	return PPResult{
 		UnitRootResult: UnitRootResult{
 			Method: "pp", Deterministic: d, NullHypothesis: NullUnitRoot, Status: StatusOK,
