@@ -1,0 +1,38 @@
+package stats
+
+// Autocorrelation returns the sample autocorrelations ρ_1..ρ_maxLag of x:
+//
+//	ρ_k = Σ_{t=k..n-1} (x_t - x̄)(x_{t-k} - x̄) / Σ_t (x_t - x̄)²,
+//
+// the usual biased estimator (Box & Jenkins). Lags at or beyond len(x) are
+// left out. A constant series has no autocorrelation: the result is nil.
+func Autocorrelation(x []float64, maxLag int) []float64 {
+	n := len(x)
+	if n < 2 || maxLag < 1 {
+		return nil
+	}
+	mean := 0.0
+	for _, v := range x {
+		mean += v
+	}
+	mean /= float64(n)
+	d := make([]float64, n)
+	var c0 float64
+	for i, v := range x {
+		d[i] = v - mean
+		c0 += d[i] * d[i]
+	}
+	if c0 == 0 {
+		return nil
+	}
+	maxLag = min(maxLag, n-1)
+	out := make([]float64, maxLag)
+	for k := 1; k <= maxLag; k++ {
+		s := 0.0
+		for t := k; t < n; t++ {
+			s += d[t] * d[t-k]
+		}
+		out[k-1] = s / c0
+	}
+	return out
+}

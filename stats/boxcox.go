@@ -1,0 +1,139 @@
+package stats
+
+import "math"
+
+// BoxCox returns the Box & Cox (1964) transform of x:
+//
+//	y = (x^λ - 1)/λ for λ ≠ 0,   y = log x for λ = 0.
+//
+// It needs positive data: any x ≤ 0 gives StatusNonPositive and no values
+// (never a NaN in the output); NaN or ±Inf give StatusNonFinite.
+func BoxCox(x []float64, lambda float64) ([]float64, Status) {
+	if s := checkFinite(x); s != StatusOK || math.IsNaN(lambda) || math.IsInf(lambda, 0) {
+		return nil, StatusNonFinite
+	}
+	for _, v := range x {
+		if v <= 0 {
+			return nil, StatusNonPositive
+		}
+	}
+	out := make([]float64, len(x))
+	for i, v := range x {
+		if lambda == 0 {
+			out[i] = math.Log(v)
+		} else {
+			out[i] = (math.Pow(v, lambda) - 1) / lambda
+		}
+	}
+	return out, StatusOK
+}
+
+// InverseBoxCox undoes BoxCox: x = (λ·y + 1)^(1/λ), or exp(y) for λ = 0.
+// A value with λ·y + 1 ≤ 0 lies outside the transform's range (a forecast
+// can stray there); it gives NaN, and the status says non_positive.
+func InverseBoxCox(y []float64, lambda float64) ([]float64, Status) {
+	out := make([]float64, len(y))
+	status := StatusOK
+	for i, v := range y {
+		switch {
+		case lambda == 0:
+			out[i] = math.Exp(v)
+		case lambda*v+1 <= 0:
+			out[i] = math.NaN()
+			status = StatusNonPositive
+		default:
+			out[i] = math.Pow(lambda*v+1, 1/lambda)
+		}
+	}
+	return out, status
+}
+
+// GuerreroLambda chooses the Box-Cox λ in [-1, 2] by Guerrero's (1993)
+// method: split x into consecutive subseries of length m (the seasonal
+// period, or 2 when there is none), dropping the oldest incomplete one; with
+// mean μ_i and standard deviation s_i of each, choose λ to minimise the
+// coefficient of variation of s_i / μ_i^(1-λ), so that the spread no longer
+// depends on the level. It needs positive data and at least two subseries.
+func GuerreroLambda(x []float64, period int) (float64, Status) {
+	if s := checkFinite(x); s != StatusOK {
+		return math.NaN(), s
+	}
+	for _, v := range x {
+		if v <= 0 {
+			return math.NaN(), StatusNonPositive
+		}
+	}
+	m := period
+	if m < 2 {
+		m = 2
+	}
+	k := len(x) / m
+	if k < 2 {
+		return math.NaN(), StatusTooShort
+	}
+	start := len(x) - k*m
+	mu := make([]float64, k)
+	sd := make([]float64, k)
+	for i := 0; i < k; i++ {
+		seg := x[start+i*m : start+(i+1)*m]
+		mu[i], sd[i] = meanSD(seg)
+	}
+	cv := func(lambda float64) float64 {
+		r := make([]float64, k)
+		for i := range r {
+			r[i] = sd[i] / math.Pow(mu[i], 1-lambda)
+		}
+		mean, s := meanSD(r)
+		return s / mean
+	}
+	return minimizeOnInterval(cv, -1, 2), StatusOK
+}
+
+// meanSD returns the mean and the sample standard deviation (n-1 divisor).
+func meanSD(x []float64) (float64, float64) {
+	n := float64(len(x))
+	mean := 0.0
+	for _, v := range x {
+		mean += v
+	}
+	mean /= n
+	ss := 0.0
+	for _, v := range x {
+		ss += (v - mean) * (v - mean)
+	}
+	if len(x) < 2 {
+		return mean, math.NaN()
+	}
+	return mean, math.Sqrt(ss / (n - 1))
+}
+
+// minimizeOnInterval finds the minimiser of f on [a, b]: a grid of 301
+// points brackets the global minimum, then golden-section search refines it
+// to 1e-10.
+func minimizeOnInterval(f func(float64) float64, a, b float64) float64 {
+	const grid = 300
+	best, bestV := a, math.Inf(1)
+	for i := 0; i <= grid; i++ {
+		x := a + (b-a)*float64(i)/grid
+		if v := f(x); v < bestV {
+			best, bestV = x, v
+		}
+	}
+	step := (b - a) / grid
+	lo, hi := math.Max(a, best-step), math.Min(b, best+step)
+	g := (math.Sqrt(5) - 1) / 2
+	c, d := hi-g*(hi-lo), lo+g*(hi-lo)
+	fc, fd := f(c), f(d)
+	for hi-lo > 1e-10 {
+		if fc < fd {
+			hi, d, fd = d, c, fc
+			c = hi - g*(hi-lo)
+			fc = f(c)
+		} else {
+			lo, c, fc = c, d, fd
+			d = lo + g*(hi-lo)
+			fd = f(d)
+		}
+	}
+	return (lo + hi) / 2
+}
