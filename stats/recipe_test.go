@@ -1,0 +1,107 @@
+package stats
+
+import (
+	"math"
+	"math/rand/v2"
+	"testing"
+)
+
+func TestRecipeRoundTrip(t *testing.T) {
+	rng := rand.New(rand.NewPCG(11, 12))
+	x := make([]float64, 120)
+	level := 50.0
+	for i := range x {
+		level += rng.NormFloat64()
+		x[i] = level + 10*math.Sin(2*math.Pi*float64(i)/12) + 60
+	}
+	for _, r := range []Recipe{
+		{},
+		{Differences: 1},
+		{Differences: 2},
+		{Period: 12, SeasonalDifferences: 1},
+		{Period: 12, SeasonalDifferences: 1, Differences: 1},
+		{BoxCox: true, Lambda: 0},
+		{BoxCox: true, Lambda: 0.5, Period: 12, SeasonalDifferences: 1, Differences: 1},
+		{BoxCox: true, Lambda: -0.3, Differences: 2},
+	} {
+		y, status, err := r.Apply(x)
+		if err != nil || status != StatusOK {
+			t.Fatalf("%+v: %v %s", r, err, status)
+		}
+		if len(y) != len(x)-r.Lost() {
+			t.Errorf("%+v: %d values, want %d", r, len(y), len(x)-r.Lost())
+		}
+		back, status, err := r.Restore(y)
+		if err != nil || status != StatusOK {
+			t.Fatalf("%+v: restore %v %s", r, err, status)
+		}
+		for i := range x {
+			if math.Abs(back[i]-x[i]) > 1e-9*math.Abs(x[i]) {
+				t.Fatalf("%+v: restored[%d] = %v, want %v", r, i, back[i], x[i])
+			}
+		}
+	}
+}
+
+// TestRecipeRestoresForecast checks forecasts whose future is known: the
+// recipe is applied to the first 100 values of a series; the transformed
+// values of the whole series beyond 100 are then exactly what a perfect
+// forecast on the transformed scale would be, and restoring them must give
+// the series' own last 20 values (plain algebra: the differences of the
+// future continue from the last observed levels).
+func TestRecipeRestoresForecast(t *testing.T) {
+	rng := rand.New(rand.NewPCG(13, 14))
+	x := make([]float64, 120)
+	level := 100.0
+	for i := range x {
+		level += 0.5 + rng.NormFloat64()
+		x[i] = level * (1 + 0.2*math.Sin(2*math.Pi*float64(i)/7))
+	}
+	for _, base := range []Recipe{
+		{Differences: 1},
+		{Period: 7, SeasonalDifferences: 1, Differences: 1},
+		{BoxCox: true, Lambda: 0, Period: 7, SeasonalDifferences: 1},
+		{BoxCox: true, Lambda: 0.3, Differences: 2},
+	} {
+		past := base
+		if _, _, err := past.Apply(x[:100]); err != nil {
+			t.Fatal(err)
+		}
+		whole := base
+		yWhole, _, _ := whole.Apply(x)
+		future := yWhole[len(yWhole)-20:]
+		got, status, err := past.RestoreForecast(future)
+		if err != nil || status != StatusOK {
+			t.Fatalf("%+v: %v %s", base, err, status)
+		}
+		for i, v := range got {
+			if want := x[100+i]; math.Abs(v-want) > 1e-9*math.Abs(want) {
+				t.Fatalf("%+v: forecast[%d] restored to %v, want %v", base, i, v, want)
+			}
+		}
+	}
+}
+
+func TestRecipeBadInput(t *testing.T) {
+	r := Recipe{BoxCox: true, Lambda: 0}
+	if _, s, _ := r.Apply([]float64{1, 0, 2}); s != StatusNonPositive {
+		t.Errorf("Box-Cox of a zero: %s", s)
+	}
+	r = Recipe{Differences: 3}
+	if _, s, _ := r.Apply([]float64{1, 2, 3}); s != StatusTooShort {
+		t.Errorf("3 differences of 3 values: %s", s)
+	}
+	r = Recipe{SeasonalDifferences: 1}
+	if _, _, err := r.Apply([]float64{1, 2, 3}); err == nil {
+		t.Error("seasonal difference without a period gave no error")
+	}
+	r = Recipe{Differences: 1}
+	if _, _, err := r.RestoreForecast([]float64{1}); err == nil {
+		t.Error("restoring with a recipe never applied gave no error")
+	}
+	r = Recipe{BoxCox: true, Lambda: 1}
+	r.Apply([]float64{1, 2, 3})
+	if out, s, _ := r.RestoreForecast([]float64{-5}); s != StatusNonPositive || !math.IsNaN(out[0]) {
+		t.Errorf("forecast outside the Box-Cox range: %v %s", out, s)
+	}
+}
