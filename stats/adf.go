@@ -179,37 +179,72 @@ func (a *adfDesign) chooseLag(maxLag int, rule LagRule) (int, error) {
 
 // tau fits the model with lags lagged differences on the sample starting at
 // start and returns the t-statistic of the lagged level and the number of
-// observations.
+// observations. It factors the shifted cross products with the lagged level
+// moved last (so its t-statistic is the last one); when the factor shows
+// the design near singular (a pivot below 1e-8) it falls back to a
+// Householder QR of the design itself.
 func (a *adfDesign) tau(lags, start int) (float64, int, bool) {
-	cols, y := a.columns(lags, start, false)
+	mat, p, n := a.crossMatrix(lags, start)
+	// Move the lagged level (index terms) to the last regressor slot.
+	m := p + 1
+	order := make([]int, 0, m)
+	for i := 0; i < p; i++ {
+		if i != a.terms {
+			order = append(order, i)
+		}
+	}
+	order = append(order, a.terms, p)
+	perm := make([]float64, m*m)
+	for i := 0; i < m; i++ {
+		for j := 0; j <= i; j++ {
+			r, c := order[i], order[j]
+			if r < c {
+				r, c = c, r
+			}
+			perm[i*m+j] = mat[r*m+c]
+		}
+	}
 	var ls nestedLS
-	ls.factor(cols, y)
-	m := len(cols)
-	if ls.rank < m || ls.ssr(m) <= 1e-24*ls.n0() {
+	if ls.factorCross(perm, p, n) >= 1e-8 && ls.rank == p {
+		if ls.ssr(p) > 1e-20*ls.n0() {
+			return ls.tLast(p), n, true
+		}
 		return math.NaN(), 0, false
 	}
-	return ls.tLast(m), ls.n, true
+	cols, y := a.columns(lags, start, false)
+	ls.factor(cols, y)
+	if ls.rank < p || ls.ssr(p) <= 1e-24*ls.n0() {
+		return math.NaN(), 0, false
+	}
+	return ls.tLast(p), ls.n, true
 }
 
 // crossProducts factors the cross-product matrix of the lag search's widest
 // design [deterministic, level, lags 1..maxLag, Δy] on the common sample.
-// The lagged differences and the response are shifts of one series, Δy, so
-// the products among them follow from the first row by the recurrence
+func (a *adfDesign) crossProducts(maxLag int) {
+	mat, p, n := a.crossMatrix(maxLag, maxLag)
+	a.ls.factorCross(mat, p, n)
+}
+
+// crossMatrix returns the lower triangle of the cross-product matrix of the
+// design [deterministic, level, lags 1..lags, Δy] on the sample t =
+// start..len(dx)-1, with the number of regressors p and observations n. The
+// lagged differences and the response are shifts of one series, Δy, so the
+// products among them follow from the first row by the recurrence
 //
 //	S(i+1, j+1) = S(i, j) + Δy_{s-1-i}·Δy_{s-1-j} - Δy_{s+n-1-i}·Δy_{s+n-1-j}
 //
 // (s the first row of the sample, n its length): about 4·n·p work in all
 // instead of n·p²/2, as DESIGN.md suggests.
-func (a *adfDesign) crossProducts(maxLag int) {
-	start := maxLag
+func (a *adfDesign) crossMatrix(lags, start int) ([]float64, int, int) {
 	n := len(a.dx) - start
 	shift := func(j int) []float64 { return a.dx[start-j : start-j+n] } // lag j; j = 0 is Δy itself
 	other := append(a.d.columns(n), a.x[start:start+n])                 // the columns that are not shifts
 	k := len(other)
-	p := k + maxLag
+	p := k + lags
 	m := p + 1
 	mat := make([]float64, m*m)
-	// index of lag j (0..maxLag) in the matrix: lags at k..k+maxLag-1, Δy last.
+	// index of lag j (0..lags) in the matrix: lags at k..k+lags-1, Δy last.
 	at := func(j int) int {
 		if j == 0 {
 			return p
@@ -226,23 +261,19 @@ func (a *adfDesign) crossProducts(maxLag int) {
 		for j := 0; j <= i; j++ {
 			set(i, j, dot(other[i], other[j]))
 		}
-		for l := 0; l <= maxLag; l++ {
+		for l := 0; l <= lags; l++ {
 			set(at(l), i, dot(other[i], shift(l)))
 		}
 	}
-	s0 := make([]float64, maxLag+1) // S(0, j)
-	for j := 0; j <= maxLag; j++ {
-		s0[j] = dot(shift(0), shift(j))
-	}
 	dx := a.dx
-	for d := 0; d <= maxLag; d++ { // diagonal band: pairs (i, i+d)
-		v := s0[d]
+	for d := 0; d <= lags; d++ { // diagonal band: pairs (i, i+d)
+		v := dot(shift(0), shift(d))
 		set(at(0), at(d), v)
-		for i := 0; i+d < maxLag; i++ {
+		for i := 0; i+d < lags; i++ {
 			j := i + d
 			v += dx[start-1-i]*dx[start-1-j] - dx[start+n-1-i]*dx[start+n-1-j]
 			set(at(i+1), at(j+1), v)
 		}
 	}
-	a.ls.factorCross(mat, p, n)
+	return mat, p, n
 }

@@ -37,8 +37,10 @@ func dot(a, b []float64) float64 {
 
 // factorCross fills q from the lower triangle of the (p+1)×(p+1)
 // cross-product matrix a of [X y] (row-major, y last) on n observations.
-// a is overwritten.
-func (q *nestedLS) factorCross(a []float64, p, n int) {
+// a is overwritten. It returns the smallest pivot of the regressors'
+// factor relative to a unit diagonal (1 for orthogonal columns, near 0 for
+// nearly dependent ones).
+func (q *nestedLS) factorCross(a []float64, p, n int) float64 {
 	m := p + 1
 	q.n, q.p = n, p
 	scale := make([]float64, m)
@@ -58,10 +60,14 @@ func (q *nestedLS) factorCross(a []float64, p, n int) {
 	q.z = q.z[:0]
 	q.rdg = q.rdg[:0]
 	q.rank = p
+	minPivot := 1.0
 	for j := 0; j < m; j++ {
 		d := a[j*m+j]
 		for k := 0; k < j; k++ {
 			d -= a[j*m+k] * a[j*m+k]
+		}
+		if j < p {
+			minPivot = math.Min(minPivot, d)
 		}
 		if j < p && d <= 1e-10 {
 			if q.rank == p {
@@ -89,4 +95,5 @@ func (q *nestedLS) factorCross(a []float64, p, n int) {
 		q.z = append(q.z, a[p*m+j]*ys)
 	}
 	q.tail = a[p*m+p] * a[p*m+p] * ys * ys
+	return minPivot
 }

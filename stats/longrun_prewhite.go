@@ -10,8 +10,36 @@ import "math"
 // most of the downward bias that a kernel estimate alone shows for
 // persistent series.
 func PrewhitenedLongRunVariance(e []float64) float64 {
-	if len(e) < 3 {
+	phi, v := ar1Fit(e, 0)
+	if v == nil {
 		return math.NaN()
+	}
+	return LongRunVariance(v, HobijnBandwidth(v)) / ((1 - phi) * (1 - phi))
+}
+
+// blockAR1LongRunVariance estimates the long-run variance of residuals e
+// that were demeaned in consecutive blocks of length m, by an AR(1)
+// approximation: λ² = σ_v²/(1 - φ̃)². Demeaning biases the AR(1) estimate
+// down by about (1 + 3φ)/m (Kendall 1954), so φ̂ is corrected to
+// φ̃ = (m·φ̂ + 1)/(m - 3). A kernel step after prewhitening (as in
+// PrewhitenedLongRunVariance) would sum the negative autocovariances that
+// block demeaning creates and shrink λ²; without it the segment tests of
+// Stability keep their level (measured: 4.6% and 5.6% at 5% on AR(1) with
+// φ = 0.5, where the kernel version gave 10%; TestStabilitySize).
+func blockAR1LongRunVariance(e []float64, m int) float64 {
+	phi, v := ar1Fit(e, m)
+	if v == nil {
+		return math.NaN()
+	}
+	return autocovariance(v, 0) / ((1 - phi) * (1 - phi))
+}
+
+// ar1Fit fits e_t = φ·e_{t-1} + v_t by least squares, with Kendall's bias
+// correction for block demeaning when m > 3, φ kept within ±0.97, and
+// returns φ and the residuals v (nil for fewer than 3 values).
+func ar1Fit(e []float64, m int) (float64, []float64) {
+	if len(e) < 3 {
+		return 0, nil
 	}
 	var num, den float64
 	for t := 1; t < len(e); t++ {
@@ -20,12 +48,15 @@ func PrewhitenedLongRunVariance(e []float64) float64 {
 	}
 	phi := 0.0
 	if den > 0 {
-		phi = math.Max(-0.97, math.Min(0.97, num/den))
+		phi = num / den
+		if m > 3 {
+			phi = (float64(m)*phi + 1) / float64(m-3)
+		}
+		phi = math.Max(-0.97, math.Min(0.97, phi))
 	}
 	v := make([]float64, len(e)-1)
 	for t := 1; t < len(e); t++ {
 		v[t-1] = e[t] - phi*e[t-1]
 	}
-	lrv := LongRunVariance(v, HobijnBandwidth(v))
-	return lrv / ((1 - phi) * (1 - phi))
+	return phi, v
 }

@@ -63,10 +63,10 @@ type StabilityResult struct {
 //
 //	Q = Σ_j m_j (x̄_j - x̄)² / λ²,
 //
-// where λ² is the prewhitened long-run variance (PrewhitenedLongRunVariance)
-// of the deviations from the segment means; under a constant mean Q is
-// asymptotically χ² with k-1 degrees of freedom, whatever the short-run
-// dependence.
+// where λ² is the long-run variance of the deviations from the segment
+// means (blockAR1LongRunVariance: an AR(1) approximation, bias-corrected for
+// the demeaning); under a constant mean and AR(1)-like short-run dependence
+// Q is asymptotically χ² with k-1 degrees of freedom.
 //
 // Equal spreads: the same statistic on z_t = |x_t - M_j|, the absolute
 // deviations from the segment medians that Brown & Forsythe (1974) compare,
@@ -140,6 +140,28 @@ func Stability(x []float64, opts StabilityOptions) (StabilityResult, error) {
 	return r, nil
 }
 
+// spreadPValue is Stability's segment-spread test alone (NaN when the
+// series is too short, constant or not finite).
+func spreadPValue(x []float64, segments int) float64 {
+	if checkFinite(x) != StatusOK || len(x) < 10 || isConstant(x) {
+		return math.NaN()
+	}
+	bounds := segmentBounds(len(x), segments, 0)
+	if bounds == nil {
+		return math.NaN()
+	}
+	z := make([]float64, len(x))
+	for j := 0; j+1 < len(bounds); j++ {
+		seg := x[bounds[j]:bounds[j+1]]
+		med := median(seg)
+		for i, v := range seg {
+			z[bounds[j]+i] = math.Abs(v - med)
+		}
+	}
+	_, p := segmentWald(z, bounds)
+	return p
+}
+
 // segmentBounds returns k+1 boundaries cutting T observations into k
 // consecutive segments of equal length (a multiple of period when period >
 // 1), the oldest segment taking the remainder; nil when segments would be
@@ -165,7 +187,7 @@ func segmentBounds(T, k, period int) []int {
 }
 
 // segmentWald returns Q = Σ m_j (ȳ_j - ȳ)² / λ² and its χ²(k-1) p-value, λ²
-// the prewhitened long-run variance of y about its segment means.
+// the block-AR(1) long-run variance of y about its segment means.
 func segmentWald(y []float64, bounds []int) (float64, float64) {
 	k := len(bounds) - 1
 	total := 0.0
@@ -187,7 +209,7 @@ func segmentWald(y []float64, bounds []int) (float64, float64) {
 		}
 		q += float64(len(seg)) * (m - grand) * (m - grand)
 	}
-	lrv := PrewhitenedLongRunVariance(e)
+	lrv := blockAR1LongRunVariance(e, bounds[k]-bounds[k-1])
 	if !(lrv > 0) {
 		return math.NaN(), math.NaN()
 	}

@@ -128,7 +128,8 @@ func movingAverage(x []float64, m int) []float64 {
 // loessSmooth evaluates a local-linear loess fit of y (at positions 0..n-1)
 // with window q at every position, writing out. The window slides with the
 // point, as in the original STL code: the q nearest positions, or all of
-// them when q ≥ n.
+// them when q ≥ n. Wherever the window sits symmetrically around the point
+// the weights are the same, so they are computed once and reused.
 func loessSmooth(y []float64, q int, out, w []float64) {
 	n := len(y)
 	if n < 2 {
@@ -147,10 +148,26 @@ func loessSmooth(y []float64, q int, out, w []float64) {
 	}
 	half := (q + 1) / 2
 	left, right := 0, q-1
+	var kernel []float64
 	for i := 0; i < n; i++ {
 		if i+1 > half && right != n-1 {
 			left++
 			right++
+		}
+		if i-left == right-i {
+			if kernel == nil {
+				if _, ok := loessAt(y, q, float64(i), left, right, w); ok {
+					kernel = append([]float64(nil), w[left:right+1]...)
+				}
+			}
+			if kernel != nil {
+				v := 0.0
+				for j, k := range kernel {
+					v += k * y[left+j]
+				}
+				out[i] = v
+				continue
+			}
 		}
 		v, ok := loessAt(y, q, float64(i), left, right, w)
 		if !ok {

@@ -166,15 +166,11 @@ func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, er
 		return r, nil
 	}
 	r.MeanStable = r.Differences == 0 && !(r.Stability.MeanPValue < each)
-	after := r.Stability
+	r.SpreadPValue = r.Stability.SpreadPValue
 	if r.Differences > 0 || r.SeasonalDifferences > 0 {
-		after, err = Stability(y, StabilityOptions{Segments: opts.Segments})
-		if err != nil {
-			return r, err
-		}
+		r.SpreadPValue = spreadPValue(y, opts.Segments)
 	}
-	r.SpreadPValue = after.SpreadPValue
-	r.SpreadStable = after.Status != StatusOK || !(after.SpreadPValue < each)
+	r.SpreadStable = !(r.SpreadPValue < each)
 	if !(r.Stability.SpreadPValue >= each) && r.Stability.MeanSpreadCorrelation > 0.5 {
 		if lambda, s := GuerreroLambda(x, stabilityPeriod); s == StatusOK {
 			r.BoxCoxLambda = lambda
