@@ -104,6 +104,8 @@ func allFunctions() ([]*function, error) {
 		differenceFunctions(t),
 		differencedFunctions(t),
 		unitRootFunctions(t),
+		conditionFunctions(t),
+		stationarityFunctions(t),
 	} {
 		all = append(all, group...)
 	}
@@ -115,6 +117,7 @@ var macros = strings.Join([]string{
 	differenceMacros,
 	differencedMacro,
 	unitRootMacros,
+	conditionMacros,
 }, "\n")
 
 // createMacros creates plumb's TEMP macros on one connection.

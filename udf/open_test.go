@@ -83,6 +83,9 @@ func TestOpenRegistersEverything(t *testing.T) {
 	}
 	for name, kind := range map[string]string{
 		"difference": "macro", "undifference": "macro", "differenced": "table_macro", "unit_root": "macro",
+		"stability": "macro", "seasonality": "macro", "white_noise": "macro", "rolling_spread": "macro",
+		"rolling_mean": "macro", "box_cox": "macro", "inverse_box_cox": "macro", "box_cox_lambda": "macro",
+		"stationarity": "macro",
 	} {
 		if got[name] != kind {
 			t.Errorf("%s: registered as %q, want %q", name, got[name], kind)

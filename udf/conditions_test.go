@@ -1,0 +1,83 @@
+package udf
+
+import (
+	"math"
+	"strconv"
+	"strings"
+	"testing"
+)
+
+
+func queryFloat(t *testing.T, q string, s string) float64 {
+	t.Helper()
+	v, err := strconv.ParseFloat(s, 64)
+	if err != nil {
+		t.Fatalf("%s: %q is not a number", q, s)
+	}
+	return v
+}
+
+// TestConditionsSQL checks the SQL functions over R's datasets (read from
+// testdata/reference/datasets_r.csv) against python3-statsmodels 0.13.5 and
+// r-cran-forecast 8.20 values stored in testdata/reference/conditions_*.csv.
+func TestConditionsSQL(t *testing.T) {
+	db := openTest(t)
+	exec(t, db, `CREATE TABLE series AS SELECT dataset, list(value ORDER BY t) AS x
+		FROM read_csv('../testdata/reference/datasets_r.csv') GROUP BY dataset`)
+	for _, test := range []struct {
+		query string
+		want  float64
+		tol   float64
+	}{
+		// statsmodels acorr_ljungbox(nile, lags=[10])
+		{"SELECT white_noise(x).statistic FROM series WHERE dataset = 'nile'", 88.12687155129986, 1e-9},
+		{"SELECT white_noise(x).p_value FROM series WHERE dataset = 'nile'", 1.2586327670205598e-14, 1e-12},
+		// statsmodels STL(co2, period=12, seasonal=7, robust=False, jumps 1).fit(inner_iter=2, outer_iter=0)
+		{"SELECT seasonality(x, period := 12).seasonal_strength FROM series WHERE dataset = 'co2'", 0.9916863040824477, 1e-9},
+		// r-cran-forecast 8.20 BoxCox.lambda(AirPassengers, method = "guerrero"); R's optimize tolerance ≈ 1.2e-4
+		{"SELECT box_cox_lambda(list_transform(x, v -> round(exp(v))), period := 12) FROM series WHERE dataset = 'log_airpassengers'", -0.2947155855593156, 1e-3},
+		// Plain arithmetic: rolling standard deviation of 1, 2, 3, 4 over 3 values is 1.
+		{"SELECT rolling_spread([1, 2, 3, 4], 3)[4]", 1, 0},
+		{"SELECT rolling_mean([1, 2, 3, 4], 2)[4]", 3.5, 0},
+		// Plain arithmetic: log e² = 2; the inverse of the transform with λ = 0.5 at y = 2 is (0.5·2 + 1)² = 4.
+		{"SELECT box_cox([exp(2)], 0)[1]", 2, 1e-15},
+		{"SELECT inverse_box_cox([2], 0.5)[1]", 4, 1e-15},
+	} {
+		got := queryFloat(t, test.query, queryString(t, db, test.query))
+		if math.Abs(got-test.want) > test.tol*math.Max(1, math.Abs(test.want)) {
+			t.Errorf("%s = %v, want %v", test.query, got, test.want)
+		}
+	}
+	for _, test := range []struct{ query, want string }{
+		{"SELECT seasonality(x).period FROM series WHERE dataset = 'nottem'", "12"},
+		{"SELECT seasonality(x).detected FROM series WHERE dataset = 'nottem'", "true"},
+		{"SELECT stationarity(x, period := 12).seasonal_differences FROM series WHERE dataset = 'co2'", "1"},
+		{"SELECT stationarity(x).status FROM series WHERE dataset = 'nile'", "season_unknown"},
+		{"SELECT stationarity(x).violations FROM series WHERE dataset = 'nile'", "[mean]"},
+		{"SELECT stability(x).segments FROM series WHERE dataset = 'nile'", "4"},
+		{"SELECT box_cox([1, 0, 2], 0)", "NULL"},
+		{"SELECT inverse_box_cox([-5], 1)", "[NULL]"},
+		{"SELECT stationarity([1, 2, 3]).status", "too_short"},
+		{"SELECT stationarity([1, 2, 3]).stationary", "NULL"},
+		{"SELECT stationarity([4, 4, 4, 4, 4, 4, 4, 4, 4, 4, 4, 4, 4, 4, 4, 4, 4, 4]).status", "constant"},
+		{"SELECT stability([1, 2, NULL, 4, 5, 6, 7, 8, 9, 10, 11]).status", "non_finite"},
+		{"SELECT white_noise([1, 2]).status", "too_short"},
+		{"SELECT seasonality(range(20)::DOUBLE[], period := 12).status", "season_unknown"},
+		{"SELECT stationarity(NULL::DOUBLE[])", "NULL"},
+	} {
+		if got := queryString(t, db, test.query); got != test.want {
+			t.Errorf("%s = %s, want %s", test.query, got, test.want)
+		}
+	}
+	for _, test := range []struct{ query, want string }{
+		{"SELECT stationarity([1, 2, 3], alpha := 1.5)", "alpha must be between 0 and 1"},
+		{"SELECT stationarity([1, 2, 3], period := 1)", "period must be NULL"},
+		{"SELECT rolling_spread([1, 2, 3], 1)", "width must be at least 2"},
+		{"SELECT stability([1, 2, 3], segments := 1)", "segments must be 0"},
+		{"SELECT white_noise([1, 2, 3], lags := -1)", "must not be negative"},
+	} {
+		if msg := queryError(t, db, test.query); !strings.Contains(msg, test.want) {
+			t.Errorf("%s: error %q does not say %q", test.query, msg, test.want)
+		}
+	}
+}
