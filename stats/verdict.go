@@ -95,9 +95,10 @@ func (r StationarityResult) ViolationList() string {
 //
 //	score = min(10, -log10 p_mean) + min(10, -log10 p_spread) + 10·F_s·[seasonal],
 //
-// with p_mean the smaller of the KPSS and segment-means p-values and 1 - the
-// ADF p-value's complement ignored; F_s is the seasonal strength. It runs
-// from 0 to 30.
+// with p_mean the smaller of the KPSS and segment-means p-values on the
+// original series, p_spread the spread test after the recommended
+// differencing (SpreadPValue), and F_s the seasonal strength. It runs from 0
+// to 30.
 func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, error) {
 	alpha := opts.Alpha
 	if alpha == 0 {
@@ -190,7 +191,7 @@ func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, er
 	if r.KPSS.Status == StatusOK {
 		pMean = math.Min(pMean, r.KPSS.PValue)
 	}
-	r.Score = evidence(pMean) + evidence(r.Stability.SpreadPValue)
+	r.Score = evidence(pMean) + evidence(r.SpreadPValue)
 	if r.Seasonal {
 		r.Score += 10 * season.SeasonalStrength
 	}

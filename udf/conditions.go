@@ -230,21 +230,10 @@ func seasonalityStruct(r stats.SeasonalityResult) map[string]any {
 //
 //	stationarity(series, period := NULL, alpha := 0.05) -> STRUCT
 func stationarityFunctions(t *types) []*function {
-	d := t.double()
 	return []*function{{
-		name:   "plumb_stationarity",
-		params: []duckdb.TypeInfo{t.doubles(), t.bigint(), t.double()},
-		result: t.structOf(
-			field{"mean_stable", t.boolean()}, field{"spread_stable", t.boolean()},
-			field{"seasonal", t.boolean()}, field{"stationary", t.boolean()},
-			field{"violations", t.list(t.varchar())},
-			field{"differences", t.bigint()}, field{"seasonal_differences", t.bigint()},
-			field{"box_cox_lambda", d}, field{"period", t.bigint()}, field{"score", d},
-			field{"adf_statistic", d}, field{"adf_p_value", d}, field{"adf_lags", t.bigint()},
-			field{"kpss_statistic", d}, field{"kpss_p_value", d}, field{"kpss_lags", t.bigint()},
-			field{"mean_p_value", d}, field{"spread_p_value", d}, field{"seasonal_strength", d},
-			field{"status", t.varchar()},
-		),
+		name:     "plumb_stationarity",
+		params:   []duckdb.TypeInfo{t.doubles(), t.bigint(), t.double()},
+		result:   t.structOf(verdictFields(t)...),
 		nullable: true,
 		eval: withSeries(func(x []float64, args []driver.Value) (any, error) {
 			opts, err := stationarityOptions(args[1], args[2])
@@ -258,6 +247,22 @@ func stationarityFunctions(t *types) []*function {
 			return stationarityStruct(r), nil
 		}),
 	}}
+}
+
+// verdictFields is the layout of the stationarity STRUCT, shared by diagnose.
+func verdictFields(t *types) []field {
+	d := t.double()
+	return []field{
+		{"mean_stable", t.boolean()}, {"spread_stable", t.boolean()},
+		{"seasonal", t.boolean()}, {"stationary", t.boolean()},
+		{"violations", t.list(t.varchar())},
+		{"differences", t.bigint()}, {"seasonal_differences", t.bigint()},
+		{"box_cox_lambda", d}, {"period", t.bigint()}, {"score", d},
+		{"adf_statistic", d}, {"adf_p_value", d}, {"adf_lags", t.bigint()},
+		{"kpss_statistic", d}, {"kpss_p_value", d}, {"kpss_lags", t.bigint()},
+		{"mean_p_value", d}, {"spread_p_value", d}, {"seasonal_strength", d},
+		{"status", t.varchar()},
+	}
 }
 
 func stationarityOptions(period, alpha driver.Value) (stats.StationarityOptions, error) {

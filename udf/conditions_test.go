@@ -7,7 +7,6 @@ import (
 	"testing"
 )
 
-
 func queryFloat(t *testing.T, q string, s string) float64 {
 	t.Helper()
 	v, err := strconv.ParseFloat(s, 64)

@@ -106,6 +106,7 @@ func allFunctions() ([]*function, error) {
 		unitRootFunctions(t),
 		conditionFunctions(t),
 		stationarityFunctions(t),
+		diagnoseFunctions(t),
 	} {
 		all = append(all, group...)
 	}
@@ -118,6 +119,7 @@ var macros = strings.Join([]string{
 	differencedMacro,
 	unitRootMacros,
 	conditionMacros,
+	diagnoseMacro,
 }, "\n")
 
 // createMacros creates plumb's TEMP macros on one connection.

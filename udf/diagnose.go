@@ -1,0 +1,180 @@
+package udf
+
+import (
+	"database/sql/driver"
+	"fmt"
+	"strings"
+
+	"github.com/duckdb/duckdb-go/v2"
+
+	"github.com/plumb-sql/plumb/stats"
+)
+
+// diagnoseFunctions provides the per-group work and the SQL of
+//
+//	diagnose(source, by := ..., at := ..., value := ..., period := NULL, alpha := 0.05, fill := 'none')
+//
+// which returns one row per group: the group columns; n, first_at, last_at,
+// gaps (time points missing from the group's usual step), missing (NULL
+// values), status; the verdict of stats.Stationarity with the tests behind
+// it; the Ljung-Box p-value of the series after its recommended transform;
+// Benjamini-Hochberg q-values across all groups for each test's p-value;
+// and rank, 1 for the group furthest from stationary.
+func diagnoseFunctions(t *types) []*function {
+	fields := append(verdictFields(t),
+		field{"n_used", t.bigint()}, field{"step", t.bigint()},
+		field{"gaps", t.bigint()}, field{"missing", t.bigint()},
+		field{"ljung_box_p_value", t.double()},
+	)
+	return []*function{{
+		name:     "plumb_diagnose",
+		params:   []duckdb.TypeInfo{t.anyType(), t.doubles(), t.bigint(), t.double(), t.varchar()},
+		result:   t.structOf(fields...),
+		nullable: true,
+		eval: func(args []driver.Value) (any, error) {
+			if args[0] == nil || args[1] == nil {
+				return nil, nil
+			}
+			at, err := times(args[0])
+			if err != nil {
+				return nil, err
+			}
+			x, err := floats(args[1])
+			if err != nil {
+				return nil, err
+			}
+			opts, err := stationarityOptions(args[2], args[3])
+			if err != nil {
+				return nil, err
+			}
+			fill := stats.FillNone
+			if args[4] != nil {
+				s, err := text(args[4], "fill")
+				if err != nil {
+					return nil, err
+				}
+				fill = stats.FillMethod(s)
+			}
+			return diagnoseGroup(at, x, opts, fill)
+		},
+	}, {
+		name:     "plumb_diagnose_sql",
+		params:   []duckdb.TypeInfo{t.varchar(), t.anyType(), t.varchar(), t.varchar(), t.bigint(), t.double(), t.varchar()},
+		result:   t.varchar(),
+		nullable: true, // period may be NULL
+		eval: func(args []driver.Value) (any, error) {
+			q, err := readSeriesQuery("diagnose", args[:4])
+			if err != nil {
+				return nil, err
+			}
+			if _, err := stationarityOptions(args[4], args[5]); err != nil {
+				return nil, err
+			}
+			fill, err := text(args[6], "fill")
+			if err != nil {
+				return nil, err
+			}
+			if _, err := stats.Regularize(nil, nil, stats.FillMethod(fill)); err != nil {
+				return nil, err
+			}
+			return diagnoseSQL(q, sqlLiteral(args[4]), sqlLiteral(args[5]), quoteLiteral(fill)), nil
+		},
+	}}
+}
+
+// diagnoseGroup judges one group.
+func diagnoseGroup(at []int64, x []float64, opts stats.StationarityOptions, fill stats.FillMethod) (any, error) {
+	reg, err := stats.Regularize(at, x, fill)
+	if err != nil {
+		return nil, err
+	}
+	v, err := stats.Stationarity(reg.Values, opts)
+	if err != nil {
+		return nil, err
+	}
+	out := stationarityStruct(v)
+	out["n_used"] = int64(len(reg.Values))
+	out["step"] = int64(reg.Step)
+	out["gaps"] = int64(reg.Gaps)
+	out["missing"] = int64(reg.Missing)
+	out["ljung_box_p_value"] = nil
+	failed := v.Status != stats.StatusOK && v.Status != stats.StatusSeasonUnknown
+	if !failed {
+		recipe := v.Recipe()
+		if y, s, err := recipe.Apply(reg.Values); err == nil && s == stats.StatusOK {
+			if lb, err := stats.LjungBox(y, 0, 0); err == nil && lb.Status == stats.StatusOK {
+				out["ljung_box_p_value"] = lb.PValue
+			}
+		}
+	}
+	switch {
+	case failed:
+	case (reg.Gaps > 0 || reg.Missing > 0) && fill != stats.FillNone && fill != "":
+		out["status"] = "gaps_filled"
+	case reg.Gaps > 0 || reg.Irregular > 0:
+		out["status"] = "gaps_ignored"
+	}
+	return out, nil
+}
+
+// sqlLiteral renders a NULL, integer or float argument back as SQL.
+func sqlLiteral(v driver.Value) string {
+	switch x := v.(type) {
+	case nil:
+		return "NULL"
+	case float64:
+		return fmt.Sprintf("%v::DOUBLE", x)
+	default:
+		return fmt.Sprint(x)
+	}
+}
+
+// diagnoseTests are the p-value columns that get Benjamini-Hochberg q-values.
+var diagnoseTests = []string{"adf", "kpss", "mean", "spread", "ljung_box"}
+
+func diagnoseSQL(q seriesQuery, period, alpha, fill string) string {
+	by := q.byList("")
+	fields := []string{"status", "gaps", "missing", "n_used",
+		"mean_stable", "spread_stable", "seasonal", "stationary", "violations",
+		"differences", "seasonal_differences", "box_cox_lambda", "period", "seasonal_strength", "score",
+		"adf_statistic", "adf_p_value", "adf_lags", "kpss_statistic", "kpss_p_value", "kpss_lags",
+		"mean_p_value", "spread_p_value", "ljung_box_p_value"}
+	picks := make([]string, len(fields))
+	for i, f := range fields {
+		picks[i] = fmt.Sprintf("plumb_d.%s AS %s", f, f)
+	}
+	var raw, qs []string
+	for _, test := range diagnoseTests {
+		p := test + "_p_value"
+		raw = append(raw, fmt.Sprintf(`%[1]s * count(%[1]s) OVER () / row_number() OVER (PARTITION BY %[1]s IS NULL ORDER BY %[1]s) AS plumb_%[2]s_raw,
+           row_number() OVER (PARTITION BY %[1]s IS NULL ORDER BY %[1]s) AS plumb_%[2]s_i`, p, test))
+		qs = append(qs, fmt.Sprintf(`least(1, min(plumb_%[1]s_raw) OVER (PARTITION BY %[2]s IS NULL ORDER BY %[2]s DESC, plumb_%[1]s_i DESC
+               ROWS BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW)) AS %[1]s_q_value`, test, p))
+	}
+	var exclude []string
+	for _, test := range diagnoseTests {
+		exclude = append(exclude, "plumb_"+test+"_raw", "plumb_"+test+"_i")
+	}
+	return fmt.Sprintf(`WITH %[1]s, plumb_judged AS (
+    SELECT %[2]s, plumb_rows AS n, plumb_at[1] AS first_at, plumb_at[len(plumb_at)] AS last_at,
+           plumb_diagnose(plumb_at, plumb_value, %[3]s, %[4]s, %[5]s) AS plumb_d
+    FROM plumb_series
+), plumb_flat AS (
+    SELECT %[2]s, n, first_at, last_at, %[6]s
+    FROM plumb_judged
+), plumb_raw AS (
+    SELECT *, %[7]s
+    FROM plumb_flat
+)
+SELECT * EXCLUDE (%[8]s), %[9]s,
+       rank() OVER (ORDER BY score DESC NULLS LAST) AS rank
+FROM plumb_raw
+ORDER BY rank, %[2]s`, q.groupsCTE(), by, period, alpha, fill,
+		strings.Join(picks, ", "), strings.Join(raw, ",\n           "),
+		strings.Join(exclude, ", "), strings.Join(qs, ",\n       "))
+}
+
+const diagnoseMacro = `
+CREATE OR REPLACE TEMP MACRO diagnose(source, "by", "at", value, period := NULL, alpha := 0.05, fill := 'none') AS TABLE
+    FROM query(plumb_diagnose_sql(source, "by", "at", value, period::BIGINT, alpha::DOUBLE, fill));
+`

@@ -1,0 +1,49 @@
+package udf
+
+import (
+	"database/sql/driver"
+	"fmt"
+	"math"
+	"time"
+)
+
+// times reads a list of at values (DATE, TIMESTAMP or an integer type) as
+// int64 positions: microseconds since 1970 for dates and timestamps, the
+// numbers themselves otherwise.
+func times(v driver.Value) ([]int64, error) {
+	list, ok := v.([]any)
+	if !ok {
+		return nil, fmt.Errorf("expected a list of times, got %T", v)
+	}
+	out := make([]int64, len(list))
+	for i, e := range list {
+		switch t := e.(type) {
+		case time.Time:
+			out[i] = t.UnixMicro()
+		case int64:
+			out[i] = t
+		case int32:
+			out[i] = int64(t)
+		case int16:
+			out[i] = int64(t)
+		case int8:
+			out[i] = int64(t)
+		case uint64:
+			out[i] = int64(t)
+		case uint32:
+			out[i] = int64(t)
+		case uint16:
+			out[i] = int64(t)
+		case uint8:
+			out[i] = int64(t)
+		case float64:
+			if t != math.Trunc(t) {
+				return nil, fmt.Errorf("the at column must be a DATE, a TIMESTAMP or whole numbers, got %v", t)
+			}
+			out[i] = int64(t)
+		default:
+			return nil, fmt.Errorf("the at column must be a DATE, a TIMESTAMP or an integer, got %T", e)
+		}
+	}
+	return out, nil
+}
