@@ -107,6 +107,8 @@ func allFunctions() ([]*function, error) {
 		conditionFunctions(t),
 		stationarityFunctions(t),
 		diagnoseFunctions(t),
+		rollingDispersionFunctions(t),
+		stationarizeFunctions(t),
 	} {
 		all = append(all, group...)
 	}
@@ -120,6 +122,8 @@ var macros = strings.Join([]string{
 	unitRootMacros,
 	conditionMacros,
 	diagnoseMacro,
+	rollingDispersionMacro,
+	stationarizeMacros,
 }, "\n")
 
 // createMacros creates plumb's TEMP macros on one connection.

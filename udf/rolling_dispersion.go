@@ -1,0 +1,76 @@
+package udf
+
+import (
+	"database/sql/driver"
+	"fmt"
+
+	"github.com/duckdb/duckdb-go/v2"
+
+	"github.com/plumb-sql/plumb/stats"
+)
+
+// rollingDispersionFunctions provides
+//
+//	rolling_dispersion(source, by := ..., at := ..., value := ..., width := 30)
+//
+// returning one row per source row: the group columns, at, the value, and
+// over the trailing window of width values rolling_mean, rolling_sd,
+// mean_ratio (rolling mean over the group's mean), sd_ratio (rolling
+// standard deviation over the group's) and mean_deviation ((rolling mean -
+// group mean) / group standard deviation). The first width-1 rows of each
+// group have NULL there.
+func rollingDispersionFunctions(t *types) []*function {
+	list := t.doubles()
+	return []*function{{
+		name:   "plumb_rolling",
+		params: []duckdb.TypeInfo{t.doubles(), t.bigint()},
+		result: t.structOf(field{"mean", list}, field{"sd", list}, field{"mean_ratio", list}, field{"sd_ratio", list}, field{"mean_deviation", list}),
+		eval: func(args []driver.Value) (any, error) {
+			x, err := floats(args[0])
+			if err != nil {
+				return nil, err
+			}
+			width, err := integer(args[1], "width")
+			if err != nil {
+				return nil, err
+			}
+			r, err := stats.Rolling(x, width)
+			if err != nil {
+				return nil, err
+			}
+			return map[string]any{
+				"mean": listOrNull(r.Mean), "sd": listOrNull(r.SD), "mean_ratio": listOrNull(r.MeanRatio),
+				"sd_ratio": listOrNull(r.SDRatio), "mean_deviation": listOrNull(r.MeanDeviation),
+			}, nil
+		},
+	}, {
+		name:   "plumb_rolling_dispersion_sql",
+		params: []duckdb.TypeInfo{t.varchar(), t.anyType(), t.varchar(), t.varchar(), t.bigint()},
+		result: t.varchar(),
+		eval: func(args []driver.Value) (any, error) {
+			q, err := readSeriesQuery("rolling_dispersion", args[:4])
+			if err != nil {
+				return nil, err
+			}
+			width, err := integer(args[4], "width")
+			if err != nil {
+				return nil, err
+			}
+			if width < 2 {
+				return nil, fmt.Errorf("width must be at least 2, got %d", width)
+			}
+			return fmt.Sprintf(`WITH %[1]s
+SELECT %[2]s, unnest(plumb_at) AS %[3]s, unnest(plumb_raw) AS %[4]s,
+       unnest(plumb_r.mean) AS rolling_mean, unnest(plumb_r.sd) AS rolling_sd,
+       unnest(plumb_r.mean_ratio) AS mean_ratio, unnest(plumb_r.sd_ratio) AS sd_ratio,
+       unnest(plumb_r.mean_deviation) AS mean_deviation
+FROM (SELECT *, plumb_rolling(plumb_value, %[5]d) AS plumb_r FROM plumb_series)`,
+				q.groupsCTE(), q.byList(""), quoteIdent(q.at), quoteIdent(q.value), width), nil
+		},
+	}}
+}
+
+const rollingDispersionMacro = `
+CREATE OR REPLACE TEMP MACRO rolling_dispersion(source, "by", "at", value, width := 30) AS TABLE
+    FROM query(plumb_rolling_dispersion_sql(source, "by", "at", value, width::BIGINT));
+`
