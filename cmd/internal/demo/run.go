@@ -62,6 +62,12 @@ func Run(ctx context.Context, cfg Config, w io.Writer) error {
 	for _, ex := range exs {
 		fmt.Fprintf(w, "\n== %s (examples/%s)\n", ex.Title, ex.Name)
 		for _, stmt := range statements.Split(ex.SQL) {
+			if !returnsRows(stmt) {
+				if _, err := conn.ExecContext(ctx, stmt); err != nil {
+					return fmt.Errorf("example %s: %w", ex.Name, err)
+				}
+				continue
+			}
 			rows, err := conn.QueryContext(ctx, stmt)
 			if err != nil {
 				return fmt.Errorf("example %s: %w", ex.Name, err)
@@ -77,11 +83,28 @@ func Run(ctx context.Context, cfg Config, w io.Writer) error {
 		}
 	}
 
-	differenced := filepath.Join(cfg.Dir, "shops_differenced.parquet")
-	copySQL := fmt.Sprintf(`COPY (FROM differenced('shops', by := ['shop', 'product'], at := 'day', value := 'units')
-      ORDER BY shop, product, day) TO '%s' (FORMAT parquet)`, strings.ReplaceAll(differenced, "'", "''"))
-	if _, err := conn.ExecContext(ctx, copySQL); err != nil {
-		return fmt.Errorf("materialise differenced shops: %w", err)
+	outputs := []struct{ file, sql, what string }{
+		{"shops_differenced.parquet",
+			`FROM differenced('shops', by := ['shop', 'product'], at := 'day', value := 'units') ORDER BY shop, product, day`,
+			"every shop series differenced once (first row of each series NULL)"},
+		{"shops_diagnosis.parquet",
+			`FROM diagnose('shops', by := ['shop', 'product'], at := 'day', value := 'units', period := 7)`,
+			"one row per shop series: the verdict, the tests, q-values and rank"},
+		{"shops_stationary.parquet",
+			`FROM stationarize('shops', by := ['shop', 'product'], at := 'day', value := 'units', period := 7) ORDER BY shop, product, day`,
+			"every shop series transformed by its own recipe"},
+		{"shops_recipes.parquet",
+			`FROM stationarize_recipes('shops', by := ['shop', 'product'], at := 'day', value := 'units', period := 7)`,
+			"the recipes, to restore forecasts with restore()"},
+	}
+	var written [][2]string
+	for _, o := range outputs {
+		path := filepath.Join(cfg.Dir, o.file)
+		copySQL := fmt.Sprintf("COPY (%s) TO '%s' (FORMAT parquet)", o.sql, strings.ReplaceAll(path, "'", "''"))
+		if _, err := conn.ExecContext(ctx, copySQL); err != nil {
+			return fmt.Errorf("materialise %s: %w", o.file, err)
+		}
+		written = append(written, [2]string{path, o.what})
 	}
 
 	fmt.Fprintf(w, "\nFiles written:\n")
@@ -90,8 +113,10 @@ func Run(ctx context.Context, cfg Config, w io.Writer) error {
 		fmt.Fprintf(w, "  %-40s %s\n", f.Data, "the "+ds.Name+" series")
 		fmt.Fprintf(w, "  %-40s %s\n", f.Truth, "what was planted in each "+ds.Name+" series")
 	}
-	fmt.Fprintf(w, "  %-40s %s\n", differenced, "every shop series differenced once (first row of each series NULL)")
-	fmt.Fprintf(w, "\nTry: go run ./cmd/plumb query \"FROM differenced('%s', by := ['shop', 'product'], at := 'day', value := 'units') LIMIT 5\"\n",
+	for _, f := range written {
+		fmt.Fprintf(w, "  %-40s %s\n", f[0], f[1])
+	}
+	fmt.Fprintf(w, "\nTry: go run ./cmd/plumb query \"FROM diagnose('%s', by := ['shop', 'product'], at := 'day', value := 'units') LIMIT 5\"\n",
 		files["shops"].Data)
 	return nil
 }
@@ -113,4 +138,22 @@ func kindCounts(ds demodata.Dataset) string {
 		parts = append(parts, fmt.Sprintf("%s %d", k, counts[k]))
 	}
 	return strings.Join(parts, ", ")
+}
+
+// returnsRows reports whether a statement is a query whose rows are worth
+// printing (not CREATE, INSERT, COPY, SET and the like).
+func returnsRows(stmt string) bool {
+	for _, line := range strings.Split(stmt, "\n") {
+		line = strings.TrimSpace(line)
+		if line == "" || strings.HasPrefix(line, "--") {
+			continue
+		}
+		word := strings.ToUpper(strings.Fields(line)[0])
+		switch word {
+		case "SELECT", "WITH", "FROM", "VALUES", "TABLE", "SUMMARIZE", "DESCRIBE", "SHOW", "EXPLAIN", "PIVOT", "UNPIVOT", "(":
+			return true
+		}
+		return false
+	}
+	return false
 }

@@ -19,7 +19,8 @@ func TestRunWritesFilesAndSummary(t *testing.T) {
 	if err := Run(context.Background(), Config{Dir: dir, Seed: 1, Sizes: demodata.DefaultSizes}, &out); err != nil {
 		t.Fatal(err)
 	}
-	for _, f := range []string{"shops.parquet", "shops_truth.parquet", "containers.parquet", "containers_truth.parquet", "shops_differenced.parquet"} {
+	for _, f := range []string{"shops.parquet", "shops_truth.parquet", "containers.parquet", "containers_truth.parquet", "shops_differenced.parquet",
+		"shops_diagnosis.parquet", "shops_stationary.parquet", "shops_recipes.parquet"} {
 		if st, err := os.Stat(filepath.Join(dir, f)); err != nil || st.Size() == 0 {
 			t.Errorf("%s: %v", f, err)
 		}
