@@ -36,3 +36,34 @@ func Autocorrelation(x []float64, maxLag int) []float64 {
 	}
 	return out
 }
+
+// autocorrelationAt returns the sample autocorrelations of x at the given
+// lags only (each below len(x)), as Autocorrelation defines them; nil for a
+// constant or too short series.
+func autocorrelationAt(x []float64, lags []int) []float64 {
+	n := len(x)
+	if n < 2 || len(lags) == 0 {
+		return nil
+	}
+	mean := 0.0
+	for _, v := range x {
+		mean += v
+	}
+	mean /= float64(n)
+	var c0 float64
+	for _, v := range x {
+		c0 += (v - mean) * (v - mean)
+	}
+	if c0 == 0 {
+		return nil
+	}
+	out := make([]float64, len(lags))
+	for i, k := range lags {
+		s := 0.0
+		for t := k; t < n; t++ {
+			s += (x[t] - mean) * (x[t-k] - mean)
+		}
+		out[i] = s / c0
+	}
+	return out
+}

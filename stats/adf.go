@@ -100,6 +100,21 @@ type adfDesign struct {
 	d     Deterministic
 	terms int
 	ls    nestedLS
+	// sum[u] = Σ_{v<u} dx_v and wsum[u] = Σ_{v<u} v·dx_v, built on first use.
+	sum, wsum []float64
+}
+
+// prefix builds the prefix sums of dx and of u·dx_u once.
+func (a *adfDesign) prefix() {
+	if a.sum != nil {
+		return
+	}
+	a.sum = make([]float64, len(a.dx)+1)
+	a.wsum = make([]float64, len(a.dx)+1)
+	for u, v := range a.dx {
+		a.sum[u+1] = a.sum[u] + v
+		a.wsum[u+1] = a.wsum[u] + float64(u)*v
+	}
 }
 
 func newADFDesign(x []float64, d Deterministic) *adfDesign {
@@ -261,9 +276,25 @@ func (a *adfDesign) crossMatrix(lags, start int) ([]float64, int, int) {
 		for j := 0; j <= i; j++ {
 			set(i, j, dot(other[i], other[j]))
 		}
-		for l := 0; l <= lags; l++ {
-			set(at(l), i, dot(other[i], shift(l)))
+	}
+	// Deterministic columns against the shifts: window sums of Δy and of
+	// u·Δy_u from prefix sums, O(1) each. The level column needs a dot
+	// product per lag.
+	a.prefix()
+	for l := 0; l <= lags; l++ {
+		lo, hi := start-l, start-l+n // the window of dx that shift(l) covers
+		c := 0
+		if a.terms >= 1 {
+			set(at(l), c, a.sum[hi]-a.sum[lo])
+			c++
 		}
+		if a.terms == 2 {
+			// Σ_r (r+1)/n · dx[lo+r] = (Σ u·dx_u - (lo-1)·Σ dx_u)/n over the window.
+			w := (a.wsum[hi] - a.wsum[lo]) - float64(lo-1)*(a.sum[hi]-a.sum[lo])
+			set(at(l), c, w/float64(n))
+			c++
+		}
+		set(at(l), c, dot(other[c], shift(l)))
 	}
 	dx := a.dx
 	for d := 0; d <= lags; d++ { // diagonal band: pairs (i, i+d)

@@ -78,10 +78,15 @@ func GuerreroLambda(x []float64, period int) (float64, Status) {
 		seg := x[start+i*m : start+(i+1)*m]
 		mu[i], sd[i] = meanSD(seg)
 	}
+	// r_i(λ) = s_i·exp((λ-1)·log μ_i); the logarithms are taken once.
+	logMu := make([]float64, k)
+	for i := range mu {
+		logMu[i] = math.Log(mu[i])
+	}
+	r := make([]float64, k)
 	cv := func(lambda float64) float64 {
-		r := make([]float64, k)
 		for i := range r {
-			r[i] = sd[i] / math.Pow(mu[i], 1-lambda)
+			r[i] = sd[i] * math.Exp((lambda-1)*logMu[i])
 		}
 		mean, s := meanSD(r)
 		return s / mean
@@ -107,11 +112,11 @@ func meanSD(x []float64) (float64, float64) {
 	return mean, math.Sqrt(ss / (n - 1))
 }
 
-// minimizeOnInterval finds the minimiser of f on [a, b]: a grid of 301
+// minimizeOnInterval finds the minimiser of f on [a, b]: a grid of 31
 // points brackets the global minimum, then golden-section search refines it
 // to 1e-10.
 func minimizeOnInterval(f func(float64) float64, a, b float64) float64 {
-	const grid = 300
+	const grid = 30
 	best, bestV := a, math.Inf(1)
 	for i := 0; i <= grid; i++ {
 		x := a + (b-a)*float64(i)/grid

@@ -20,9 +20,13 @@ func autocovariance(e []float64, j int) float64 {
 // where γ_j is the biased sample autocovariance. The weights keep the
 // estimate non-negative.
 func LongRunVariance(e []float64, l int) float64 {
-	s := autocovariance(e, 0)
-	for j := 1; j <= l && j < len(e); j++ {
-		s += 2 * (1 - float64(j)/float64(l+1)) * autocovariance(e, j)
+	g := autocovariances(e, l)
+	if g == nil {
+		return 0
+	}
+	s := g[0]
+	for j := 1; j < len(g); j++ {
+		s += 2 * (1 - float64(j)/float64(l+1)) * g[j]
 	}
 	return s
 }

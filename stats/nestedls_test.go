@@ -115,3 +115,19 @@ func TestGramMatchesQR(t *testing.T) {
 		}
 	}
 }
+
+// TestAutocovariancesFFT: the FFT route equals the direct sums (to 1e-12
+// relative to γ_0).
+func TestAutocovariancesFFT(t *testing.T) {
+	rng := rand.New(rand.NewPCG(7, 8))
+	e := make([]float64, 777)
+	for i := range e {
+		e[i] = rng.NormFloat64()
+	}
+	got := autocovariances(e, 200)
+	for j := 0; j <= 200; j++ {
+		if want := autocovariance(e, j); math.Abs(got[j]-want) > 1e-12*got[0] {
+			t.Fatalf("γ_%d = %v, want %v", j, got[j], want)
+		}
+	}
+}

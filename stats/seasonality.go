@@ -80,8 +80,8 @@ func Seasonality(x []float64, opts SeasonalityOptions) (SeasonalityResult, error
 		return r, nil
 	}
 	r.Period = period
-	if acf := Autocorrelation(d, period); len(acf) == period {
-		r.PeakAutocorrelation = acf[period-1]
+	if acf := autocorrelationAt(d, []int{period}); acf != nil {
+		r.PeakAutocorrelation = acf[0]
 	}
 	dec, status := STL(x, period, STLOptions{})
 	if status != StatusOK {
@@ -99,28 +99,30 @@ func Seasonality(x []float64, opts SeasonalityOptions) (SeasonalityResult, error
 // series of length n, or 0 when no candidate fits or none shows a positive
 // autocorrelation.
 func detectPeriod(d []float64, n int, candidates []int) int {
-	fits := func(p int) bool { return p >= 2 && n >= 3*p }
-	maxLag := 0
+	var lags []int
 	for _, p := range candidates {
-		if fits(p) {
-			maxLag = max(maxLag, p)
+		if p >= 2 && n >= 3*p && p < len(d) {
+			lags = append(lags, p)
 		}
 	}
-	acf := Autocorrelation(d, maxLag)
+	acf := autocorrelationAt(d, lags)
+	if acf == nil {
+		return 0
+	}
 	// Only a peak above the 1% band of white noise, 2.576/√n, counts.
 	best := 2.576 / math.Sqrt(float64(len(d)))
 	found := false
-	for _, p := range candidates {
-		if fits(p) && p <= len(acf) && acf[p-1] > best {
-			best, found = acf[p-1], true
+	for _, a := range acf {
+		if a > best {
+			best, found = a, true
 		}
 	}
 	if !found {
 		return 0
 	}
 	chosen := 0
-	for _, p := range candidates {
-		if fits(p) && p <= len(acf) && acf[p-1] >= 0.8*best && (chosen == 0 || p < chosen) {
+	for i, p := range lags {
+		if acf[i] >= 0.8*best && (chosen == 0 || p < chosen) {
 			chosen = p
 		}
 	}

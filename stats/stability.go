@@ -76,6 +76,13 @@ type StabilityResult struct {
 // Statuses: non_finite; too_short below 10 observations or when segments
 // would hold fewer than 5; constant.
 func Stability(x []float64, opts StabilityOptions) (StabilityResult, error) {
+	return stability(x, opts, true)
+}
+
+// stability computes Stability; with full false it leaves out what the
+// verdict does not use (ARCH-LM, the trend slope, Mann-Kendall and the
+// classic Brown-Forsythe test), which are then NaN.
+func stability(x []float64, opts StabilityOptions, full bool) (StabilityResult, error) {
 	if opts.Segments < 0 || opts.Segments == 1 || opts.ArchLags < 0 {
 		return StabilityResult{}, errorf("stability: segments must be 0 (automatic) or at least 2, and ARCH lags not negative")
 	}
@@ -122,7 +129,6 @@ func Stability(x []float64, opts StabilityOptions) (StabilityResult, error) {
 	}
 	r.MeanStatistic, r.MeanPValue = segmentWald(xs, bounds)
 	r.SpreadStatistic, r.SpreadPValue = segmentWald(z, bounds)
-	r.BrownForsytheF, r.BrownForsytheP = brownForsythe(z, bounds)
 	minSD, maxSD := math.Inf(1), 0.0
 	for _, s := range sds {
 		minSD, maxSD = math.Min(minSD, s), math.Max(maxSD, s)
@@ -130,6 +136,13 @@ func Stability(x []float64, opts StabilityOptions) (StabilityResult, error) {
 	r.SpreadRatio = maxSD / minSD
 	r.MeanSpreadCorrelation = correlation(means, sds)
 	r.ArchLags = opts.ArchLags
+	if !full {
+		n := math.NaN()
+		r.BrownForsytheF, r.BrownForsytheP, r.ArchStatistic, r.ArchPValue = n, n, n, n
+		r.TrendSlope, r.TrendT, r.TrendPValue, r.MannKendallZ, r.MannKendallPValue = n, n, n, n, n
+		return r, nil
+	}
+	r.BrownForsytheF, r.BrownForsytheP = brownForsythe(z, bounds)
 	if r.ArchLags == 0 {
 		r.ArchLags = 5
 	}

@@ -39,7 +39,9 @@ type StationarityResult struct {
 	// Score ranks series by how far they are from stationary (see
 	// Stationarity); 0 for a series with no evidence against.
 	Score float64
-	// The tests behind the verdict, on the original series.
+	// The tests behind the verdict, on the original series. Stability
+	// holds the segment tests only (its ARCH, trend and Mann-Kendall fields
+	// are NaN; call Stability for those).
 	ADF, KPSS   UnitRootResult
 	Stability   StabilityResult
 	Seasonality SeasonalityResult
@@ -158,7 +160,7 @@ func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, er
 		r.ADF, _ = ADF(x, ADFOptions{})
 		r.KPSS, _ = KPSS(x, KPSSOptions{})
 	}
-	r.Stability, err = Stability(x, StabilityOptions{Segments: opts.Segments, Period: stabilityPeriod})
+	r.Stability, err = stability(x, StabilityOptions{Segments: opts.Segments, Period: stabilityPeriod}, false)
 	if err != nil {
 		return r, err
 	}

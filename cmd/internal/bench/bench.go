@@ -1,0 +1,165 @@
+// Package bench measures plumb side by side with DuckDB's own floor and with
+// the loop practitioners write today, each phase in a child process of its
+// own so that its wall time and peak memory are its own.
+package bench
+
+import (
+	"bytes"
+	"context"
+	"fmt"
+	"io"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"syscall"
+	"time"
+
+	"github.com/plumb-sql/plumb/udf"
+)
+
+// Config says what to measure.
+type Config struct {
+	Groups, Length int
+	Dir            string
+	// Reference is the number of groups the reference-library loop runs on
+	// (0 to skip it); its time is extrapolated to all groups.
+	Reference int
+}
+
+// Phase names a measured step.
+type Phase string
+
+const (
+	PhaseFloor    Phase = "floor"    // DuckDB: list(v ORDER BY t) per group
+	PhaseDiagnose Phase = "diagnose" // plumb: diagnose with default options
+)
+
+// Result is one measured phase.
+type Result struct {
+	Phase   string
+	Wall    time.Duration
+	PeakRSS int64 // bytes
+	Groups  int
+	Note    string
+}
+
+// Generate writes G groups of T observations to dir/series_G_T.parquet
+// (half random walks, half noise around a weekly pattern) and returns its
+// path; an existing file is reused.
+func Generate(ctx context.Context, cfg Config) (string, error) {
+	path := filepath.Join(cfg.Dir, fmt.Sprintf("series_%d_%d.parquet", cfg.Groups, cfg.Length))
+	if _, err := os.Stat(path); err == nil {
+		return path, nil
+	}
+	if err := os.MkdirAll(cfg.Dir, 0o755); err != nil {
+		return "", err
+	}
+	db, err := udf.Open(ctx, udf.Options{})
+	if err != nil {
+		return "", err
+	}
+	defer db.Close()
+	q := fmt.Sprintf(`COPY (
+		SELECT g, t,
+		       CASE WHEN g %% 2 = 0
+		            THEN 100 + sum(random() - 0.5) OVER (PARTITION BY g ORDER BY t)
+		            ELSE 100 + 3 * sin(t * 0.8976) + (random() - 0.5) * 4 END AS v
+		FROM range(%d) AS gs(g), range(%d) AS ts(t)
+		ORDER BY g, t
+	) TO '%s' (FORMAT parquet, ROW_GROUP_SIZE 1000000)`, cfg.Groups, cfg.Length, strings.ReplaceAll(path, "'", "''"))
+	if _, err := db.ExecContext(ctx, q); err != nil {
+		return "", fmt.Errorf("generate %s: %w", path, err)
+	}
+	return path, nil
+}
+
+// PhaseSQL is the query each phase runs; both read every value and return
+// one small row, so the client's share is nil.
+func PhaseSQL(p Phase, file string) (string, error) {
+	src := strings.ReplaceAll(file, "'", "''")
+	switch p {
+	case PhaseFloor:
+		return fmt.Sprintf(`SELECT count(*), sum(len(l)) FROM (SELECT g, list(v ORDER BY t) AS l FROM '%s' GROUP BY g)`, src), nil
+	case PhaseDiagnose:
+		return fmt.Sprintf(`SELECT count(*), sum(n) FROM diagnose('%s', by := 'g', at := 't', value := 'v')`, src), nil
+	}
+	return "", fmt.Errorf("unknown phase %q", p)
+}
+
+// RunPhase runs one phase in this process and prints "groups values".
+func RunPhase(ctx context.Context, p Phase, file string, w io.Writer) error {
+	q, err := PhaseSQL(p, file)
+	if err != nil {
+		return err
+	}
+	db, err := udf.Open(ctx, udf.Options{})
+	if err != nil {
+		return err
+	}
+	defer db.Close()
+	var groups, values int64
+	if err := db.QueryRowContext(ctx, q).Scan(&groups, &values); err != nil {
+		return err
+	}
+	_, err = fmt.Fprintf(w, "%d %d\n", groups, values)
+	return err
+}
+
+// Measure runs argv as a child process and returns its wall time, peak
+// resident memory and standard output.
+func Measure(ctx context.Context, argv []string) (time.Duration, int64, string, error) {
+	cmd := exec.CommandContext(ctx, argv[0], argv[1:]...)
+	var out, errOut bytes.Buffer
+	cmd.Stdout, cmd.Stderr = &out, &errOut
+	start := time.Now()
+	err := cmd.Run()
+	wall := time.Since(start)
+	if err != nil {
+		return wall, 0, "", fmt.Errorf("%s: %w: %s", strings.Join(argv, " "), err, strings.TrimSpace(errOut.String()))
+	}
+	var rss int64
+	if u, ok := cmd.ProcessState.SysUsage().(*syscall.Rusage); ok {
+		rss = u.Maxrss * 1024 // Linux reports kilobytes
+	}
+	return wall, rss, out.String(), nil
+}
+
+// Run measures the phases for cfg with the plumb binary self and writes a
+// table to w.
+func Run(ctx context.Context, cfg Config, self string, w io.Writer) ([]Result, error) {
+	file, err := Generate(ctx, cfg)
+	if err != nil {
+		return nil, err
+	}
+	var results []Result
+	for _, p := range []Phase{PhaseFloor, PhaseDiagnose} {
+		wall, rss, out, err := Measure(ctx, []string{self, "bench", "--phase", string(p), "--file", file})
+		if err != nil {
+			return nil, err
+		}
+		groups, _ := strconv.Atoi(strings.Fields(out + " 0")[0])
+		results = append(results, Result{Phase: string(p), Wall: wall, PeakRSS: rss, Groups: groups})
+	}
+	if cfg.Reference > 0 {
+		r, err := referenceLoop(ctx, cfg, file)
+		if err != nil {
+			fmt.Fprintf(w, "reference loop skipped: %v\n", err)
+		} else {
+			results = append(results, r)
+		}
+	}
+	writeTable(w, cfg, results)
+	return results, nil
+}
+
+func writeTable(w io.Writer, cfg Config, results []Result) {
+	fmt.Fprintf(w, "%d groups x %d observations\n", cfg.Groups, cfg.Length)
+	fmt.Fprintf(w, "%-34s %10s %12s %12s %10s\n", "phase", "wall (s)", "groups/s", "peak RSS MB", "vs floor")
+	floor := results[0].Wall
+	for _, r := range results {
+		fmt.Fprintf(w, "%-34s %10.2f %12.0f %12.0f %9.2fx %s\n", r.Phase, r.Wall.Seconds(),
+			float64(cfg.Groups)/r.Wall.Seconds(), float64(r.PeakRSS)/(1<<20), r.Wall.Seconds()/floor.Seconds(), r.Note)
+	}
+}

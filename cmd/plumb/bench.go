@@ -1,0 +1,47 @@
+package main
+
+import (
+	"fmt"
+	"os"
+
+	"github.com/spf13/cobra"
+
+	"github.com/plumb-sql/plumb/cmd/internal/bench"
+)
+
+func newBenchCommand() *cobra.Command {
+	cfg := bench.Config{Groups: 10000, Length: 1000, Dir: "plumb-bench", Reference: 0}
+	var phase, file string
+	cmd := &cobra.Command{
+		Use:   "bench",
+		Short: "Time diagnose against DuckDB's own floor (and a reference-library loop) side by side",
+		Long: `Generates a Parquet file of G groups x T observations (reused if present), then
+runs, each in a child process of its own, DuckDB's list(v ORDER BY t) per group
+(the data-movement floor) and plumb's diagnose with default options, and
+prints wall time, groups per second, peak resident memory and the ratio to the
+floor. With --reference N it also times python3-statsmodels' adfuller and kpss
+over N groups of the same file and extrapolates to all groups.`,
+		Args: cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, args []string) error {
+			if phase != "" {
+				return bench.RunPhase(cmd.Context(), bench.Phase(phase), file, cmd.OutOrStdout())
+			}
+			self, err := os.Executable()
+			if err != nil {
+				return fmt.Errorf("find the plumb binary: %w", err)
+			}
+			_, err = bench.Run(cmd.Context(), cfg, self, cmd.OutOrStdout())
+			return err
+		},
+	}
+	f := cmd.Flags()
+	f.IntVar(&cfg.Groups, "groups", cfg.Groups, "number of groups G")
+	f.IntVar(&cfg.Length, "length", cfg.Length, "observations per group T")
+	f.StringVar(&cfg.Dir, "dir", cfg.Dir, "where the generated Parquet files go")
+	f.IntVar(&cfg.Reference, "reference", cfg.Reference, "time the statsmodels loop on this many groups (0: skip)")
+	f.StringVar(&phase, "phase", "", "run one phase in this process (used by bench itself)")
+	f.StringVar(&file, "file", "", "the Parquet file for --phase")
+	f.MarkHidden("phase")
+	f.MarkHidden("file")
+	return cmd
+}

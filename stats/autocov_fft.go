@@ -1,0 +1,56 @@
+package stats
+
+import (
+	"sync"
+
+	"gonum.org/v1/gonum/dsp/fourier"
+)
+
+// autocovariances returns γ_0..γ_maxLag of the mean-zero series e (biased,
+// as autocovariance defines them). Beyond a few dozen lags it uses the
+// Wiener-Khinchin route, γ = IFFT(|FFT(e zero-padded to ≥ 2n)|²)/n, which
+// costs n·log n instead of n·maxLag.
+func autocovariances(e []float64, maxLag int) []float64 {
+	n := len(e)
+	maxLag = min(maxLag, n-1)
+	if maxLag < 0 {
+		return nil
+	}
+	out := make([]float64, maxLag+1)
+	if maxLag <= 32 || n < 64 {
+		for j := range out {
+			out[j] = autocovariance(e, j)
+		}
+		return out
+	}
+	size := 1
+	for size < 2*n {
+		size <<= 1
+	}
+	pool := fftPool(size)
+	fft := pool.Get().(*fourier.FFT)
+	defer pool.Put(fft)
+	padded := make([]float64, size)
+	copy(padded, e)
+	coeff := fft.Coefficients(nil, padded)
+	for i, c := range coeff {
+		re, im := real(c), imag(c)
+		coeff[i] = complex(re*re+im*im, 0)
+	}
+	seq := fft.Sequence(nil, coeff)
+	// gonum's inverse is unnormalised: divide by size, then by n.
+	for j := range out {
+		out[j] = seq[j] / float64(size) / float64(n)
+	}
+	return out
+}
+
+var ffts sync.Map // size -> *sync.Pool of *fourier.FFT
+
+// fftPool returns the pool of FFT plans of one size. A plan keeps work
+// space, so one is taken from the pool for each call (DuckDB calls plumb's
+// functions from several threads at once) and put back after.
+func fftPool(size int) *sync.Pool {
+	p, _ := ffts.LoadOrStore(size, &sync.Pool{New: func() any { return fourier.NewFFT(size) }})
+	return p.(*sync.Pool)
+}
