@@ -25,6 +25,7 @@ func conditionFunctions(t *types) []*function {
 	return []*function{
 		{
 			name:     "plumb_stability",
+			parallel: true,
 			params:   []duckdb.TypeInfo{t.doubles(), t.bigint()},
 			result:   stabilityType(t),
 			nullable: true,
@@ -42,6 +43,7 @@ func conditionFunctions(t *types) []*function {
 		},
 		{
 			name:     "plumb_seasonality",
+			parallel: true,
 			params:   []duckdb.TypeInfo{t.doubles(), t.bigint()},
 			result:   seasonalityType(t),
 			nullable: true,
@@ -232,6 +234,7 @@ func seasonalityStruct(r stats.SeasonalityResult) map[string]any {
 func stationarityFunctions(t *types) []*function {
 	return []*function{{
 		name:     "plumb_stationarity",
+		parallel: true,
 		params:   []duckdb.TypeInfo{t.doubles(), t.bigint(), t.double()},
 		result:   t.structOf(verdictFields(t)...),
 		nullable: true,

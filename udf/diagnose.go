@@ -28,6 +28,7 @@ func diagnoseFunctions(t *types) []*function {
 	)
 	return []*function{{
 		name:     "plumb_diagnose",
+		parallel: true,
 		params:   []duckdb.TypeInfo{t.anyType(), t.doubles(), t.bigint(), t.double(), t.varchar()},
 		result:   t.structOf(fields...),
 		nullable: true,

@@ -5,6 +5,9 @@ import (
 	"database/sql"
 	"database/sql/driver"
 	"fmt"
+	"runtime"
+	"sync"
+	"sync/atomic"
 
 	"github.com/duckdb/duckdb-go/v2"
 )
@@ -19,6 +22,12 @@ type function struct {
 	// nullable lets the function see NULL arguments; otherwise any NULL
 	// argument makes the result NULL without calling eval.
 	nullable bool
+	// parallel evaluates the rows of a chunk on several goroutines. DuckDB
+	// often calls a scalar function on one thread only (after a GROUP BY with
+	// few thousand groups its hash table is scanned by one thread), so the
+	// heavy per-group functions spread a chunk's rows over the cores
+	// themselves.
+	parallel bool
 	eval     func(args []driver.Value) (any, error)
 }
 
@@ -36,6 +45,9 @@ func (f *function) Config() duckdb.ScalarFuncConfig {
 func (f *function) Executor() duckdb.ScalarFuncExecutor {
 	return duckdb.ScalarFuncExecutor{
 		ChunkContextExecutor: func(ctx context.Context, chunk *duckdb.ChunkIteratorState) error {
+			if f.parallel {
+				return f.executeParallel(chunk)
+			}
 			args := make([]driver.Value, chunk.ColumnCount())
 			for row, err := range chunk.Rows() {
 				if err != nil {
@@ -55,6 +67,58 @@ func (f *function) Executor() duckdb.ScalarFuncExecutor {
 			return nil
 		},
 	}
+}
+
+// executeParallel reads every row's arguments, evaluates the rows on up to
+// GOMAXPROCS goroutines, then walks the rows again to write the results
+// (the chunk API sets a result only at the row the iterator stands on).
+func (f *function) executeParallel(chunk *duckdb.ChunkIteratorState) error {
+	var rows [][]driver.Value
+	for row, err := range chunk.Rows() {
+		if err != nil {
+			return err
+		}
+		args := make([]driver.Value, row.ColumnCount())
+		for i := range args {
+			args[i] = *row.GetValuePtr(i)
+		}
+		rows = append(rows, args)
+	}
+	results := make([]any, len(rows))
+	errs := make([]error, len(rows))
+	workers := min(runtime.GOMAXPROCS(0), len(rows))
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for w := 0; w < workers; w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for {
+				i := int(next.Add(1) - 1)
+				if i >= len(rows) {
+					return
+				}
+				results[i], errs[i] = f.eval(rows[i])
+			}
+		}()
+	}
+	wg.Wait()
+	for _, err := range errs {
+		if err != nil {
+			return fmt.Errorf("%s: %w", f.name, err)
+		}
+	}
+	i := 0
+	for row, err := range chunk.Rows() {
+		if err != nil {
+			return err
+		}
+		if err := row.SetResult(results[i]); err != nil {
+			return fmt.Errorf("%s: %w", f.name, err)
+		}
+		i++
+	}
+	return nil
 }
 
 // register registers every function on the database behind conn. Scalar

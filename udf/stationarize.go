@@ -39,6 +39,7 @@ func stationarizeFunctions(t *types) []*function {
 	}
 	return []*function{{
 		name:     "plumb_stationarize",
+		parallel: true,
 		params:   []duckdb.TypeInfo{t.doubles(), t.bigint(), t.double()},
 		result:   t.structOf(append([]field{{"values", t.doubles()}, {"status", t.varchar()}}, recipeFields...)...),
 		nullable: true,

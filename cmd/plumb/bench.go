@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"os"
+	"runtime/pprof"
 
 	"github.com/spf13/cobra"
 
@@ -11,7 +12,7 @@ import (
 
 func newBenchCommand() *cobra.Command {
 	cfg := bench.Config{Groups: 10000, Length: 1000, Dir: "plumb-bench", Reference: 0}
-	var phase, file string
+	var phase, file, profile string
 	cmd := &cobra.Command{
 		Use:   "bench",
 		Short: "Time diagnose against DuckDB's own floor (and a reference-library loop) side by side",
@@ -24,6 +25,17 @@ over N groups of the same file and extrapolates to all groups.`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if phase != "" {
+				if profile != "" {
+					f, err := os.Create(profile)
+					if err != nil {
+						return err
+					}
+					defer f.Close()
+					if err := pprof.StartCPUProfile(f); err != nil {
+						return err
+					}
+					defer pprof.StopCPUProfile()
+				}
 				return bench.RunPhase(cmd.Context(), bench.Phase(phase), file, cmd.OutOrStdout())
 			}
 			self, err := os.Executable()
@@ -41,6 +53,7 @@ over N groups of the same file and extrapolates to all groups.`,
 	f.IntVar(&cfg.Reference, "reference", cfg.Reference, "time the statsmodels loop on this many groups (0: skip)")
 	f.StringVar(&phase, "phase", "", "run one phase in this process (used by bench itself)")
 	f.StringVar(&file, "file", "", "the Parquet file for --phase")
+	f.StringVar(&profile, "cpuprofile", "", "with --phase, write a CPU profile to `FILE`")
 	f.MarkHidden("phase")
 	f.MarkHidden("file")
 	return cmd
