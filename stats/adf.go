@@ -100,8 +100,9 @@ type adfDesign struct {
 	d     Deterministic
 	terms int
 	ls    nestedLS
-	// sum[u] = Σ_{v<u} dx_v and wsum[u] = Σ_{v<u} v·dx_v, built on first use.
-	sum, wsum []float64
+	// sum[u] = Σ_{v<u} dx_v and wsum[u] = Σ_{v<u} v·dx_v; xsum, xwsum and
+	// xsq the same for x, x·u and x²; built on first use.
+	sum, wsum, xsum, xwsum, xsq []float64
 }
 
 // prefix builds the prefix sums of dx and of u·dx_u once.
@@ -114,6 +115,14 @@ func (a *adfDesign) prefix() {
 	for u, v := range a.dx {
 		a.sum[u+1] = a.sum[u] + v
 		a.wsum[u+1] = a.wsum[u] + float64(u)*v
+	}
+	a.xsum = make([]float64, len(a.x)+1)
+	a.xwsum = make([]float64, len(a.x)+1)
+	a.xsq = make([]float64, len(a.x)+1)
+	for u, v := range a.x {
+		a.xsum[u+1] = a.xsum[u] + v
+		a.xwsum[u+1] = a.xwsum[u] + float64(u)*v
+		a.xsq[u+1] = a.xsq[u] + v*v
 	}
 }
 
@@ -254,8 +263,8 @@ func (a *adfDesign) crossProducts(maxLag int) {
 func (a *adfDesign) crossMatrix(lags, start int) ([]float64, int, int) {
 	n := len(a.dx) - start
 	shift := func(j int) []float64 { return a.dx[start-j : start-j+n] } // lag j; j = 0 is Δy itself
-	other := append(a.d.columns(n), a.x[start:start+n])                 // the columns that are not shifts
-	k := len(other)
+	level := a.x[start : start+n]
+	k := a.terms + 1 // deterministic columns, then the lagged level
 	p := k + lags
 	m := p + 1
 	mat := make([]float64, m*m)
@@ -272,29 +281,46 @@ func (a *adfDesign) crossMatrix(lags, start int) ([]float64, int, int) {
 		}
 		mat[r*m+c] = v
 	}
-	for i := 0; i < k; i++ {
-		for j := 0; j <= i; j++ {
-			set(i, j, dot(other[i], other[j]))
-		}
-	}
-	// Deterministic columns against the shifts: window sums of Δy and of
-	// u·Δy_u from prefix sums, O(1) each. The level column needs a dot
-	// product per lag.
 	a.prefix()
+	nf := float64(n)
+	lo, hi := start, start+n // the window of x the level column covers
+	// Products among the deterministic columns (ones, and time (r+1)/n)
+	// and the level, in closed form or from prefix sums of x, x² and u·x_u.
+	sumX := a.xsum[hi] - a.xsum[lo]
+	// Σ_r (r+1)/n · x[lo+r] = (Σ u·x_u - (lo-1)·Σ x_u)/n over the window.
+	timeX := ((a.xwsum[hi] - a.xwsum[lo]) - float64(lo-1)*sumX) / nf
+	c := 0
+	if a.terms >= 1 {
+		set(0, 0, nf)
+		c++
+	}
+	if a.terms == 2 {
+		set(1, 0, (nf+1)/2)
+		set(1, 1, (nf+1)*(2*nf+1)/(6*nf))
+		c++
+	}
+	if a.terms >= 1 {
+		set(c, 0, sumX)
+	}
+	if a.terms == 2 {
+		set(c, 1, timeX)
+	}
+	set(c, c, a.xsq[hi]-a.xsq[lo])
+	// Deterministic columns against the shifts: window sums of Δy and of
+	// u·Δy_u, O(1) each; the level against each shift needs a dot product.
 	for l := 0; l <= lags; l++ {
-		lo, hi := start-l, start-l+n // the window of dx that shift(l) covers
-		c := 0
+		wlo, whi := start-l, start-l+n // the window of dx that shift(l) covers
+		col := 0
 		if a.terms >= 1 {
-			set(at(l), c, a.sum[hi]-a.sum[lo])
-			c++
+			set(at(l), col, a.sum[whi]-a.sum[wlo])
+			col++
 		}
 		if a.terms == 2 {
-			// Σ_r (r+1)/n · dx[lo+r] = (Σ u·dx_u - (lo-1)·Σ dx_u)/n over the window.
-			w := (a.wsum[hi] - a.wsum[lo]) - float64(lo-1)*(a.sum[hi]-a.sum[lo])
-			set(at(l), c, w/float64(n))
-			c++
+			w := (a.wsum[whi] - a.wsum[wlo]) - float64(wlo-1)*(a.sum[whi]-a.sum[wlo])
+			set(at(l), col, w/nf)
+			col++
 		}
-		set(at(l), c, dot(other[c], shift(l)))
+		set(at(l), col, dot(level, shift(l)))
 	}
 	dx := a.dx
 	for d := 0; d <= lags; d++ { // diagonal band: pairs (i, i+d)

@@ -55,6 +55,20 @@ func Regularize(at []int64, x []float64, method FillMethod) (Regular, error) {
 		r.Values = append([]float64(nil), x...)
 		return r, nil
 	}
+	// The common case first: every step the same.
+	first := at[1] - at[0]
+	regular := first > 0
+	for i := 2; i < len(at) && regular; i++ {
+		regular = at[i]-at[i-1] == first
+	}
+	if regular {
+		r.Step = first
+		r.Values = append([]float64(nil), x...)
+		if r.Missing > 0 && method != "" && method != FillNone {
+			fillGrid(r.Values, method)
+		}
+		return r, nil
+	}
 	counts := map[int64]int{}
 	for i := 1; i < len(at); i++ {
 		d := at[i] - at[i-1]

@@ -27,12 +27,22 @@ func (q *nestedLS) factorGram(cols [][]float64, y []float64) {
 	q.factorCross(a, p, len(y))
 }
 
+// dot returns Σ a_t·b_t, with four running sums so that the additions do
+// not wait on one another.
 func dot(a, b []float64) float64 {
-	s := 0.0
-	for t := range a {
-		s += a[t] * b[t]
+	b = b[:len(a)]
+	var s0, s1, s2, s3 float64
+	t := 0
+	for ; t+4 <= len(a); t += 4 {
+		s0 += a[t] * b[t]
+		s1 += a[t+1] * b[t+1]
+		s2 += a[t+2] * b[t+2]
+		s3 += a[t+3] * b[t+3]
 	}
-	return s
+	for ; t < len(a); t++ {
+		s0 += a[t] * b[t]
+	}
+	return (s0 + s1) + (s2 + s3)
 }
 
 // factorCross fills q from the lower triangle of the (p+1)×(p+1)

@@ -5,11 +5,10 @@ import "math"
 // autocovariance returns γ_j = (1/n) Σ_{t>j} e_t·e_{t-j}, the biased sample
 // autocovariance of a mean-zero series at lag j.
 func autocovariance(e []float64, j int) float64 {
-	s := 0.0
-	for t := j; t < len(e); t++ {
-		s += e[t] * e[t-j]
+	if j >= len(e) {
+		return 0
 	}
-	return s / float64(len(e))
+	return dot(e[j:], e[:len(e)-j]) / float64(len(e))
 }
 
 // LongRunVariance returns the Bartlett-kernel (Newey & West 1987) estimate of

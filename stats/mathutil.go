@@ -12,7 +12,12 @@ func nan() float64           { return math.NaN() }
 func maxAbs(x []float64) float64 {
 	m := 0.0
 	for _, v := range x {
-		m = math.Max(m, math.Abs(v))
+		if v < 0 {
+			v = -v
+		}
+		if v > m {
+			m = v
+		}
 	}
 	return m
 }

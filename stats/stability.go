@@ -402,15 +402,67 @@ func MannKendall(x []float64) (float64, float64) {
 	return z, 2 * distuv.UnitNormal.Survival(math.Abs(z))
 }
 
-// median returns the median of x (x is not modified).
+// median returns the median of x (x is not modified), by quickselect in
+// expected linear time.
 func median(x []float64) float64 {
 	s := append([]float64(nil), x...)
-	sort.Float64s(s)
 	n := len(s)
 	if n%2 == 1 {
-		return s[n/2]
+		return selectKth(s, n/2)
 	}
-	return (s[n/2-1] + s[n/2]) / 2
+	hi := selectKth(s, n/2)
+	// After selection, everything below index n/2 is ≤ s[n/2]: the lower
+	// middle value is their maximum.
+	lo := s[0]
+	for _, v := range s[1 : n/2] {
+		if v > lo {
+			lo = v
+		}
+	}
+	return (lo + hi) / 2
+}
+
+// selectKth rearranges s so that s[k] is the value a sort would put there,
+// with no larger value before it and no smaller after, and returns it
+// (Hoare's selection with a median-of-three pivot).
+func selectKth(s []float64, k int) float64 {
+	lo, hi := 0, len(s)-1
+	for lo < hi {
+		mid := lo + (hi-lo)/2
+		if s[mid] < s[lo] {
+			s[mid], s[lo] = s[lo], s[mid]
+		}
+		if s[hi] < s[lo] {
+			s[hi], s[lo] = s[lo], s[hi]
+		}
+		if s[hi] < s[mid] {
+			s[hi], s[mid] = s[mid], s[hi]
+		}
+		pivot := s[mid]
+		i, j := lo, hi
+		for i <= j {
+			for s[i] < pivot {
+				i++
+			}
+			for s[j] > pivot {
+				j--
+			}
+			if i <= j {
+				s[i], s[j] = s[j], s[i]
+				i++
+				j--
+			}
+		}
+		switch {
+		case k <= j:
+			hi = j
+		case k >= i:
+			lo = i
+		default:
+			return s[k]
+		}
+	}
+	return s[k]
 }
 
 // correlation returns Pearson's correlation of a and b.

@@ -3,6 +3,7 @@ package stats
 import (
 	"math"
 	"math/rand/v2"
+	"sort"
 	"testing"
 )
 
@@ -229,5 +230,25 @@ func BenchmarkStationarity(b *testing.B) {
 	b.ReportAllocs()
 	for b.Loop() {
 		Stationarity(x, StationarityOptions{Period: 7})
+	}
+}
+
+// TestMedian checks quickselect against sorting, odd and even lengths, ties.
+func TestMedian(t *testing.T) {
+	rng := rand.New(rand.NewPCG(31, 32))
+	for n := 1; n < 60; n++ {
+		x := make([]float64, n)
+		for i := range x {
+			x[i] = math.Round(rng.NormFloat64() * 3)
+		}
+		s := append([]float64(nil), x...)
+		sort.Float64s(s)
+		want := s[n/2]
+		if n%2 == 0 {
+			want = (s[n/2-1] + s[n/2]) / 2
+		}
+		if got := median(x); got != want {
+			t.Fatalf("median of %v = %v, want %v", x, got, want)
+		}
 	}
 }

@@ -3,6 +3,7 @@ package udf
 import (
 	"database/sql/driver"
 	"fmt"
+	"math"
 	"strings"
 
 	"github.com/duckdb/duckdb-go/v2"
@@ -68,6 +69,7 @@ func diagnoseFunctions(t *types) []*function {
 			if err != nil {
 				return nil, err
 			}
+			q.duplicatesInGo = true
 			if _, err := stationarityOptions(args[4], args[5]); err != nil {
 				return nil, err
 			}
@@ -85,6 +87,16 @@ func diagnoseFunctions(t *types) []*function {
 
 // diagnoseGroup judges one group.
 func diagnoseGroup(at []int64, x []float64, opts stats.StationarityOptions, fill stats.FillMethod) (any, error) {
+	for i := 1; i < len(at); i++ {
+		if at[i] == at[i-1] {
+			out := stationarityStruct(stats.StationarityResult{Status: duplicateAt, BoxCoxLambda: math.NaN()})
+			out["seasonal_strength"] = nil
+			for _, k := range []string{"n_used", "step", "gaps", "missing", "ljung_box_p_value"} {
+				out[k] = nil
+			}
+			return out, nil
+		}
+	}
 	reg, err := stats.Regularize(at, x, fill)
 	if err != nil {
 		return nil, err
@@ -144,6 +156,7 @@ func diagnoseSQL(q seriesQuery, period, alpha, fill string) string {
 	for i, f := range fields {
 		picks[i] = fmt.Sprintf("plumb_d.%s AS %s", f, f)
 	}
+	picks[0] = q.duplicateAtCheck("plumb_d.status") + " AS status"
 	var raw, qs []string
 	for _, test := range diagnoseTests {
 		p := test + "_p_value"
