@@ -34,8 +34,17 @@ type SeasonalityResult struct {
 	SeasonalStrength, TrendStrength float64
 	// Seasonal is SeasonalStrength ≥ SeasonalStrengthThreshold.
 	Seasonal bool
-	Status   Status
+	// OCSB is the seasonal unit-root test at Period (run when the seasonal
+	// strength is at least ModerateSeasonalStrength; its Status says
+	// when not).
+	OCSB   OCSBResult
+	Status Status
 }
+
+// ModerateSeasonalStrength is the strength from which the OCSB test is run:
+// with a pattern this visible, a seasonal unit root (not rejected by OCSB)
+// also calls for seasonal differencing.
+const ModerateSeasonalStrength = 0.3
 
 // Seasonality measures the seasonal pattern of x. Without a given period it
 // looks for one cheaply first: among the candidates with at least three full
@@ -50,12 +59,13 @@ type SeasonalityResult struct {
 // Status season_unknown: no period was given and none was found, or the
 // given period does not fit twice into the series. The series is then not
 // called seasonal. Other statuses as usual.
-func Seasonality(x []float64, opts SeasonalityOptions) (SeasonalityResult, error) {
+func Seasonality(x []float64, opts SeasonalityOptions) (r SeasonalityResult, err error) {
 	if opts.Period < 0 || opts.Period == 1 {
 		return SeasonalityResult{}, errorf("seasonality: the period must be 0 (detect) or at least 2, got %d", opts.Period)
 	}
 	n := math.NaN()
-	r := SeasonalityResult{PeakAutocorrelation: n, SeasonalStrength: n, TrendStrength: n}
+	r = SeasonalityResult{PeakAutocorrelation: n, SeasonalStrength: n, TrendStrength: n,
+		OCSB: OCSBResult{Status: StatusSeasonUnknown, Statistic: n, Critical5: n}}
 	if s := checkFinite(x); s != StatusOK {
 		r.Status = s
 		return r, nil
@@ -91,6 +101,12 @@ func Seasonality(x []float64, opts SeasonalityOptions) (SeasonalityResult, error
 	r.SeasonalStrength = SeasonalStrength(dec)
 	r.TrendStrength = TrendStrength(dec)
 	r.Seasonal = r.SeasonalStrength >= SeasonalStrengthThreshold
+	r.OCSB = OCSBResult{Status: StatusSeasonUnknown, Statistic: math.NaN(), Critical5: math.NaN()}
+	if r.SeasonalStrength >= ModerateSeasonalStrength {
+		if r.OCSB, err = OCSB(x, period); err != nil {
+			return r, err
+		}
+	}
 	r.Status = StatusOK
 	return r, nil
 }

@@ -72,8 +72,11 @@ func (r StationarityResult) ViolationList() string {
 // recommends a transform:
 //
 //  1. Seasonality: the period (given or detected) and the STL seasonal
-//     strength; at or above SeasonalStrengthThreshold the series is seasonal
-//     and gets D = 1 seasonal difference.
+//     strength. The series is seasonal, and gets D = 1 seasonal difference,
+//     when the strength is at least SeasonalStrengthThreshold, or when it is
+//     at least ModerateSeasonalStrength and the OCSB test (Osborn et al.
+//  1988. does not reject a seasonal unit root at 5%: a stochastic
+//     seasonal pattern that only seasonal differencing removes.
 //  2. Differences d (0 to 2) on the seasonally differenced series, by a
 //     sequence of KPSS tests (level, automatic bandwidth) cross-checked with
 //     ADF (constant, AIC); see needsDifference.
@@ -126,7 +129,8 @@ func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, er
 	each := alpha / 4
 	r.Period = season.Period
 	y := x
-	if season.Seasonal {
+	stochastic := season.OCSB.Status == StatusOK && season.OCSB.SeasonalUnitRoot
+	if season.Seasonal || stochastic {
 		r.Seasonal = true
 		r.SeasonalDifferences = 1
 		y, _ = Difference(x, season.Period, 1)

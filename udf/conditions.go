@@ -210,7 +210,9 @@ func seasonalityType(t *types) duckdb.TypeInfo {
 		field{"period", t.bigint()}, field{"detected", t.boolean()},
 		field{"peak_autocorrelation", t.double()},
 		field{"seasonal_strength", t.double()}, field{"trend_strength", t.double()},
-		field{"seasonal", t.boolean()}, field{"status", t.varchar()},
+		field{"seasonal", t.boolean()},
+		field{"seasonal_unit_root", t.boolean()}, field{"ocsb_statistic", t.double()}, field{"ocsb_critical_5pct", t.double()},
+		field{"status", t.varchar()},
 	)
 }
 
@@ -220,12 +222,19 @@ func seasonalityStruct(r stats.SeasonalityResult) map[string]any {
 	if r.Period > 0 {
 		period = int64(r.Period)
 	}
-	return map[string]any{
+	out := map[string]any{
 		"period": period, "detected": r.Detected,
 		"peak_autocorrelation": orNull(r.PeakAutocorrelation),
 		"seasonal_strength":    value(r.SeasonalStrength, ok), "trend_strength": value(r.TrendStrength, ok),
 		"seasonal": r.Seasonal, "status": string(r.Status),
+		"seasonal_unit_root": nil, "ocsb_statistic": nil, "ocsb_critical_5pct": nil,
 	}
+	if r.OCSB.Status == stats.StatusOK {
+		out["seasonal_unit_root"] = r.OCSB.SeasonalUnitRoot
+		out["ocsb_statistic"] = r.OCSB.Statistic
+		out["ocsb_critical_5pct"] = r.OCSB.Critical5
+	}
+	return out
 }
 
 // stationarityFunctions wraps stats.Stationarity:

@@ -50,6 +50,8 @@ func TestConditionsSQL(t *testing.T) {
 	for _, test := range []struct{ query, want string }{
 		{"SELECT seasonality(x).period FROM series WHERE dataset = 'nottem'", "12"},
 		{"SELECT seasonality(x).detected FROM series WHERE dataset = 'nottem'", "true"},
+		// nottem's monthly temperatures repeat a fixed yearly shape: no seasonal unit root.
+		{"SELECT seasonality(x).seasonal_unit_root FROM series WHERE dataset = 'nottem'", "false"},
 		{"SELECT stationarity(x, period := 12).seasonal_differences FROM series WHERE dataset = 'co2'", "1"},
 		{"SELECT stationarity(x).status FROM series WHERE dataset = 'nile'", "season_unknown"},
 		{"SELECT stationarity(x).violations FROM series WHERE dataset = 'nile'", "[mean]"},

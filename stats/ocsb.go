@@ -1,0 +1,185 @@
+package stats
+
+import (
+	"math"
+	"math/rand/v2"
+	"sort"
+)
+
+// OCSBResult is the outcome of the seasonal unit-root test.
+type OCSBResult struct {
+	// Statistic is the t-statistic of β2 (see OCSB).
+	Statistic float64
+	// Critical5 is the 5% critical value for this period and length, and
+	// Critical holds the 1, 5 and 10% values.
+	Critical  [3]float64
+	Critical5 float64
+	// SeasonalUnitRoot is true when the test does not reject the seasonal
+	// unit root at 5% (Statistic ≥ Critical5).
+	SeasonalUnitRoot bool
+	Lags             int
+	NObs             int
+	Status           Status
+}
+
+// OCSB performs the seasonal unit-root test of Osborn, Chui, Smith &
+// Birchenhall (1988) for period s. It fits
+//
+//	Δ Δ_s y_t = β1·Δ_s y_{t-1} + β2·Δ y_{t-s} + Σ_{i=1..p} α_i·Δ Δ_s y_{t-i} + e_t
+//
+// (Δ = 1 - B, Δ_s = 1 - B^s) with p from 0 to 3 chosen by AIC on a common
+// sample and the chosen model re-fitted on its own sample. Under the null
+// hypothesis of a seasonal unit root β2 = 0; a t-statistic below the
+// critical value rejects it, meaning the seasonal pattern, if any, is
+// deterministic rather than stochastic.
+//
+// The critical values are plumb's own Monte Carlo estimates under the null
+// (ΔΔ_s y = white noise), by the procedure above, tabulated in
+// ocsb_table.go for periods 4, 7, 12, 24 and 52 as c∞ + c1/T; see
+// testdata/ocsb/simulate.go. Other periods use the nearest tabulated one.
+// It needs at least 3 periods plus 10 observations.
+func OCSB(x []float64, s int) (OCSBResult, error) {
+	if s < 2 {
+		return OCSBResult{}, errorf("ocsb: the period must be at least 2, got %d", s)
+	}
+	nan := math.NaN()
+	r := OCSBResult{Statistic: nan, Critical5: nan, Critical: [3]float64{nan, nan, nan}}
+	if st := checkFinite(x); st != StatusOK {
+		r.Status = st
+		return r, nil
+	}
+	if len(x) < 3*s+10 {
+		r.Status = StatusTooShort
+		return r, nil
+	}
+	if isConstant(x) {
+		r.Status = StatusConstant
+		return r, nil
+	}
+	stat, lags, n, ok := ocsbStatistic(scaled(x), s, 3)
+	if !ok {
+		r.Status = StatusSingular
+		return r, nil
+	}
+	r.Statistic, r.Lags, r.NObs = stat, lags, n
+	r.Critical = ocsbCritical(s, n)
+	r.Critical5 = r.Critical[1]
+	r.SeasonalUnitRoot = !(stat < r.Critical5)
+	r.Status = StatusOK
+	return r, nil
+}
+
+// ocsbStatistic returns the t-statistic of β2, the lags chosen and the
+// observations of the final fit.
+func ocsbStatistic(y []float64, s, maxLag int) (float64, int, int, bool) {
+	T := len(y)
+	// z_t = ΔΔ_s y_t for t ≥ s+1; a_t = Δ_s y_{t-1}; b_t = Δ y_{t-s}.
+	z := func(t int) float64 { return y[t] - y[t-1] - y[t-s] + y[t-s-1] }
+	a := func(t int) float64 { return y[t-1] - y[t-1-s] }
+	b := func(t int) float64 { return y[t-s] - y[t-s-1] }
+	build := func(start, lags int, bLast bool) ([][]float64, []float64) {
+		n := T - start
+		cols := make([][]float64, 0, lags+2)
+		col := func(f func(t int) float64) {
+			c := make([]float64, n)
+			for i := range c {
+				c[i] = f(start + i)
+			}
+			cols = append(cols, c)
+		}
+		col(a)
+		if !bLast {
+			col(b)
+		}
+		for i := 1; i <= lags; i++ {
+			i := i
+			col(func(t int) float64 { return z(t - i) })
+		}
+		if bLast {
+			col(b)
+		}
+		dep := make([]float64, n)
+		for i := range dep {
+			dep[i] = z(start + i)
+		}
+		return cols, dep
+	}
+	// AIC over p = 0..maxLag on the common sample.
+	start := s + 1 + maxLag
+	cols, dep := build(start, maxLag, false)
+	var ls nestedLS
+	ls.factor(cols, dep)
+	if ls.rank < 2 {
+		return 0, 0, 0, false
+	}
+	n := float64(ls.n)
+	best, bestIC := 0, math.Inf(1)
+	for p := 0; p <= maxLag && 2+p <= ls.rank; p++ {
+		ssr := ls.ssr(2 + p)
+		if ssr <= 0 {
+			return 0, 0, 0, false
+		}
+		if ic := n*math.Log(ssr/n) + 2*float64(2+p); ic < bestIC {
+			best, bestIC = p, ic
+		}
+	}
+	cols, dep = build(s+1+best, best, true)
+	var fit nestedLS
+	fit.factor(cols, dep)
+	m := len(cols)
+	if fit.rank < m || fit.ssr(m) <= 1e-24*fit.n0() {
+		return 0, 0, 0, false
+	}
+	return fit.tLast(m), best, fit.n, true
+}
+
+// ocsbCritical interpolates the tabulated response surface.
+func ocsbCritical(s, n int) [3]float64 {
+	periods := make([]int, 0, len(ocsbTable))
+	for p := range ocsbTable {
+		periods = append(periods, p)
+	}
+	sort.Ints(periods)
+	nearest := periods[0]
+	for _, p := range periods {
+		if math.Abs(math.Log(float64(p))-math.Log(float64(s))) < math.Abs(math.Log(float64(nearest))-math.Log(float64(s))) {
+			nearest = p
+		}
+	}
+	c := ocsbTable[nearest]
+	var out [3]float64
+	for i := range out {
+		out[i] = c[i][0] + c[i][1]/float64(n)
+	}
+	return out
+}
+
+// SimulateOCSB returns the 1, 5 and 10% quantiles of the OCSB statistic
+// under its null hypothesis (ΔΔ_s y_t = e_t, standard normal) for period s
+// and series length T, over reps replications from seed.
+func SimulateOCSB(s, T, reps int, seed uint64) [3]float64 {
+	rng := rand.New(rand.NewPCG(seed, uint64(s*100000+T)))
+	stats := make([]float64, 0, reps)
+	y := make([]float64, T)
+	for len(stats) < reps {
+		for t := range y {
+			v := rng.NormFloat64()
+			if t >= 1 {
+				v += y[t-1]
+			}
+			if t >= s {
+				v += y[t-s]
+			}
+			if t >= s+1 {
+				v -= y[t-s-1]
+			}
+			y[t] = v
+		}
+		if st, _, _, ok := ocsbStatistic(scaled(y), s, 3); ok {
+			stats = append(stats, st)
+		}
+	}
+	sort.Float64s(stats)
+	q := func(p float64) float64 { return stats[int(p*float64(len(stats)))] }
+	return [3]float64{q(0.01), q(0.05), q(0.10)}
+}
