@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"strings"
+	"sync/atomic"
 
 	"github.com/duckdb/duckdb-go/v2"
 
@@ -85,6 +86,13 @@ func diagnoseFunctions(t *types) []*function {
 	}}
 }
 
+// groupsDone counts the groups plumb_diagnose has judged in this process.
+var groupsDone atomic.Int64
+
+// GroupsDone returns how many groups diagnose has judged in this process
+// so far; a command polls it to show progress on a long scan.
+func GroupsDone() int64 { return groupsDone.Load() }
+
 // diagnoseGroup judges one group.
 func diagnoseGroup(at []int64, x []float64, opts stats.StationarityOptions, fill stats.FillMethod) (any, error) {
 	for i := 1; i < len(at); i++ {
@@ -97,6 +105,7 @@ func diagnoseGroup(at []int64, x []float64, opts stats.StationarityOptions, fill
 			return out, nil
 		}
 	}
+	defer groupsDone.Add(1)
 	reg, err := stats.Regularize(at, x, fill)
 	if err != nil {
 		return nil, err

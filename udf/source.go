@@ -90,3 +90,14 @@ func columnName(v driver.Value, what string) (string, error) {
 	}
 	return s, nil
 }
+
+// SourceSQL turns a source as the table functions accept it (a table or
+// view name, a file path or glob, or a parenthesised SELECT) into a FROM
+// item, for code that queries a source directly (the report).
+func SourceSQL(source string) (string, error) { return sourceSQL(source) }
+
+// QuoteIdent quotes a column or table name for splicing into SQL.
+func QuoteIdent(name string) string { return quoteIdent(name) }
+
+// QuoteLiteral quotes text as an SQL string literal.
+func QuoteLiteral(s string) string { return quoteLiteral(s) }

@@ -12,7 +12,9 @@ import (
 	"strings"
 
 	"github.com/plumb-sql/plumb/cmd/internal/demodata"
+	"github.com/plumb-sql/plumb/cmd/internal/diagnosis"
 	"github.com/plumb-sql/plumb/cmd/internal/output"
+	"github.com/plumb-sql/plumb/cmd/internal/report"
 	"github.com/plumb-sql/plumb/cmd/internal/statements"
 	"github.com/plumb-sql/plumb/examples"
 	"github.com/plumb-sql/plumb/udf"
@@ -107,6 +109,21 @@ func Run(ctx context.Context, cfg Config, w io.Writer) error {
 		written = append(written, [2]string{path, o.what})
 	}
 
+	reportPath := filepath.Join(cfg.Dir, "shops_report.html")
+	rf, err := os.Create(reportPath)
+	if err != nil {
+		return err
+	}
+	spec := diagnosis.Spec{Source: "shops", By: []string{"shop", "product"}, At: "day", Value: "units", Period: 7}
+	_, err = report.Render(ctx, conn, spec, report.Options{Top: 12, Title: "Stationarity of the co-operative's shop series (plumb demo)"}, rf)
+	if cerr := rf.Close(); err == nil {
+		err = cerr
+	}
+	if err != nil {
+		return fmt.Errorf("demo report: %w", err)
+	}
+	written = append(written, [2]string{reportPath, "the HTML report: counts, ranking and pictures of the 12 worst shop series"})
+
 	fmt.Fprintf(w, "\nFiles written:\n")
 	for _, ds := range sets {
 		f := files[ds.Name]
@@ -116,7 +133,8 @@ func Run(ctx context.Context, cfg Config, w io.Writer) error {
 	for _, f := range written {
 		fmt.Fprintf(w, "  %-40s %s\n", f[0], f[1])
 	}
-	fmt.Fprintf(w, "\nTry: go run ./cmd/plumb query \"FROM diagnose('%s', by := ['shop', 'product'], at := 'day', value := 'units') LIMIT 5\"\n",
+	fmt.Fprintf(w, "\nOpen the report: %s\n", reportPath)
+	fmt.Fprintf(w, "Try: go run ./cmd/plumb query \"FROM diagnose('%s', by := ['shop', 'product'], at := 'day', value := 'units') LIMIT 5\"\n",
 		files["shops"].Data)
 	return nil
 }

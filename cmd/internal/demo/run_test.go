@@ -20,7 +20,7 @@ func TestRunWritesFilesAndSummary(t *testing.T) {
 		t.Fatal(err)
 	}
 	for _, f := range []string{"shops.parquet", "shops_truth.parquet", "containers.parquet", "containers_truth.parquet", "shops_differenced.parquet",
-		"shops_diagnosis.parquet", "shops_stationary.parquet", "shops_recipes.parquet"} {
+		"shops_diagnosis.parquet", "shops_stationary.parquet", "shops_recipes.parquet", "shops_report.html"} {
 		if st, err := os.Stat(filepath.Join(dir, f)); err != nil || st.Size() == 0 {
 			t.Errorf("%s: %v", f, err)
 		}

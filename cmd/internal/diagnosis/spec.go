@@ -1,0 +1,111 @@
+// Package diagnosis runs plumb's diagnose table function for the commands
+// that do not ask for SQL (plumb diagnose, plumb report): it checks the
+// source and its columns first, so a mistake gets one clear line.
+package diagnosis
+
+import (
+	"context"
+	"database/sql"
+	"fmt"
+	"slices"
+	"strings"
+
+	"github.com/plumb-sql/plumb/udf"
+)
+
+// Spec names the series to diagnose.
+type Spec struct {
+	Source string   // table or view, file or glob, or (SELECT ...)
+	By     []string // group columns
+	At     string   // time column
+	Value  string   // value column
+	Period int      // 0: detect
+	Alpha  float64  // 0: 0.05
+	Fill   string   // "": none
+}
+
+// Call returns the SQL table expression diagnose(...) for s.
+func (s Spec) Call() string {
+	by := make([]string, len(s.By))
+	for i, b := range s.By {
+		by[i] = udf.QuoteLiteral(b)
+	}
+	period := "NULL"
+	if s.Period > 0 {
+		period = fmt.Sprint(s.Period)
+	}
+	alpha := s.Alpha
+	if alpha == 0 {
+		alpha = 0.05
+	}
+	fill := s.Fill
+	if fill == "" {
+		fill = "none"
+	}
+	return fmt.Sprintf("diagnose(%s, by := [%s], at := %s, value := %s, period := %s, alpha := %v, fill := %s)",
+		udf.QuoteLiteral(s.Source), strings.Join(by, ", "), udf.QuoteLiteral(s.At), udf.QuoteLiteral(s.Value),
+		period, alpha, udf.QuoteLiteral(fill))
+}
+
+// Check verifies that the source can be read and has the named columns,
+// with a numeric value column; its errors are single lines meant for people.
+func (s Spec) Check(ctx context.Context, conn *sql.Conn) error {
+	if len(s.By) == 0 || s.At == "" || s.Value == "" {
+		return fmt.Errorf("name the group columns (--by), the time column (--at) and the value column (--value)")
+	}
+	from, err := udf.SourceSQL(s.Source)
+	if err != nil {
+		return err
+	}
+	rows, err := conn.QueryContext(ctx, "SELECT column_name, column_type FROM (DESCRIBE SELECT * FROM "+from+")")
+	if err != nil {
+		return fmt.Errorf("cannot read %s: %s", s.Source, firstLine(err.Error()))
+	}
+	defer rows.Close()
+	types := map[string]string{}
+	var names []string
+	for rows.Next() {
+		var name, typ string
+		if err := rows.Scan(&name, &typ); err != nil {
+			return err
+		}
+		types[name] = typ
+		names = append(names, name)
+	}
+	if err := rows.Err(); err != nil {
+		return fmt.Errorf("cannot read %s: %s", s.Source, firstLine(err.Error()))
+	}
+	for _, c := range append(append([]string{}, s.By...), s.At, s.Value) {
+		if _, ok := types[c]; !ok {
+			return fmt.Errorf("%s has no column %q; its columns are: %s", s.Source, c, strings.Join(names, ", "))
+		}
+	}
+	if !numeric(types[s.Value]) {
+		return fmt.Errorf("the value column %q is %s, not a number", s.Value, types[s.Value])
+	}
+	return nil
+}
+
+func numeric(t string) bool {
+	t = strings.ToUpper(t)
+	return slices.Contains([]string{"TINYINT", "SMALLINT", "INTEGER", "BIGINT", "HUGEINT", "UTINYINT", "USMALLINT",
+		"UINTEGER", "UBIGINT", "UHUGEINT", "FLOAT", "DOUBLE"}, t) || strings.HasPrefix(t, "DECIMAL")
+}
+
+// firstLine keeps DuckDB's message without its caret diagram.
+func firstLine(s string) string {
+	line, _, _ := strings.Cut(s, "\n")
+	return strings.TrimSpace(line)
+}
+
+// Materialize runs diagnose into the TEMP table name on conn (replacing it)
+// and returns the number of groups.
+func (s Spec) Materialize(ctx context.Context, conn *sql.Conn, name string) (int, error) {
+	q := fmt.Sprintf("CREATE OR REPLACE TEMP TABLE %s AS FROM %s", udf.QuoteIdent(name), s.Call())
+	if _, err := conn.ExecContext(ctx, q); err != nil {
+		return 0, fmt.Errorf("diagnose %s: %s", s.Source, firstLine(err.Error()))
+	}
+	var n int
+	err := conn.QueryRowContext(ctx, "SELECT count(*) FROM "+udf.QuoteIdent(name)).Scan(&n)
+	return n, err
+}

@@ -1,0 +1,164 @@
+package report
+
+import (
+	"bytes"
+	"fmt"
+	"image/color"
+	"math"
+	"regexp"
+	"time"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+	"gonum.org/v1/plot/vg/vgsvg"
+)
+
+var (
+	seriesColor = color.RGBA{R: 31, G: 84, B: 140, A: 255}
+	meanColor   = color.RGBA{R: 200, G: 90, B: 20, A: 255}
+	bandColor   = color.RGBA{R: 230, G: 150, B: 90, A: 110}
+	boundColor  = color.RGBA{R: 150, G: 30, B: 30, A: 255}
+)
+
+const plotWidth, plotHeight = 5.2 * vg.Inch, 2.2 * vg.Inch
+
+// axis describes the x values: times (seconds since 1970, shown as dates)
+// or plain numbers.
+type axis struct {
+	x      []float64
+	isTime bool
+	label  string
+}
+
+// newPlot makes a plot with labelled axes.
+func newPlot(title string, x axis, yLabel string) *plot.Plot {
+	p := plot.New()
+	p.Title.Text = title
+	p.X.Label.Text = x.label
+	p.Y.Label.Text = yLabel
+	if x.isTime {
+		p.X.Tick.Marker = plot.TimeTicks{Format: "2006-01-02", Time: func(t float64) time.Time { return time.Unix(int64(t), 0).UTC() }}
+	}
+	p.Add(plotter.NewGrid())
+	return p
+}
+
+// seriesSVG draws the series with its rolling mean and a band of ±2 rolling
+// standard deviations.
+func seriesSVG(x axis, y, mean, sd []float64, yLabel string, width int) (string, error) {
+	p := newPlot(fmt.Sprintf("%s with rolling mean ± 2 SD (window %d)", yLabel, width), x, yLabel)
+	var upper, lower, mid plotter.XYs
+	for i := range y {
+		if math.IsNaN(mean[i]) || math.IsNaN(sd[i]) {
+			continue
+		}
+		upper = append(upper, plotter.XY{X: x.x[i], Y: mean[i] + 2*sd[i]})
+		lower = append(lower, plotter.XY{X: x.x[i], Y: mean[i] - 2*sd[i]})
+		mid = append(mid, plotter.XY{X: x.x[i], Y: mean[i]})
+	}
+	if len(mid) > 1 {
+		band := append(plotter.XYs{}, upper...)
+		for i := len(lower) - 1; i >= 0; i-- {
+			band = append(band, lower[i])
+		}
+		poly, err := plotter.NewPolygon(band)
+		if err != nil {
+			return "", err
+		}
+		poly.Color = bandColor
+		poly.LineStyle.Width = 0
+		p.Add(poly)
+	}
+	line, err := plotter.NewLine(points(x.x, y))
+	if err != nil {
+		return "", err
+	}
+	line.Color = seriesColor
+	line.Width = vg.Points(0.7)
+	p.Add(line)
+	if len(mid) > 1 {
+		m, err := plotter.NewLine(mid)
+		if err != nil {
+			return "", err
+		}
+		m.Color = meanColor
+		m.Width = vg.Points(1.4)
+		p.Add(m)
+		p.Legend.Add("rolling mean", m)
+		p.Legend.Top = true
+	}
+	return render(p)
+}
+
+// lineSVG draws one series.
+func lineSVG(title string, x axis, y []float64, yLabel string) (string, error) {
+	p := newPlot(title, x, yLabel)
+	line, err := plotter.NewLine(points(x.x, y))
+	if err != nil {
+		return "", err
+	}
+	line.Color = seriesColor
+	line.Width = vg.Points(0.7)
+	p.Add(line)
+	return render(p)
+}
+
+// acfSVG draws autocorrelations at lags 1..len(acf) as bars with the
+// ±1.96/√n bounds of white noise.
+func acfSVG(title string, acf []float64, n int) (string, error) {
+	p := newPlot(title, axis{label: "lag"}, "autocorrelation")
+	values := make(plotter.Values, len(acf))
+	copy(values, acf)
+	bars, err := plotter.NewBarChart(values, vg.Points(3))
+	if err != nil {
+		return "", err
+	}
+	bars.Color = seriesColor
+	bars.LineStyle.Width = 0
+	bars.XMin = 1
+	p.Add(bars)
+	bound := 1.96 / math.Sqrt(float64(n))
+	for _, b := range []float64{bound, -bound} {
+		l, err := plotter.NewLine(plotter.XYs{{X: 0.5, Y: b}, {X: float64(len(acf)) + 0.5, Y: b}})
+		if err != nil {
+			return "", err
+		}
+		l.Color = boundColor
+		l.Dashes = []vg.Length{vg.Points(3), vg.Points(2)}
+		p.Add(l)
+	}
+	p.Y.Min, p.Y.Max = math.Min(-1, p.Y.Min), 1
+	return render(p)
+}
+
+// points pairs x and y, leaving out missing values.
+func points(x, y []float64) plotter.XYs {
+	out := make(plotter.XYs, 0, len(y))
+	for i := range y {
+		if !math.IsNaN(y[i]) && !math.IsInf(y[i], 0) {
+			out = append(out, plotter.XY{X: x[i], Y: y[i]})
+		}
+	}
+	return out
+}
+
+var (
+	xmlHeader = regexp.MustCompile(`<\?xml[^>]*\?>\s*|<!--[^>]*-->\s*`)
+	xmlns     = regexp.MustCompile(`\s*xmlns(:xlink)?="[^"]*"`)
+)
+
+// render draws p as an SVG element for inline use in HTML: the XML header
+// and namespace declarations (an HTML parser supplies the SVG namespace
+// itself) are dropped, so the report names no external address.
+func render(p *plot.Plot) (string, error) {
+	c := vgsvg.New(plotWidth, plotHeight)
+	p.Draw(draw.New(c))
+	var b bytes.Buffer
+	if _, err := c.WriteTo(&b); err != nil {
+		return "", err
+	}
+	s := xmlHeader.ReplaceAllString(b.String(), "")
+	return xmlns.ReplaceAllString(s, ""), nil
+}

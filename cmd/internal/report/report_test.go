@@ -1,0 +1,160 @@
+package report
+
+import (
+	"bytes"
+	"context"
+	"database/sql"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"regexp"
+	"strings"
+	"testing"
+
+	"github.com/plumb-sql/plumb/cmd/internal/demodata"
+	"github.com/plumb-sql/plumb/cmd/internal/diagnosis"
+	"github.com/plumb-sql/plumb/udf"
+)
+
+// demoReport renders the report for the demo's shop data.
+func demoReport(t *testing.T) (string, []Row, *sql.Conn) {
+	t.Helper()
+	ctx := context.Background()
+	sets, err := demodata.Generate(1, demodata.DefaultSizes)
+	if err != nil {
+		t.Fatal(err)
+	}
+	db, err := udf.Open(ctx, udf.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { db.Close() })
+	dir := t.TempDir()
+	if _, err := demodata.Write(ctx, db, dir, sets); err != nil {
+		t.Fatal(err)
+	}
+	conn, err := db.Conn(ctx)
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { conn.Close() })
+	spec := diagnosis.Spec{Source: filepath.Join(dir, "shops.parquet"), By: []string{"shop", "product"}, At: "day", Value: "units", Period: 7}
+	var b bytes.Buffer
+	rows, err := Render(ctx, conn, spec, Options{Top: 8}, &b)
+	if err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(dir, "report.html")
+	if err := os.WriteFile(path, b.Bytes(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return path, rows, conn
+}
+
+// TestReportStructure: every top group has its three plots, the ranked
+// table's numbers equal diagnose's, and the file names no external address.
+func TestReportStructure(t *testing.T) {
+	path, rows, conn := demoReport(t)
+	b, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	html := string(b)
+	if len(rows) != 8 {
+		t.Fatalf("%d ranked rows, want 8", len(rows))
+	}
+	panels := strings.Split(html, `<div class="panel"`)[1:]
+	if len(panels) != 8 {
+		t.Fatalf("%d panels, want 8", len(panels))
+	}
+	for i, p := range panels {
+		for _, class := range []string{"plot series", "plot transformed", "plot acf"} {
+			re := regexp.MustCompile(`<div class="` + class + `">\s*<svg`)
+			if !re.MatchString(p) {
+				t.Errorf("panel %d has no %q picture", i+1, class)
+			}
+		}
+		for _, label := range []string{">day<", ">units<", ">lag<"} {
+			if !strings.Contains(p, label) {
+				t.Errorf("panel %d lacks the axis label %s", i+1, label)
+			}
+		}
+	}
+	// The table against diagnose, queried here independently.
+	q := `SELECT rank, concat_ws(', ', 'shop=' || shop, 'product=' || product), n, status, array_to_string(violations, ', '),
+		differences, seasonal_differences, box_cox_lambda, score, adf_p_value, kpss_p_value, mean_p_value, spread_p_value, kpss_q_value
+		FROM plumb_report_diagnosis ORDER BY rank, 2 LIMIT 8`
+	res, err := conn.QueryContext(context.Background(), q)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer res.Close()
+	for i := 0; res.Next(); i++ {
+		var rank int64
+		var group string
+		vals := make([]any, len(Columns))
+		ptrs := []any{&rank, &group}
+		for j := range vals {
+			ptrs = append(ptrs, &vals[j])
+		}
+		if err := res.Scan(ptrs...); err != nil {
+			t.Fatal(err)
+		}
+		if rows[i].Rank != rank || rows[i].Group != group {
+			t.Errorf("row %d: %d %s, want %d %s", i, rows[i].Rank, rows[i].Group, rank, group)
+		}
+		for j, v := range vals {
+			cell := FormatCell(v)
+			if rows[i].Cells[j] != cell {
+				t.Errorf("row %d %s: %s, want %s", i, Columns[j], rows[i].Cells[j], cell)
+			}
+			if !strings.Contains(html, "<td>"+template_escape(cell)+"</td>") {
+				t.Errorf("row %d %s: %s is not in the HTML", i, Columns[j], cell)
+			}
+		}
+	}
+	for _, bad := range []string{"http:", "https:", "url(", "src=", "<script", "@import"} {
+		if strings.Contains(html, bad) {
+			t.Errorf("the report contains %q", bad)
+		}
+	}
+}
+
+func template_escape(s string) string {
+	r := strings.NewReplacer("&", "&amp;", "<", "&lt;", ">", "&gt;", `"`, "&#34;", "'", "&#39;")
+	return r.Replace(s)
+}
+
+// TestReportInChromium opens the report in headless Chromium (Debian's
+// chromium package): it must render a screenshot with no console errors.
+// Skipped where chromium is absent, except in CI (CI=true), which installs it.
+func TestReportInChromium(t *testing.T) {
+	chromium, err := exec.LookPath("chromium")
+	if err != nil {
+		if os.Getenv("CI") == "true" {
+			t.Fatal("chromium is not installed; .ci/run installs Debian's chromium package")
+		}
+		t.Skip("chromium is not installed (apt-get install chromium); CI runs this test")
+	}
+	path, _, _ := demoReport(t)
+	shot := filepath.Join(t.TempDir(), "report.png")
+	cmd := exec.Command(chromium, "--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run",
+		"--disable-background-networking", "--disable-component-update", "--disable-sync",
+		"--user-data-dir="+t.TempDir(), "--window-size=1400,2000", "--screenshot="+shot,
+		"--enable-logging=stderr", "--v=0", "file://"+path)
+	var logs bytes.Buffer
+	cmd.Stderr = &logs
+	if err := cmd.Run(); err != nil {
+		t.Fatalf("chromium: %v\n%s", err, logs.String())
+	}
+	st, err := os.Stat(shot)
+	if err != nil || st.Size() < 20000 {
+		t.Fatalf("no screenshot (%v, %d bytes)", err, st.Size())
+	}
+	for _, line := range strings.Split(logs.String(), "\n") {
+		if strings.Contains(line, "CONSOLE") && (strings.Contains(line, "ERROR") || strings.Contains(line, "Uncaught")) {
+			t.Errorf("console error: %s", line)
+		}
+	}
+	t.Logf("screenshot %s, %d bytes", shot, st.Size())
+}

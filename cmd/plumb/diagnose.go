@@ -1,0 +1,142 @@
+package main
+
+import (
+	"context"
+	"database/sql"
+	"fmt"
+	"path/filepath"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"github.com/plumb-sql/plumb/cmd/internal/diagnosis"
+	"github.com/plumb-sql/plumb/cmd/internal/output"
+	"github.com/plumb-sql/plumb/udf"
+)
+
+// seriesFlags are the flags plumb diagnose and plumb report share.
+type seriesFlags struct {
+	spec   diagnosis.Spec
+	by     string
+	dbPath string
+	quiet  bool
+}
+
+func (f *seriesFlags) register(cmd *cobra.Command) {
+	fl := cmd.Flags()
+	fl.StringVar(&f.by, "by", "", "group `COLUMNS`, comma-separated (required)")
+	fl.StringVar(&f.spec.At, "at", "", "time `COLUMN`: DATE, TIMESTAMP or integer (required)")
+	fl.StringVar(&f.spec.Value, "value", "", "value `COLUMN` (required)")
+	fl.IntVar(&f.spec.Period, "period", 0, "seasonal period (0: detect among 7, 12, 24, 52, 365)")
+	fl.Float64Var(&f.spec.Alpha, "alpha", 0.05, "level of the verdict's tests")
+	fl.StringVar(&f.spec.Fill, "fill", "none", "gaps and missing values: none, linear or previous")
+	fl.StringVar(&f.dbPath, "db", "", "DuckDB database `FILE` holding the source table (default: in memory)")
+	fl.BoolVar(&f.quiet, "quiet", false, "no progress display")
+}
+
+// open opens the database, checks the source and returns a connection.
+func (f *seriesFlags) open(ctx context.Context, source string) (*sql.DB, *sql.Conn, error) {
+	f.spec.Source = source
+	f.spec.By = nil
+	for _, b := range strings.Split(f.by, ",") {
+		if b = strings.TrimSpace(b); b != "" {
+			f.spec.By = append(f.spec.By, b)
+		}
+	}
+	db, err := udf.Open(ctx, udf.Options{Path: f.dbPath, ReadOnly: f.dbPath != ""})
+	if err != nil {
+		return nil, nil, err
+	}
+	conn, err := db.Conn(ctx)
+	if err != nil {
+		db.Close()
+		return nil, nil, err
+	}
+	if err := f.spec.Check(ctx, conn); err != nil {
+		conn.Close()
+		db.Close()
+		return nil, nil, err
+	}
+	return db, conn, nil
+}
+
+func newDiagnoseCommand() *cobra.Command {
+	var flags seriesFlags
+	var top int
+	var out string
+	cmd := &cobra.Command{
+		Use:   "diagnose SOURCE --by COLUMNS --at COLUMN --value COLUMN",
+		Short: "Diagnose every group of a source and print the ones furthest from stationary",
+		Long: `Runs the diagnose table function over SOURCE (a Parquet or CSV file or glob, a
+table in --db, or a parenthesised SELECT), prints the top groups as a table,
+and with --out writes every group's row to a .parquet, .csv or .json file.`,
+		Example: `  plumb diagnose 'plumb-demo/shops.parquet' --by shop,product --at day --value units --period 7
+  plumb diagnose 'sales/*.parquet' --by store,sku --at day --value units --out ranked.parquet`,
+		Args: cobra.ExactArgs(1),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			ctx := cmd.Context()
+			db, conn, err := flags.open(ctx, args[0])
+			if err != nil {
+				return err
+			}
+			defer db.Close()
+			defer conn.Close()
+			const table = "plumb_cli_diagnosis"
+			progress := diagnosis.StartProgress(cmd.ErrOrStderr(), flags.quiet)
+			n, err := flags.spec.Materialize(ctx, conn, table)
+			progress.Stop()
+			if err != nil {
+				return err
+			}
+			if n == 0 {
+				return fmt.Errorf("%s has no rows to diagnose", args[0])
+			}
+			if out != "" {
+				if err := writeTable(ctx, conn, table, out); err != nil {
+					return err
+				}
+			}
+			return printTop(ctx, conn, table, flags.spec, top, n, cmd)
+		},
+	}
+	flags.register(cmd)
+	cmd.Flags().IntVar(&top, "top", 20, "print this many groups")
+	cmd.Flags().StringVarP(&out, "out", "o", "", "write every group's row to `FILE` (.parquet, .csv or .json)")
+	return cmd
+}
+
+// writeTable copies a table to a file whose format its extension names.
+func writeTable(ctx context.Context, conn *sql.Conn, table, path string) error {
+	format := map[string]string{".parquet": "parquet", ".csv": "csv", ".json": "json"}[strings.ToLower(filepath.Ext(path))]
+	if format == "" {
+		return fmt.Errorf("--out %s: use a .parquet, .csv or .json file", path)
+	}
+	q := fmt.Sprintf("COPY %s TO %s (FORMAT %s)", udf.QuoteIdent(table), udf.QuoteLiteral(path), format)
+	if _, err := conn.ExecContext(ctx, q); err != nil {
+		msg, _, _ := strings.Cut(err.Error(), "\n")
+		return fmt.Errorf("write %s: %s", path, msg)
+	}
+	return nil
+}
+
+func printTop(ctx context.Context, conn *sql.Conn, table string, spec diagnosis.Spec, top, n int, cmd *cobra.Command) error {
+	by := make([]string, len(spec.By))
+	for i, b := range spec.By {
+		by[i] = udf.QuoteIdent(b)
+	}
+	q := fmt.Sprintf(`SELECT rank, %s, n, status, array_to_string(violations, ',') AS violations,
+		differences AS d, seasonal_differences AS "D", round(box_cox_lambda, 2) AS lambda, round(score, 2) AS score,
+		round(adf_p_value, 4) AS adf_p, round(kpss_p_value, 3) AS kpss_p, round(mean_q_value, 4) AS mean_q, round(spread_q_value, 4) AS spread_q
+		FROM %s ORDER BY rank LIMIT %d`, strings.Join(by, ", "), udf.QuoteIdent(table), top)
+	rows, err := conn.QueryContext(ctx, q)
+	if err != nil {
+		return err
+	}
+	res, err := output.Read(rows)
+	rows.Close()
+	if err != nil {
+		return err
+	}
+	fmt.Fprintf(cmd.OutOrStdout(), "%d groups diagnosed; the %d furthest from stationary:\n", n, min(top, n))
+	return output.Write(cmd.OutOrStdout(), res, output.Table)
+}
