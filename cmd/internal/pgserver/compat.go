@@ -1,0 +1,123 @@
+package pgserver
+
+import (
+	"regexp"
+	"strings"
+)
+
+// Statements PostgreSQL clients send that DuckDB does not answer the way
+// they expect are recognised here and answered by plumb.
+
+// clientParameters are PostgreSQL session parameters clients set or ask
+// about; plumb records them per session and reports them, and DuckDB never
+// sees them.
+var clientParameters = map[string]string{
+	"server_version":                      "15.0 (plumb)",
+	"server_version_num":                  "150000",
+	"server_encoding":                     "UTF8",
+	"client_encoding":                     "UTF8",
+	"datestyle":                           "ISO, MDY",
+	"intervalstyle":                       "postgres",
+	"timezone":                            "UTC",
+	"integer_datetimes":                   "on",
+	"standard_conforming_strings":         "on",
+	"application_name":                    "",
+	"extra_float_digits":                  "3",
+	"client_min_messages":                 "notice",
+	"statement_timeout":                   "0",
+	"lock_timeout":                        "0",
+	"idle_in_transaction_session_timeout": "0",
+	"default_transaction_isolation":       "serializable",
+	"transaction_isolation":               "serializable",
+	"default_transaction_read_only":       "off",
+	"transaction_read_only":               "off",
+	"bytea_output":                        "hex",
+	"search_path":                         "main",
+	"is_superuser":                        "off",
+	"session_authorization":               "",
+	"max_identifier_length":               "63",
+}
+
+// startupParameters are sent to every client after login.
+var startupParameters = []string{"server_version", "server_encoding", "client_encoding", "DateStyle", "IntervalStyle",
+	"TimeZone", "integer_datetimes", "standard_conforming_strings", "application_name", "is_superuser", "session_authorization"}
+
+var (
+	setStatement  = regexp.MustCompile(`(?is)^\s*SET\s+(?:SESSION\s+|LOCAL\s+)?([a-z_][a-z0-9_.]*)\s*(?:=|\s+TO\s+|\s)\s*(.*?)\s*;?\s*$`)
+	setTimeZone   = regexp.MustCompile(`(?is)^\s*SET\s+(?:SESSION\s+|LOCAL\s+)?TIME\s+ZONE\s+(.*?)\s*;?\s*$`)
+	showStatement = regexp.MustCompile(`(?is)^\s*SHOW\s+([a-z_][a-z0-9_.]*)\s*;?\s*$`)
+	resetStmt     = regexp.MustCompile(`(?is)^\s*(RESET\s+\w+|RESET\s+ALL|DISCARD\s+ALL|DEALLOCATE\s+(ALL|\w+))\s*;?\s*$`)
+	// psql's \dt (PostgreSQL 15 client): the list of tables.
+	psqlListTables = regexp.MustCompile(`(?is)FROM\s+pg_catalog\.pg_class\s+c.*relkind\s+IN\s+\('r','p'`)
+	copyToStdout   = regexp.MustCompile(`(?is)^\s*COPY\s+(\(.*\)|[a-z_"][a-z0-9_."]*)\s+TO\s+STDOUT\s*(.*?)\s*;?\s*$`)
+	copyFromStdin  = regexp.MustCompile(`(?is)^\s*COPY\s+.*\s+FROM\s+STDIN`)
+)
+
+// setParameter recognises SET for a client parameter and returns its name
+// and value.
+func setParameter(sql string) (string, string, bool) {
+	if m := setTimeZone.FindStringSubmatch(sql); m != nil {
+		return "timezone", unquote(m[1]), true
+	}
+	m := setStatement.FindStringSubmatch(sql)
+	if m == nil {
+		return "", "", false
+	}
+	name := strings.ToLower(m[1])
+	if _, ok := clientParameters[name]; !ok {
+		return "", "", false
+	}
+	return name, unquote(m[2]), true
+}
+
+// showParameter recognises SHOW of a client parameter.
+func showParameter(sql string) (string, bool) {
+	m := showStatement.FindStringSubmatch(sql)
+	if m == nil {
+		return "", false
+	}
+	name := strings.ToLower(m[1])
+	_, ok := clientParameters[name]
+	return name, ok
+}
+
+func unquote(s string) string {
+	s = strings.TrimSpace(s)
+	if len(s) >= 2 && (s[0] == '\'' && s[len(s)-1] == '\'' || s[0] == '"' && s[len(s)-1] == '"') {
+		return strings.ReplaceAll(s[1:len(s)-1], "''", "'")
+	}
+	return s
+}
+
+// rewrite replaces a client's catalogue query with one DuckDB answers in the
+// shape the client expects, or returns the statement unchanged.
+func rewrite(sql string) string {
+	if psqlListTables.MatchString(sql) {
+		return `SELECT schema_name AS "Schema", table_name AS "Name", 'table' AS "Type", 'plumb' AS "Owner"
+			FROM duckdb_tables() WHERE NOT internal ORDER BY 1, 2`
+	}
+	return sql
+}
+
+// copyOptions reads the options of COPY ... TO STDOUT: CSV or text format,
+// a header line, and the delimiter.
+type copyOptions struct {
+	csv       bool
+	header    bool
+	delimiter string
+}
+
+func parseCopyOptions(s string) copyOptions {
+	u := strings.ToUpper(s)
+	o := copyOptions{delimiter: "\t"}
+	if strings.Contains(u, "CSV") {
+		o.csv, o.delimiter = true, ","
+	}
+	if strings.Contains(u, "HEADER") && !strings.Contains(u, "HEADER FALSE") && !strings.Contains(u, "HEADER 0") {
+		o.header = true
+	}
+	if m := regexp.MustCompile(`(?i)DELIMITER\s+'([^']*)'`).FindStringSubmatch(s); m != nil && m[1] != "" {
+		o.delimiter = m[1]
+	}
+	return o
+}

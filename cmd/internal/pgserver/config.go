@@ -1,0 +1,98 @@
+// Package pgserver is plumb's PostgreSQL wire-protocol query proxy: psql,
+// notebooks' PostgreSQL drivers and BI tools connect to it and run SQL, with
+// plumb's functions, on an embedded DuckDB database.
+//
+// Every client session gets its own DuckDB connection (its own transactions
+// and TEMP tables) on one shared database. The database is sandboxed: no
+// file access outside the data directory, no extensions, and the
+// configuration is locked after start-up.
+package pgserver
+
+import (
+	"bufio"
+	"fmt"
+	"net"
+	"os"
+	"strings"
+	"time"
+)
+
+// Config says how to serve.
+type Config struct {
+	Addr         string // host:port to listen on
+	DataDir      string // the only directory clients may read and write
+	DBPath       string // database file; empty for in-memory
+	ReadOnly     bool   // open DBPath read-only
+	Auth         string // "scram" (default) or "trust" (loopback only)
+	Users        map[string]string
+	TLSCert      string
+	TLSKey       string
+	QueryTimeout time.Duration // 0: none
+	MaxConns     int           // 0: 64
+	MemoryLimit  string        // DuckDB memory_limit, e.g. "4GB"; empty: DuckDB's default
+	Grace        time.Duration // how long running statements may finish at shutdown
+	// FailedLoginDelay is the pause before a failed login is answered.
+	FailedLoginDelay time.Duration
+}
+
+// Check validates a configuration before anything is opened.
+func (c *Config) Check() error {
+	if c.Auth == "" {
+		c.Auth = "scram"
+	}
+	if c.MaxConns == 0 {
+		c.MaxConns = 64
+	}
+	if c.Grace == 0 {
+		c.Grace = 10 * time.Second
+	}
+	if c.FailedLoginDelay == 0 {
+		c.FailedLoginDelay = time.Second
+	}
+	switch c.Auth {
+	case "scram":
+		if len(c.Users) == 0 {
+			return fmt.Errorf("no users: give a users file (--users) or PLUMB_USERS, or use --auth trust on a loopback address")
+		}
+	case "trust":
+		host, _, err := net.SplitHostPort(c.Addr)
+		if err != nil {
+			return fmt.Errorf("listen address %q: %w", c.Addr, err)
+		}
+		if ip := net.ParseIP(host); host != "localhost" && (ip == nil || !ip.IsLoopback()) {
+			return fmt.Errorf("--auth trust is allowed only on a loopback address, not %q", host)
+		}
+	default:
+		return fmt.Errorf("unknown --auth %q: use scram or trust", c.Auth)
+	}
+	if (c.TLSCert == "") != (c.TLSKey == "") {
+		return fmt.Errorf("give both --tls-cert and --tls-key, or neither")
+	}
+	if c.DataDir != "" {
+		st, err := os.Stat(c.DataDir)
+		if err != nil || !st.IsDir() {
+			return fmt.Errorf("--data %q is not a directory", c.DataDir)
+		}
+	}
+	return nil
+}
+
+// ParseUsers reads "user:password" lines (blank lines and # comments are
+// skipped), as in a users file or the PLUMB_USERS variable (lines or
+// commas).
+func ParseUsers(text string) (map[string]string, error) {
+	users := map[string]string{}
+	sc := bufio.NewScanner(strings.NewReader(strings.ReplaceAll(text, ",", "\n")))
+	for n := 1; sc.Scan(); n++ {
+		line := strings.TrimSpace(sc.Text())
+		if line == "" || strings.HasPrefix(line, "#") {
+			continue
+		}
+		user, password, ok := strings.Cut(line, ":")
+		if !ok || user == "" || password == "" {
+			return nil, fmt.Errorf("users line %d: want user:password", n)
+		}
+		users[user] = password
+	}
+	return users, sc.Err()
+}

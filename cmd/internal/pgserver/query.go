@@ -1,0 +1,298 @@
+package pgserver
+
+import (
+	"context"
+	"database/sql"
+	"errors"
+	"fmt"
+	"regexp"
+	"strings"
+	"time"
+
+	"github.com/duckdb/duckdb-go/v2"
+	"github.com/jackc/pgx/v5/pgproto3"
+
+	"github.com/plumb-sql/plumb/cmd/internal/statements"
+)
+
+// prepared is a parsed statement of the extended protocol.
+type prepared struct {
+	sql    string
+	shape  shape
+	params []uint32 // OIDs the client gave, completed from the shape
+}
+
+// portal is a bound statement ready to execute.
+type portal struct {
+	stmt    *prepared
+	args    []any
+	formats []int16
+}
+
+var beginVariant = regexp.MustCompile(`(?is)^\s*(BEGIN|START\s+TRANSACTION)\b.*$`)
+
+// normalize maps statements PostgreSQL clients send to DuckDB's dialect.
+func normalize(sql string) string {
+	sql = strings.TrimSpace(sql)
+	if beginVariant.MatchString(sql) {
+		return "BEGIN TRANSACTION"
+	}
+	return rewrite(sql)
+}
+
+// simpleQuery runs every statement of a Query message in order, stopping
+// at the first error, then reports ready.
+func (sess *session) simpleQuery(text string) {
+	stmts := statements.Split(text)
+	if len(stmts) == 0 {
+		sess.be.Send(&pgproto3.EmptyQueryResponse{})
+	}
+	for _, s := range stmts {
+		if err := sess.run(s, nil, nil, true); err != nil {
+			sess.be.Send(responseFor(err))
+			break
+		}
+	}
+	sess.be.Send(&pgproto3.ReadyForQuery{TxStatus: sess.txn})
+	sess.be.Flush()
+}
+
+// run executes one statement: describe says whether to send its row
+// description (the simple protocol does; the extended one has Describe).
+func (sess *session) run(text string, args []any, formats []int16, describe bool) (err error) {
+	start := time.Now()
+	rows := int64(0)
+	defer func() {
+		attrs := []any{"sql", truncate(text, 300), "duration", time.Since(start).String(), "rows", rows}
+		if err != nil {
+			attrs = append(attrs, "error", firstLine(err.Error()))
+			if sess.txn == 'T' {
+				sess.txn = 'E'
+			}
+		}
+		sess.log.Info("statement", attrs...)
+	}()
+	if handled, err := sess.special(text, describe); handled {
+		return err
+	}
+	if copyFromStdin.MatchString(text) {
+		return pgError{stateFeatureNotSupport, "COPY FROM STDIN is not supported by plumb serve; load files under the data directory with COPY ... FROM 'file'"}
+	}
+	if m := copyToStdout.FindStringSubmatch(text); m != nil {
+		rows, err = sess.copyOut(m[1], parseCopyOptions(m[2]))
+		return err
+	}
+	sql := normalize(text)
+	ctx := sess.begin()
+	defer sess.end()
+	sh, err := sess.describeSQL(ctx, sql)
+	if err != nil {
+		return err
+	}
+	rows, err = sess.execute1(ctx, sql, sh, args, formats, describe)
+	return err
+}
+
+// execute1 runs a described statement and streams its result.
+func (sess *session) execute1(ctx context.Context, sql string, sh shape, args []any, formats []int16, describe bool) (int64, error) {
+	if !sh.returnsRows() {
+		res, err := sess.db.ExecContext(ctx, sql, args...)
+		if err != nil {
+			return 0, sess.wrap(ctx, err)
+		}
+		n, _ := res.RowsAffected()
+		sess.track(sql, sh.kind)
+		sess.be.Send(&pgproto3.CommandComplete{CommandTag: []byte(commandTag(sql, sh.kind, n))})
+		return n, nil
+	}
+	if describe {
+		sess.be.Send(rowDescription(sh.columns, formats))
+	}
+	rows, err := sess.db.QueryContext(ctx, sql, args...)
+	if err != nil {
+		return 0, sess.wrap(ctx, err)
+	}
+	defer rows.Close()
+	n, err := sess.sendRows(rows, sh.columns, formats)
+	if err != nil {
+		return n, sess.wrap(ctx, err)
+	}
+	sess.be.Send(&pgproto3.CommandComplete{CommandTag: []byte(fmt.Sprintf("SELECT %d", n))})
+	return n, nil
+}
+
+// wrap explains a statement cut short by its timeout or a cancel request.
+func (sess *session) wrap(ctx context.Context, err error) error {
+	switch {
+	case errors.Is(ctx.Err(), context.DeadlineExceeded):
+		return pgError{stateQueryCanceled, "canceling statement due to statement timeout"}
+	case errors.Is(ctx.Err(), context.Canceled):
+		return pgError{stateQueryCanceled, "canceling statement due to user request"}
+	}
+	return err
+}
+
+// sendRows streams rows as DataRow messages, flushing every 256 rows so a
+// large result does not pile up in memory.
+func (sess *session) sendRows(rows *sql.Rows, cols []column, formats []int16) (int64, error) {
+	vals := make([]any, len(cols))
+	ptrs := make([]any, len(cols))
+	for i := range vals {
+		ptrs[i] = &vals[i]
+	}
+	var n int64
+	for rows.Next() {
+		if err := rows.Scan(ptrs...); err != nil {
+			return n, err
+		}
+		data := make([][]byte, len(cols))
+		for i, v := range vals {
+			if formatOf(formats, i) == 1 {
+				data[i] = encodeBinary(v, cols[i].oid)
+			} else {
+				data[i] = encodeText(v, cols[i].oid)
+			}
+		}
+		sess.be.Send(&pgproto3.DataRow{Values: data})
+		n++
+		if n%256 == 0 {
+			if err := sess.be.Flush(); err != nil {
+				return n, err
+			}
+		}
+	}
+	return n, rows.Err()
+}
+
+func formatOf(formats []int16, i int) int16 {
+	switch len(formats) {
+	case 0:
+		return 0
+	case 1:
+		return formats[0]
+	}
+	if i < len(formats) {
+		return formats[i]
+	}
+	return 0
+}
+
+func rowDescription(cols []column, formats []int16) *pgproto3.RowDescription {
+	rd := &pgproto3.RowDescription{}
+	for i, c := range cols {
+		rd.Fields = append(rd.Fields, pgproto3.FieldDescription{
+			Name: []byte(c.name), DataTypeOID: c.oid, DataTypeSize: typeSize(c.oid), TypeModifier: -1,
+			Format: formatOf(formats, i),
+		})
+	}
+	return rd
+}
+
+// track follows the transaction status across BEGIN, COMMIT and ROLLBACK.
+func (sess *session) track(sql string, kind duckdb.StmtType) {
+	if kind != duckdb.STATEMENT_TYPE_TRANSACTION {
+		return
+	}
+	switch firstWord(sql) {
+	case "BEGIN", "START":
+		sess.txn = 'T'
+	case "COMMIT", "END", "ROLLBACK", "ABORT":
+		sess.txn = 'I'
+	}
+}
+
+// commandTag is the CommandComplete tag PostgreSQL clients expect.
+func commandTag(sql string, kind duckdb.StmtType, n int64) string {
+	switch kind {
+	case duckdb.STATEMENT_TYPE_INSERT:
+		return fmt.Sprintf("INSERT 0 %d", n)
+	case duckdb.STATEMENT_TYPE_UPDATE:
+		return fmt.Sprintf("UPDATE %d", n)
+	case duckdb.STATEMENT_TYPE_DELETE:
+		return fmt.Sprintf("DELETE %d", n)
+	case duckdb.STATEMENT_TYPE_COPY:
+		return fmt.Sprintf("COPY %d", n)
+	case duckdb.STATEMENT_TYPE_TRANSACTION:
+		switch firstWord(sql) {
+		case "BEGIN", "START":
+			return "BEGIN"
+		case "COMMIT", "END":
+			return "COMMIT"
+		}
+		return "ROLLBACK"
+	case duckdb.STATEMENT_TYPE_CREATE, duckdb.STATEMENT_TYPE_DROP, duckdb.STATEMENT_TYPE_ALTER, duckdb.STATEMENT_TYPE_CREATE_FUNC:
+		words := strings.Fields(strings.ToUpper(sql))
+		tag := []string{words[0]}
+		for _, w := range words[1:] {
+			if w == "OR" || w == "REPLACE" || w == "TEMP" || w == "TEMPORARY" || w == "UNIQUE" {
+				continue
+			}
+			tag = append(tag, w)
+			break
+		}
+		return strings.Join(tag, " ")
+	}
+	return firstWord(sql)
+}
+
+func firstWord(sql string) string {
+	f := strings.Fields(strings.ToUpper(sql))
+	if len(f) == 0 {
+		return ""
+	}
+	return strings.TrimRight(f[0], ";")
+}
+
+func truncate(s string, n int) string {
+	s = strings.Join(strings.Fields(s), " ")
+	if len(s) > n {
+		return s[:n] + "..."
+	}
+	return s
+}
+
+func firstLine(s string) string {
+	line, _, _ := strings.Cut(s, "\n")
+	return line
+}
+
+// special answers statements plumb handles itself: client SET, SHOW and
+// RESET of PostgreSQL session parameters.
+func (sess *session) special(sql string, describe bool) (bool, error) {
+	if name, value, ok := setParameter(sql); ok {
+		sess.params[name] = value
+		sess.be.Send(&pgproto3.CommandComplete{CommandTag: []byte("SET")})
+		return true, nil
+	}
+	if name, ok := showParameter(sql); ok {
+		if describe {
+			sess.be.Send(rowDescription([]column{{name: name, oid: oidText}}, nil))
+		}
+		sess.be.Send(&pgproto3.DataRow{Values: [][]byte{[]byte(sess.param(name))}})
+		sess.be.Send(&pgproto3.CommandComplete{CommandTag: []byte("SHOW")})
+		return true, nil
+	}
+	if m := resetStmt.FindStringSubmatch(sql); m != nil {
+		tag := strings.Fields(strings.ToUpper(m[1]))[0]
+		if tag == "DISCARD" {
+			tag = "DISCARD ALL"
+		}
+		sess.be.Send(&pgproto3.CommandComplete{CommandTag: []byte(tag)})
+		return true, nil
+	}
+	return false, nil
+}
+
+// specialShape is the shape of a statement special answers, for Describe.
+func specialShape(sql string) (shape, bool) {
+	if _, _, ok := setParameter(sql); ok {
+		return shape{}, true
+	}
+	if name, ok := showParameter(sql); ok {
+		return shape{columns: []column{{name: name, oid: oidText}}}, true
+	}
+	if resetStmt.MatchString(sql) {
+		return shape{}, true
+	}
+	return shape{}, false
+}

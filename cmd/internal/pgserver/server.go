@@ -1,0 +1,206 @@
+package pgserver
+
+import (
+	"context"
+	"crypto/rand"
+	"crypto/subtle"
+	"crypto/tls"
+	"database/sql"
+	"errors"
+	"fmt"
+	"log/slog"
+	"net"
+	"sync"
+	"sync/atomic"
+	"time"
+
+	"github.com/plumb-sql/plumb/udf"
+)
+
+// Server accepts PostgreSQL clients and serves them from one database.
+type Server struct {
+	cfg   Config
+	db    *sql.DB
+	creds credentials
+	tls   *tls.Config
+	log   *slog.Logger
+
+	mu       sync.Mutex
+	ln       net.Listener
+	sessions map[uint32]*session
+	closing  atomic.Bool
+	wg       sync.WaitGroup
+	nextPID  atomic.Uint32
+}
+
+// New opens the database with the sandbox in force and prepares to serve.
+func New(ctx context.Context, cfg Config, log *slog.Logger) (*Server, error) {
+	if err := cfg.Check(); err != nil {
+		return nil, err
+	}
+	s := &Server{cfg: cfg, log: log, sessions: map[uint32]*session{}}
+	if cfg.TLSCert != "" {
+		cert, err := tls.LoadX509KeyPair(cfg.TLSCert, cfg.TLSKey)
+		if err != nil {
+			return nil, fmt.Errorf("TLS: %w", err)
+		}
+		s.tls = &tls.Config{Certificates: []tls.Certificate{cert}, MinVersion: tls.VersionTLS12}
+	}
+	if cfg.Auth == "scram" {
+		creds, err := newCredentials(cfg.Users)
+		if err != nil {
+			return nil, err
+		}
+		s.creds = creds
+	}
+	db, err := udf.Open(ctx, udf.Options{Path: cfg.DBPath, ReadOnly: cfg.ReadOnly})
+	if err != nil {
+		return nil, err
+	}
+	if err := sandbox(ctx, db, cfg); err != nil {
+		db.Close()
+		return nil, err
+	}
+	s.db = db
+	s.nextPID.Store(uint32(time.Now().UnixNano()%100000) + 1000)
+	return s, nil
+}
+
+// sandbox confines every client: files only under the data directory, no
+// extensions, and a locked configuration. DuckDB applies these settings to
+// the whole database.
+func sandbox(ctx context.Context, db *sql.DB, cfg Config) error {
+	stmts := []string{}
+	if cfg.DataDir != "" {
+		stmts = append(stmts, "SET allowed_directories = ["+udf.QuoteLiteral(cfg.DataDir)+"]")
+	}
+	if cfg.MemoryLimit != "" {
+		stmts = append(stmts, "SET memory_limit = "+udf.QuoteLiteral(cfg.MemoryLimit))
+	}
+	stmts = append(stmts,
+		"SET enable_external_access = false",
+		"SET autoinstall_known_extensions = false",
+		"SET autoload_known_extensions = false",
+		"SET allow_community_extensions = false",
+		"SET lock_configuration = true",
+	)
+	for _, q := range stmts {
+		if _, err := db.ExecContext(ctx, q); err != nil {
+			return fmt.Errorf("sandbox (%s): %w", q, err)
+		}
+	}
+	return nil
+}
+
+// Serve accepts connections on ln until Shutdown.
+func (s *Server) Serve(ln net.Listener) error {
+	s.mu.Lock()
+	s.ln = ln
+	s.mu.Unlock()
+	s.log.Info("listening", "addr", ln.Addr().String(), "auth", s.cfg.Auth, "tls", s.tls != nil, "data", s.cfg.DataDir)
+	for {
+		c, err := ln.Accept()
+		if err != nil {
+			if s.closing.Load() {
+				return nil
+			}
+			var ne net.Error
+			if errors.As(err, &ne) && ne.Timeout() {
+				continue
+			}
+			return err
+		}
+		s.wg.Add(1)
+		go func() {
+			defer s.wg.Done()
+			s.handle(c)
+		}()
+	}
+}
+
+// Addr is the listening address (useful with port 0).
+func (s *Server) Addr() net.Addr {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	if s.ln == nil {
+		return nil
+	}
+	return s.ln.Addr()
+}
+
+func (s *Server) register(sess *session) bool {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	if len(s.sessions) >= s.cfg.MaxConns {
+		return false
+	}
+	s.sessions[sess.pid] = sess
+	return true
+}
+
+func (s *Server) unregister(sess *session) {
+	s.mu.Lock()
+	delete(s.sessions, sess.pid)
+	s.mu.Unlock()
+}
+
+// cancel handles a CancelRequest: the running statement of the session
+// with that process ID and secret, if any, is interrupted.
+func (s *Server) cancel(pid uint32, secret []byte) {
+	s.mu.Lock()
+	sess := s.sessions[pid]
+	s.mu.Unlock()
+	if sess != nil && subtle.ConstantTimeCompare(sess.secret, secret) == 1 {
+		s.log.Info("cancel request", "pid", pid)
+		sess.cancelRunning()
+	}
+}
+
+// Shutdown stops accepting, lets running statements finish for the grace
+// period, then cancels what still runs (its transaction rolls back), closes
+// every session and finally the database, which checkpoints a file.
+func (s *Server) Shutdown() error {
+	s.closing.Store(true)
+	s.mu.Lock()
+	if s.ln != nil {
+		s.ln.Close()
+	}
+	s.mu.Unlock()
+	deadline := time.Now().Add(s.cfg.Grace)
+	for time.Now().Before(deadline) && s.busy() {
+		time.Sleep(20 * time.Millisecond)
+	}
+	s.mu.Lock()
+	for _, sess := range s.sessions {
+		sess.cancelRunning()
+		sess.shutdown()
+	}
+	s.mu.Unlock()
+	done := make(chan struct{})
+	go func() { s.wg.Wait(); close(done) }()
+	select {
+	case <-done:
+	case <-time.After(5 * time.Second):
+		s.log.Warn("sessions still open after shutdown; closing the database anyway")
+	}
+	s.log.Info("closing database")
+	return s.db.Close()
+}
+
+func (s *Server) busy() bool {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	for _, sess := range s.sessions {
+		if sess.running() {
+			return true
+		}
+	}
+	return false
+}
+
+// randomSecret is a session's cancel key (4 bytes, as protocol 3.0 has it).
+func randomSecret() []byte {
+	b := make([]byte, 4)
+	rand.Read(b)
+	return b
+}

@@ -1,0 +1,282 @@
+package pgserver
+
+import (
+	"context"
+	"crypto/tls"
+	"database/sql"
+	"errors"
+	"fmt"
+	"io"
+	"log/slog"
+	"net"
+	"strings"
+	"sync"
+	"time"
+
+	"github.com/jackc/pgx/v5/pgproto3"
+)
+
+// session is one client connection and its own DuckDB connection.
+type session struct {
+	srv    *Server
+	conn   net.Conn
+	be     *pgproto3.Backend
+	db     *sql.Conn
+	log    *slog.Logger
+	pid    uint32
+	secret []byte
+	user   string
+	txn    byte // 'I' idle, 'T' in a transaction, 'E' in a failed transaction
+	params map[string]string
+
+	statements map[string]*prepared
+	portals    map[string]*portal
+	skipping   bool // after an extended-protocol error, until Sync
+
+	mu     sync.Mutex
+	cancel context.CancelFunc // of the running statement
+	busy   bool
+}
+
+func (s *Server) handle(c net.Conn) {
+	start := time.Now()
+	sess := &session{srv: s, conn: c, be: pgproto3.NewBackend(c, c), txn: 'I',
+		params: map[string]string{}, statements: map[string]*prepared{}, portals: map[string]*portal{}}
+	sess.be.SetMaxBodyLen(64 << 20)
+	sess.log = s.log.With("remote", c.RemoteAddr().String())
+	defer c.Close()
+	ok, err := sess.startup()
+	if err != nil || !ok {
+		if err != nil && !errors.Is(err, io.EOF) {
+			sess.log.Info("connection refused", "error", err.Error())
+		}
+		return
+	}
+	defer s.unregister(sess)
+	defer sess.db.Close()
+	sess.log = sess.log.With("user", sess.user, "pid", sess.pid)
+	sess.log.Info("connection opened")
+	err = sess.loop()
+	attrs := []any{"duration", time.Since(start).String()}
+	if err != nil && !errors.Is(err, io.EOF) && !errors.Is(err, net.ErrClosed) {
+		attrs = append(attrs, "error", err.Error())
+	}
+	sess.log.Info("connection closed", attrs...)
+}
+
+// startup handles SSL negotiation, cancel requests, the startup message and
+// authentication; ok reports whether a session was established.
+func (sess *session) startup() (bool, error) {
+	sess.conn.SetDeadline(time.Now().Add(30 * time.Second))
+	defer sess.conn.SetDeadline(time.Time{})
+	for {
+		msg, err := sess.be.ReceiveStartupMessage()
+		if err != nil {
+			return false, err
+		}
+		switch m := msg.(type) {
+		case *pgproto3.SSLRequest:
+			if sess.srv.tls == nil {
+				if _, err := sess.conn.Write([]byte{'N'}); err != nil {
+					return false, err
+				}
+				continue
+			}
+			if _, err := sess.conn.Write([]byte{'S'}); err != nil {
+				return false, err
+			}
+			t := tls.Server(sess.conn, sess.srv.tls)
+			if err := t.Handshake(); err != nil {
+				return false, fmt.Errorf("TLS handshake: %w", err)
+			}
+			sess.conn = t
+			sess.be = pgproto3.NewBackend(t, t)
+			sess.be.SetMaxBodyLen(64 << 20)
+		case *pgproto3.GSSEncRequest:
+			if _, err := sess.conn.Write([]byte{'N'}); err != nil {
+				return false, err
+			}
+		case *pgproto3.CancelRequest:
+			sess.srv.cancel(m.ProcessID, m.SecretKey)
+			return false, nil
+		case *pgproto3.StartupMessage:
+			return sess.login(m)
+		default:
+			return false, fmt.Errorf("unexpected startup message %T", msg)
+		}
+	}
+}
+
+func (sess *session) fatal(code, msg string) {
+	sess.be.Send(&pgproto3.ErrorResponse{Severity: "FATAL", SeverityUnlocalized: "FATAL", Code: code, Message: msg})
+	sess.be.Flush()
+}
+
+func (sess *session) login(m *pgproto3.StartupMessage) (bool, error) {
+	srv := sess.srv
+	sess.user = m.Parameters["user"]
+	if srv.closing.Load() {
+		sess.fatal(stateAdminShutdown, "the server is shutting down")
+		return false, nil
+	}
+	if sess.user == "" {
+		sess.fatal(stateInvalidAuthSpec, "no user name given")
+		return false, nil
+	}
+	if srv.cfg.Auth == "scram" {
+		if err := scramLogin(sess.be, srv.creds, sess.user); err != nil {
+			var le errLogin
+			if errors.As(err, &le) {
+				time.Sleep(srv.cfg.FailedLoginDelay)
+				sess.log.Warn("login failed", "user", sess.user, "reason", le.reason)
+				code := stateInvalidPassword
+				if strings.Contains(le.reason, "expected") || strings.Contains(le.reason, "mechanism") || strings.Contains(le.reason, "malformed") {
+					code = stateInvalidAuthSpec
+				}
+				sess.fatal(code, le.reason)
+				return false, nil
+			}
+			return false, err
+		}
+	}
+	sess.pid = srv.nextPID.Add(1)
+	sess.secret = randomSecret()
+	if !srv.register(sess) {
+		sess.fatal(stateTooManyConns, fmt.Sprintf("too many connections (at most %d)", srv.cfg.MaxConns))
+		return false, nil
+	}
+	db, err := srv.db.Conn(context.Background())
+	if err != nil {
+		srv.unregister(sess)
+		sess.fatal(stateInternal, "cannot open a database connection: "+err.Error())
+		return false, nil
+	}
+	sess.db = db
+	for k, v := range m.Parameters {
+		if _, ok := clientParameters[strings.ToLower(k)]; ok {
+			sess.params[strings.ToLower(k)] = v
+		}
+	}
+	sess.be.Send(&pgproto3.AuthenticationOk{})
+	for _, name := range startupParameters {
+		sess.be.Send(&pgproto3.ParameterStatus{Name: name, Value: sess.param(strings.ToLower(name))})
+	}
+	sess.be.Send(&pgproto3.BackendKeyData{ProcessID: sess.pid, SecretKey: sess.secret})
+	sess.be.Send(&pgproto3.ReadyForQuery{TxStatus: 'I'})
+	return true, sess.be.Flush()
+}
+
+func (sess *session) param(name string) string {
+	if v, ok := sess.params[name]; ok {
+		return v
+	}
+	if name == "session_authorization" {
+		return sess.user
+	}
+	return clientParameters[name]
+}
+
+// loop reads and answers messages until the client leaves.
+func (sess *session) loop() error {
+	for {
+		msg, err := sess.be.Receive()
+		if err != nil {
+			return err
+		}
+		if sess.srv.closing.Load() && !sess.running() {
+			sess.fatal(stateAdminShutdown, "the server is shutting down")
+			return nil
+		}
+		switch m := msg.(type) {
+		case *pgproto3.Query:
+			sess.simpleQuery(m.String)
+		case *pgproto3.Parse:
+			sess.handle(sess.parse(m))
+		case *pgproto3.Bind:
+			sess.handle(sess.bind(m))
+		case *pgproto3.Describe:
+			sess.handle(sess.describe(m))
+		case *pgproto3.Execute:
+			sess.handle(sess.execute(m))
+		case *pgproto3.Close:
+			if m.ObjectType == 'S' {
+				delete(sess.statements, m.Name)
+			} else {
+				delete(sess.portals, m.Name)
+			}
+			sess.be.Send(&pgproto3.CloseComplete{})
+		case *pgproto3.Sync:
+			sess.skipping = false
+			sess.be.Send(&pgproto3.ReadyForQuery{TxStatus: sess.txn})
+			if err := sess.be.Flush(); err != nil {
+				return err
+			}
+		case *pgproto3.Flush:
+			if err := sess.be.Flush(); err != nil {
+				return err
+			}
+		case *pgproto3.Terminate:
+			return nil
+		default:
+			sess.be.Send(&pgproto3.ErrorResponse{Severity: "ERROR", SeverityUnlocalized: "ERROR", Code: stateProtocolViolation,
+				Message: fmt.Sprintf("plumb does not support the %T message", msg)})
+			sess.be.Send(&pgproto3.ReadyForQuery{TxStatus: sess.txn})
+			if err := sess.be.Flush(); err != nil {
+				return err
+			}
+		}
+	}
+}
+
+// handle sends the error of an extended-protocol step; after an error the
+// rest of the messages up to Sync are skipped, as the protocol requires.
+func (sess *session) handle(err error) {
+	if err == nil {
+		return
+	}
+	sess.be.Send(responseFor(err))
+	sess.skipping = true
+}
+
+// begin marks a statement as running and returns its context.
+func (sess *session) begin() context.Context {
+	ctx := context.Background()
+	var cancel context.CancelFunc
+	if t := sess.srv.cfg.QueryTimeout; t > 0 {
+		ctx, cancel = context.WithTimeout(ctx, t)
+	} else {
+		ctx, cancel = context.WithCancel(ctx)
+	}
+	sess.mu.Lock()
+	sess.cancel, sess.busy = cancel, true
+	sess.mu.Unlock()
+	return ctx
+}
+
+func (sess *session) end() {
+	sess.mu.Lock()
+	if sess.cancel != nil {
+		sess.cancel()
+	}
+	sess.cancel, sess.busy = nil, false
+	sess.mu.Unlock()
+}
+
+func (sess *session) cancelRunning() {
+	sess.mu.Lock()
+	defer sess.mu.Unlock()
+	if sess.cancel != nil {
+		sess.cancel()
+	}
+}
+
+func (sess *session) running() bool {
+	sess.mu.Lock()
+	defer sess.mu.Unlock()
+	return sess.busy
+}
+
+// shutdown closes the client connection so its loop ends.
+func (sess *session) shutdown() {
+	sess.conn.SetReadDeadline(time.Now())
+}

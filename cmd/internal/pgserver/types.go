@@ -1,0 +1,520 @@
+package pgserver
+
+import (
+	"encoding/binary"
+	"encoding/json"
+	"fmt"
+	"math"
+	"math/big"
+	"sort"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/duckdb/duckdb-go/v2"
+)
+
+// PostgreSQL type OIDs (from the pg_type catalogue; stable across releases).
+const (
+	oidBool        = 16
+	oidBytea       = 17
+	oidInt8        = 20
+	oidInt2        = 21
+	oidInt4        = 23
+	oidText        = 25
+	oidJSON        = 114
+	oidFloat4      = 700
+	oidFloat8      = 701
+	oidUnknown     = 705
+	oidBoolArray   = 1000
+	oidInt2Array   = 1005
+	oidInt4Array   = 1007
+	oidTextArray   = 1009
+	oidInt8Array   = 1016
+	oidFloat4Array = 1021
+	oidFloat8Array = 1022
+	oidVarchar     = 1043
+	oidDate        = 1082
+	oidTime        = 1083
+	oidTimestamp   = 1114
+	oidTimestampTZ = 1184
+	oidInterval    = 1186
+	oidNumeric     = 1700
+	oidUUID        = 2950
+)
+
+// arrayOf maps an element OID to its one-dimensional array OID.
+var arrayOf = map[uint32]uint32{
+	oidBool: oidBoolArray, oidInt2: oidInt2Array, oidInt4: oidInt4Array, oidInt8: oidInt8Array,
+	oidFloat4: oidFloat4Array, oidFloat8: oidFloat8Array, oidText: oidTextArray,
+}
+
+var elementOf = func() map[uint32]uint32 {
+	m := map[uint32]uint32{}
+	for e, a := range arrayOf {
+		m[a] = e
+	}
+	return m
+}()
+
+// typeOID maps a DuckDB type name to a PostgreSQL type OID. Lists of types
+// with a PostgreSQL array type become arrays; other lists, STRUCTs and MAPs
+// become json text.
+func typeOID(name string) uint32 {
+	name = strings.ToUpper(strings.TrimSpace(name))
+	if strings.HasSuffix(name, "[]") {
+		if a, ok := arrayOf[typeOID(strings.TrimSuffix(name, "[]"))]; ok {
+			return a
+		}
+		return oidJSON
+	}
+	switch {
+	case strings.HasPrefix(name, "DECIMAL"), name == "HUGEINT", name == "UHUGEINT", name == "UBIGINT", name == "BIGNUM", name == "VARINT":
+		return oidNumeric
+	case strings.HasPrefix(name, "STRUCT"), strings.HasPrefix(name, "MAP"), strings.HasPrefix(name, "UNION"), strings.HasSuffix(name, "]"), name == "JSON":
+		return oidJSON
+	case strings.HasPrefix(name, "TIMESTAMP WITH TIME ZONE"), name == "TIMESTAMPTZ":
+		return oidTimestampTZ
+	case strings.HasPrefix(name, "TIMESTAMP"):
+		return oidTimestamp
+	}
+	switch name {
+	case "BOOLEAN":
+		return oidBool
+	case "TINYINT", "SMALLINT", "UTINYINT":
+		return oidInt2
+	case "INTEGER", "USMALLINT":
+		return oidInt4
+	case "BIGINT", "UINTEGER":
+		return oidInt8
+	case "FLOAT":
+		return oidFloat4
+	case "DOUBLE":
+		return oidFloat8
+	case "DATE":
+		return oidDate
+	case "TIME":
+		return oidTime
+	case "INTERVAL":
+		return oidInterval
+	case "BLOB":
+		return oidBytea
+	case "UUID":
+		return oidUUID
+	}
+	return oidText
+}
+
+// typeSize is the fixed size PostgreSQL declares for a type, -1 if variable.
+func typeSize(oid uint32) int16 {
+	switch oid {
+	case oidBool:
+		return 1
+	case oidInt2:
+		return 2
+	case oidInt4, oidFloat4, oidDate:
+		return 4
+	case oidInt8, oidFloat8, oidTimestamp, oidTimestampTZ, oidTime:
+		return 8
+	case oidInterval, oidUUID:
+		return 16
+	}
+	return -1
+}
+
+// encodeText renders a value in PostgreSQL's text format for type oid.
+func encodeText(v any, oid uint32) []byte {
+	if v == nil {
+		return nil
+	}
+	return []byte(textOf(v, oid))
+}
+
+func textOf(v any, oid uint32) string {
+	switch x := v.(type) {
+	case bool:
+		if x {
+			return "t"
+		}
+		return "f"
+	case float64:
+		return floatText(x, 64)
+	case float32:
+		return floatText(float64(x), 32)
+	case string:
+		return x
+	case []byte:
+		return `\x` + fmt.Sprintf("%x", x)
+	case time.Time:
+		switch oid {
+		case oidDate:
+			return x.Format("2006-01-02")
+		case oidTimestampTZ:
+			return x.UTC().Format("2006-01-02 15:04:05.999999") + "+00"
+		case oidTime:
+			return x.Format("15:04:05.999999")
+		}
+		return x.Format("2006-01-02 15:04:05.999999")
+	case duckdb.Interval:
+		return intervalText(x)
+	case duckdb.Decimal:
+		return x.String()
+	case *big.Int:
+		return x.String()
+	case duckdb.UUID:
+		return x.String()
+	case *duckdb.UUID:
+		return x.String()
+	case []any:
+		if elem, ok := elementOf[oid]; ok {
+			return arrayText(x, elem)
+		}
+		return jsonText(x)
+	case map[string]any, duckdb.OrderedMap, duckdb.Map:
+		return jsonText(x)
+	}
+	return fmt.Sprint(v)
+}
+
+func floatText(f float64, bits int) string {
+	switch {
+	case math.IsNaN(f):
+		return "NaN"
+	case math.IsInf(f, 1):
+		return "Infinity"
+	case math.IsInf(f, -1):
+		return "-Infinity"
+	}
+	return strconv.FormatFloat(f, 'g', -1, bits)
+}
+
+func intervalText(i duckdb.Interval) string {
+	var parts []string
+	if i.Months != 0 {
+		parts = append(parts, fmt.Sprintf("%d mons", i.Months))
+	}
+	if i.Days != 0 {
+		parts = append(parts, fmt.Sprintf("%d days", i.Days))
+	}
+	if i.Micros != 0 || len(parts) == 0 {
+		us := i.Micros
+		sign := ""
+		if us < 0 {
+			sign, us = "-", -us
+		}
+		parts = append(parts, fmt.Sprintf("%s%02d:%02d:%02d", sign, us/3600e6, us/60e6%60, us/1e6%60))
+		if frac := us % 1e6; frac != 0 {
+			parts[len(parts)-1] += strings.TrimRight(fmt.Sprintf(".%06d", frac), "0")
+		}
+	}
+	return strings.Join(parts, " ")
+}
+
+// arrayText renders a one-dimensional PostgreSQL array literal.
+func arrayText(list []any, elem uint32) string {
+	var b strings.Builder
+	b.WriteByte('{')
+	for i, e := range list {
+		if i > 0 {
+			b.WriteByte(',')
+		}
+		if e == nil {
+			b.WriteString("NULL")
+			continue
+		}
+		s := textOf(e, elem)
+		if elem == oidText || s == "" || strings.ContainsAny(s, `{},"\ `) || strings.EqualFold(s, "null") {
+			s = `"` + strings.NewReplacer(`\`, `\\`, `"`, `\"`).Replace(s) + `"`
+		}
+		b.WriteString(s)
+	}
+	b.WriteByte('}')
+	return b.String()
+}
+
+// jsonText renders lists, structs and maps as JSON.
+func jsonText(v any) string {
+	b, err := json.Marshal(jsonable(v))
+	if err != nil {
+		return fmt.Sprint(v)
+	}
+	return string(b)
+}
+
+func jsonable(v any) any {
+	switch x := v.(type) {
+	case []any:
+		out := make([]any, len(x))
+		for i, e := range x {
+			out[i] = jsonable(e)
+		}
+		return out
+	case map[string]any:
+		out := make(map[string]any, len(x))
+		for k, e := range x {
+			out[k] = jsonable(e)
+		}
+		return out
+	case duckdb.OrderedMap:
+		out := map[string]any{}
+		for _, k := range x.Keys() {
+			v, _ := x.Get(k)
+			out[fmt.Sprint(k)] = jsonable(v)
+		}
+		return out
+	case duckdb.Map:
+		out := map[string]any{}
+		keys := make([]string, 0, len(x))
+		for k, e := range x {
+			keys = append(keys, fmt.Sprint(k))
+			out[fmt.Sprint(k)] = jsonable(e)
+		}
+		sort.Strings(keys)
+		return out
+	case float64:
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return floatText(x, 64)
+		}
+		return x
+	case time.Time, duckdb.Interval, duckdb.Decimal, *big.Int, duckdb.UUID, []byte:
+		return textOf(x, oidText)
+	}
+	return v
+}
+
+// pgEpoch is PostgreSQL's zero for dates and timestamps.
+var pgEpoch = time.Date(2000, 1, 1, 0, 0, 0, 0, time.UTC)
+
+// encodeBinary renders a value in PostgreSQL's binary format for type oid;
+// types without a binary form here fall back to their text bytes, which is
+// what PostgreSQL sends for text-like types too.
+func encodeBinary(v any, oid uint32) []byte {
+	if v == nil {
+		return nil
+	}
+	switch oid {
+	case oidBool:
+		if b, _ := v.(bool); b {
+			return []byte{1}
+		}
+		return []byte{0}
+	case oidInt2:
+		return binary.BigEndian.AppendUint16(nil, uint16(toInt(v)))
+	case oidInt4:
+		return binary.BigEndian.AppendUint32(nil, uint32(toInt(v)))
+	case oidInt8:
+		return binary.BigEndian.AppendUint64(nil, uint64(toInt(v)))
+	case oidFloat4:
+		return binary.BigEndian.AppendUint32(nil, math.Float32bits(float32(toFloat(v))))
+	case oidFloat8:
+		return binary.BigEndian.AppendUint64(nil, math.Float64bits(toFloat(v)))
+	case oidDate:
+		t, _ := v.(time.Time)
+		days := int32(t.Sub(pgEpoch).Hours() / 24)
+		if t.Before(pgEpoch) && t.Sub(pgEpoch)%(24*time.Hour) != 0 {
+			days--
+		}
+		return binary.BigEndian.AppendUint32(nil, uint32(days))
+	case oidTimestamp, oidTimestampTZ:
+		t, _ := v.(time.Time)
+		us := t.UnixMicro() - pgEpoch.UnixMicro()
+		return binary.BigEndian.AppendUint64(nil, uint64(us))
+	case oidInterval:
+		i, _ := v.(duckdb.Interval)
+		b := binary.BigEndian.AppendUint64(nil, uint64(i.Micros))
+		b = binary.BigEndian.AppendUint32(b, uint32(i.Days))
+		return binary.BigEndian.AppendUint32(b, uint32(i.Months))
+	case oidUUID:
+		switch u := v.(type) {
+		case duckdb.UUID:
+			return u[:]
+		case *duckdb.UUID:
+			return u[:]
+		}
+	case oidNumeric:
+		return numericBinary(textOf(v, oid))
+	case oidBoolArray, oidInt2Array, oidInt4Array, oidInt8Array, oidFloat4Array, oidFloat8Array, oidTextArray:
+		if list, ok := v.([]any); ok {
+			return arrayBinary(list, elementOf[oid])
+		}
+	case oidBytea:
+		if b, ok := v.([]byte); ok {
+			return b
+		}
+	}
+	return []byte(textOf(v, oid))
+}
+
+func toInt(v any) int64 {
+	switch x := v.(type) {
+	case int8:
+		return int64(x)
+	case int16:
+		return int64(x)
+	case int32:
+		return int64(x)
+	case int64:
+		return x
+	case uint8:
+		return int64(x)
+	case uint16:
+		return int64(x)
+	case uint32:
+		return int64(x)
+	case uint64:
+		return int64(x)
+	case int:
+		return int64(x)
+	}
+	return 0
+}
+
+func toFloat(v any) float64 {
+	switch x := v.(type) {
+	case float64:
+		return x
+	case float32:
+		return float64(x)
+	}
+	return float64(toInt(v))
+}
+
+// arrayBinary is the binary form of a one-dimensional array.
+func arrayBinary(list []any, elem uint32) []byte {
+	hasNull := uint32(0)
+	for _, e := range list {
+		if e == nil {
+			hasNull = 1
+		}
+	}
+	b := binary.BigEndian.AppendUint32(nil, 1) // dimensions
+	b = binary.BigEndian.AppendUint32(b, hasNull)
+	b = binary.BigEndian.AppendUint32(b, elem)
+	b = binary.BigEndian.AppendUint32(b, uint32(len(list)))
+	b = binary.BigEndian.AppendUint32(b, 1) // lower bound
+	for _, e := range list {
+		if e == nil {
+			b = binary.BigEndian.AppendUint32(b, 0xFFFFFFFF)
+			continue
+		}
+		data := encodeBinary(e, elem)
+		b = binary.BigEndian.AppendUint32(b, uint32(len(data)))
+		b = append(b, data...)
+	}
+	return b
+}
+
+// numericBinary encodes a decimal string as PostgreSQL's binary numeric:
+// base-10000 digits with a weight, sign and display scale.
+func numericBinary(s string) []byte {
+	neg := strings.HasPrefix(s, "-")
+	s = strings.TrimPrefix(s, "-")
+	intPart, frac, _ := strings.Cut(s, ".")
+	scale := len(frac)
+	// Pad the integer part to a multiple of 4 on the left, the fraction on the right.
+	for len(intPart)%4 != 0 {
+		intPart = "0" + intPart
+	}
+	for len(frac)%4 != 0 {
+		frac += "0"
+	}
+	all := intPart + frac
+	var digits []uint16
+	for i := 0; i < len(all); i += 4 {
+		d, _ := strconv.Atoi(all[i : i+4])
+		digits = append(digits, uint16(d))
+	}
+	weight := len(intPart)/4 - 1
+	for len(digits) > 0 && digits[0] == 0 { // leading zero groups
+		digits = digits[1:]
+		weight--
+	}
+	for len(digits) > 0 && digits[len(digits)-1] == 0 {
+		digits = digits[:len(digits)-1]
+	}
+	sign := uint16(0)
+	if neg && len(digits) > 0 {
+		sign = 0x4000
+	}
+	if len(digits) == 0 {
+		weight = 0
+	}
+	b := binary.BigEndian.AppendUint16(nil, uint16(len(digits)))
+	b = binary.BigEndian.AppendUint16(b, uint16(int16(weight)))
+	b = binary.BigEndian.AppendUint16(b, sign)
+	b = binary.BigEndian.AppendUint16(b, uint16(scale))
+	for _, d := range digits {
+		b = binary.BigEndian.AppendUint16(b, d)
+	}
+	return b
+}
+
+// decodeParam turns a bound parameter into a Go value for DuckDB.
+func decodeParam(data []byte, format int16, oid uint32) (any, error) {
+	if data == nil {
+		return nil, nil
+	}
+	if format == 0 {
+		s := string(data)
+		switch oid {
+		case oidInt2, oidInt4, oidInt8:
+			return strconv.ParseInt(strings.TrimSpace(s), 10, 64)
+		case oidFloat4, oidFloat8:
+			return strconv.ParseFloat(strings.TrimSpace(s), 64)
+		case oidBool:
+			switch strings.ToLower(strings.TrimSpace(s)) {
+			case "t", "true", "1", "yes", "on":
+				return true, nil
+			case "f", "false", "0", "no", "off":
+				return false, nil
+			}
+			return nil, fmt.Errorf("invalid boolean %q", s)
+		}
+		return s, nil
+	}
+	switch oid {
+	case oidBool:
+		if len(data) != 1 {
+			return nil, fmt.Errorf("binary boolean of %d bytes", len(data))
+		}
+		return data[0] != 0, nil
+	case oidInt2:
+		if len(data) != 2 {
+			return nil, fmt.Errorf("binary int2 of %d bytes", len(data))
+		}
+		return int64(int16(binary.BigEndian.Uint16(data))), nil
+	case oidInt4:
+		if len(data) != 4 {
+			return nil, fmt.Errorf("binary int4 of %d bytes", len(data))
+		}
+		return int64(int32(binary.BigEndian.Uint32(data))), nil
+	case oidInt8:
+		if len(data) != 8 {
+			return nil, fmt.Errorf("binary int8 of %d bytes", len(data))
+		}
+		return int64(binary.BigEndian.Uint64(data)), nil
+	case oidFloat4:
+		if len(data) != 4 {
+			return nil, fmt.Errorf("binary float4 of %d bytes", len(data))
+		}
+		return float64(math.Float32frombits(binary.BigEndian.Uint32(data))), nil
+	case oidFloat8:
+		if len(data) != 8 {
+			return nil, fmt.Errorf("binary float8 of %d bytes", len(data))
+		}
+		return math.Float64frombits(binary.BigEndian.Uint64(data)), nil
+	case oidDate:
+		if len(data) != 4 {
+			return nil, fmt.Errorf("binary date of %d bytes", len(data))
+		}
+		return pgEpoch.AddDate(0, 0, int(int32(binary.BigEndian.Uint32(data)))), nil
+	case oidTimestamp, oidTimestampTZ:
+		if len(data) != 8 {
+			return nil, fmt.Errorf("binary timestamp of %d bytes", len(data))
+		}
+		return pgEpoch.Add(time.Duration(int64(binary.BigEndian.Uint64(data))) * time.Microsecond), nil
+	case oidBytea:
+		return append([]byte(nil), data...), nil
+	}
+	return string(data), nil
+}

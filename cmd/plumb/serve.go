@@ -1,0 +1,104 @@
+package main
+
+import (
+	"fmt"
+	"log/slog"
+	"net"
+	"os"
+	"os/signal"
+	"path/filepath"
+	"syscall"
+	"time"
+
+	"github.com/spf13/cobra"
+
+	"github.com/plumb-sql/plumb/cmd/internal/pgserver"
+)
+
+func newServeCommand() *cobra.Command {
+	cfg := pgserver.Config{Addr: "127.0.0.1:5433", Grace: 10 * time.Second}
+	var usersFile, logFormat string
+	cmd := &cobra.Command{
+		Use:   "serve",
+		Short: "Serve plumb's SQL to PostgreSQL clients (psql, drivers, BI tools)",
+		Long: `Listens for PostgreSQL clients (protocol 3) and runs their SQL, with plumb's
+functions, on an embedded DuckDB database. Each client session has its own
+connection, transactions and TEMP tables.
+
+Sandbox: clients read and write files only under --data, cannot install or
+load extensions, and cannot change DuckDB's configuration.
+
+Authentication is SCRAM-SHA-256 with users from --users FILE or the
+PLUMB_USERS variable ("user:password" lines or comma-separated), never from
+the command line; --auth trust is allowed only on a loopback address.
+SIGINT or SIGTERM stops accepting, lets running statements finish for
+--grace, cancels (rolls back) what still runs, and closes the database.`,
+		Example: `  PLUMB_USERS='ana:s3cret' plumb serve --data ./plumb-demo --listen 127.0.0.1:5433
+  psql 'host=127.0.0.1 port=5433 user=ana dbname=plumb' -c "FROM diagnose('plumb-demo/shops.parquet', by := ['shop','product'], at := 'day', value := 'units') LIMIT 5"`,
+		Args: cobra.NoArgs,
+		RunE: func(cmd *cobra.Command, args []string) error {
+			var handler slog.Handler = slog.NewTextHandler(cmd.ErrOrStderr(), nil)
+			if logFormat == "json" {
+				handler = slog.NewJSONHandler(cmd.ErrOrStderr(), nil)
+			}
+			log := slog.New(handler)
+			users := os.Getenv("PLUMB_USERS")
+			if usersFile != "" {
+				b, err := os.ReadFile(usersFile)
+				if err != nil {
+					return fmt.Errorf("users file: %w", err)
+				}
+				users = string(b)
+			}
+			var err error
+			if cfg.Users, err = pgserver.ParseUsers(users); err != nil {
+				return err
+			}
+			if cfg.DataDir != "" {
+				if cfg.DataDir, err = filepath.Abs(cfg.DataDir); err != nil {
+					return err
+				}
+			}
+			srv, err := pgserver.New(cmd.Context(), cfg, log)
+			if err != nil {
+				return err
+			}
+			ln, err := net.Listen("tcp", cfg.Addr)
+			if err != nil {
+				return err
+			}
+			signals := make(chan os.Signal, 1)
+			signal.Notify(signals, syscall.SIGINT, syscall.SIGTERM)
+			served := make(chan error, 1)
+			go func() { served <- srv.Serve(ln) }()
+			select {
+			case sig := <-signals:
+				log.Info("shutting down", "signal", sig.String(), "grace", cfg.Grace.String())
+				if err := srv.Shutdown(); err != nil {
+					return err
+				}
+				<-served
+				log.Info("stopped")
+				return nil
+			case err := <-served:
+				srv.Shutdown()
+				return err
+			}
+		},
+	}
+	f := cmd.Flags()
+	f.StringVar(&cfg.Addr, "listen", cfg.Addr, "`host:port` to listen on")
+	f.StringVar(&cfg.DataDir, "data", "", "the only `DIR`ectory clients may read and write files in")
+	f.StringVar(&cfg.DBPath, "db", "", "DuckDB database `FILE` (default: in memory)")
+	f.BoolVar(&cfg.ReadOnly, "read-only", false, "open --db read-only")
+	f.StringVar(&cfg.Auth, "auth", "scram", "authentication: scram, or trust (loopback addresses only)")
+	f.StringVar(&usersFile, "users", "", "`FILE` of user:password lines (else PLUMB_USERS)")
+	f.StringVar(&cfg.TLSCert, "tls-cert", "", "TLS certificate `FILE` (PEM)")
+	f.StringVar(&cfg.TLSKey, "tls-key", "", "TLS key `FILE` (PEM)")
+	f.DurationVar(&cfg.QueryTimeout, "query-timeout", 0, "cancel statements running longer (0: no limit)")
+	f.IntVar(&cfg.MaxConns, "max-connections", 64, "most clients at once")
+	f.StringVar(&cfg.MemoryLimit, "memory-limit", "", "DuckDB memory limit, e.g. 4GB")
+	f.DurationVar(&cfg.Grace, "grace", cfg.Grace, "how long running statements may finish at shutdown")
+	f.StringVar(&logFormat, "log-format", "text", "log lines as text or json")
+	return cmd
+}
