@@ -3,11 +3,8 @@ package main
 import (
 	"fmt"
 	"log/slog"
-	"net"
 	"os"
-	"os/signal"
 	"path/filepath"
-	"syscall"
 	"time"
 
 	"github.com/spf13/cobra"
@@ -59,31 +56,7 @@ SIGINT or SIGTERM stops accepting, lets running statements finish for
 					return err
 				}
 			}
-			srv, err := pgserver.New(cmd.Context(), cfg, log)
-			if err != nil {
-				return err
-			}
-			ln, err := net.Listen("tcp", cfg.Addr)
-			if err != nil {
-				return err
-			}
-			signals := make(chan os.Signal, 1)
-			signal.Notify(signals, syscall.SIGINT, syscall.SIGTERM)
-			served := make(chan error, 1)
-			go func() { served <- srv.Serve(ln) }()
-			select {
-			case sig := <-signals:
-				log.Info("shutting down", "signal", sig.String(), "grace", cfg.Grace.String())
-				if err := srv.Shutdown(); err != nil {
-					return err
-				}
-				<-served
-				log.Info("stopped")
-				return nil
-			case err := <-served:
-				srv.Shutdown()
-				return err
-			}
+			return pgserver.Run(cmd.Context(), cfg, log, nil)
 		},
 	}
 	f := cmd.Flags()

@@ -4,6 +4,9 @@ import (
 	"context"
 	"database/sql/driver"
 	"fmt"
+	"regexp"
+	"strconv"
+	"strings"
 
 	"github.com/duckdb/duckdb-go/v2"
 )
@@ -57,10 +60,18 @@ func (sess *session) describeSQL(ctx context.Context, sql string) (shape, error)
 		if sh.kind, err = ds.StatementType(); err != nil {
 			return err
 		}
+		casts := paramCasts(sql)
 		for i := 1; i <= ds.NumInput(); i++ {
 			t, err := ds.ParamType(i)
-			if err != nil || t == duckdb.TYPE_INVALID || t == duckdb.TYPE_ANY {
-				sh.params = append(sh.params, oidText)
+			if err != nil || t == duckdb.TYPE_INVALID || t == duckdb.TYPE_ANY || t == duckdb.TYPE_VARCHAR {
+				// DuckDB leaves a parameter it cannot place untyped (or
+				// VARCHAR); a cast written beside it says what the client
+				// should send.
+				if oid, ok := casts[i]; ok {
+					sh.params = append(sh.params, oid)
+				} else {
+					sh.params = append(sh.params, oidText)
+				}
 				continue
 			}
 			sh.params = append(sh.params, oidOfType(t, nil))
@@ -129,4 +140,33 @@ func oidOfType(t duckdb.Type, info duckdb.TypeInfo) uint32 {
 		return oidJSON
 	}
 	return oidText
+}
+
+var paramCast = regexp.MustCompile(`\$(\d+)\s*::\s*([A-Za-z][A-Za-z0-9 ]*?(\[\])?)(?:[^A-Za-z0-9\[]|$)`)
+
+// paramCasts finds casts written on parameters ($3::DATE) and maps each
+// parameter number to the cast type's OID.
+func paramCasts(sql string) map[int]uint32 {
+	out := map[int]uint32{}
+	for _, m := range paramCast.FindAllStringSubmatch(sql, -1) {
+		n, err := strconv.Atoi(m[1])
+		if err != nil {
+			continue
+		}
+		name := strings.ToUpper(strings.TrimSpace(m[2]))
+		switch name {
+		case "INT", "INT4":
+			name = "INTEGER"
+		case "INT8":
+			name = "BIGINT"
+		case "FLOAT8":
+			name = "DOUBLE"
+		case "BOOL":
+			name = "BOOLEAN"
+		case "TEXT", "STRING":
+			name = "VARCHAR"
+		}
+		out[n] = typeOID(name)
+	}
+	return out
 }
