@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"os"
+	"path/filepath"
 	"runtime/pprof"
 
 	"github.com/spf13/cobra"
@@ -12,7 +13,8 @@ import (
 
 func newBenchCommand() *cobra.Command {
 	cfg := bench.Config{Groups: 10000, Length: 1000, Dir: "plumb-bench", Reference: 0}
-	var phase, file, profile string
+	var phase, file, profile, scalingDir string
+	var generate bool
 	cmd := &cobra.Command{
 		Use:   "bench",
 		Short: "Time diagnose against DuckDB's own floor (and a reference-library loop) side by side",
@@ -24,6 +26,14 @@ floor. With --reference N it also times python3-statsmodels' adfuller and kpss
 over N groups of the same file and extrapolates to all groups.`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
+			if generate {
+				path, err := bench.Generate(cmd.Context(), cfg)
+				if err != nil {
+					return err
+				}
+				fmt.Fprintln(cmd.OutOrStdout(), path)
+				return nil
+			}
 			if phase != "" {
 				if profile != "" {
 					f, err := os.Create(profile)
@@ -42,6 +52,13 @@ over N groups of the same file and extrapolates to all groups.`,
 			if err != nil {
 				return fmt.Errorf("find the plumb binary: %w", err)
 			}
+			if scalingDir != "" {
+				if err := os.MkdirAll(scalingDir, 0o755); err != nil {
+					return err
+				}
+				_, err := bench.Scaling(cmd.Context(), cfg.Dir, self, bench.ScalingGrid, cmd.OutOrStdout(), filepath.Join(scalingDir, "scaling.svg"))
+				return err
+			}
 			_, err = bench.Run(cmd.Context(), cfg, self, cmd.OutOrStdout())
 			return err
 		},
@@ -53,7 +70,10 @@ over N groups of the same file and extrapolates to all groups.`,
 	f.IntVar(&cfg.Reference, "reference", cfg.Reference, "time the statsmodels loop on this many groups (0: skip)")
 	f.StringVar(&phase, "phase", "", "run one phase in this process (used by bench itself)")
 	f.StringVar(&file, "file", "", "the Parquet file for --phase")
+	f.StringVar(&scalingDir, "scaling", "", "measure the scaling grid (G of 1k, 10k, 100k at T = 500; T of 100, 1k, 10k at G = 1k), print a Markdown table and draw `DIR`/scaling.svg")
 	f.StringVar(&profile, "cpuprofile", "", "with --phase, write a CPU profile to `FILE`")
+	f.BoolVar(&generate, "generate", false, "only generate the data file and print its path (used by bench itself)")
+	f.MarkHidden("generate")
 	f.MarkHidden("phase")
 	f.MarkHidden("file")
 	return cmd

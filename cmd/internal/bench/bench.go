@@ -32,8 +32,9 @@ type Config struct {
 type Phase string
 
 const (
-	PhaseFloor    Phase = "floor"    // DuckDB: list(v ORDER BY t) per group
-	PhaseDiagnose Phase = "diagnose" // plumb: diagnose with default options
+	PhaseFloor    Phase = "floor"     // DuckDB: list(v ORDER BY t) per group
+	PhaseUnitRoot Phase = "unit_root" // plumb: ADF (AIC) and KPSS per group, the reference loop's tests
+	PhaseDiagnose Phase = "diagnose"  // plumb: diagnose with default options
 )
 
 // Result is one measured phase.
@@ -82,6 +83,10 @@ func PhaseSQL(p Phase, file string) (string, error) {
 	switch p {
 	case PhaseFloor:
 		return fmt.Sprintf(`SELECT count(*), sum(len(l)) FROM (SELECT g, list(v ORDER BY t) AS l FROM '%s' GROUP BY g)`, src), nil
+	case PhaseUnitRoot:
+		return fmt.Sprintf(`SELECT count(*), count(a) + count(k) FROM (
+			SELECT unit_root(x).statistic AS a, unit_root(x, method := 'kpss').statistic AS k
+			FROM (SELECT g, list(v ORDER BY t) AS x FROM '%s' GROUP BY g))`, src), nil
 	case PhaseDiagnose:
 		return fmt.Sprintf(`SELECT count(*), sum(n) FROM diagnose('%s', by := 'g', at := 't', value := 'v')`, src), nil
 	}
@@ -127,14 +132,18 @@ func Measure(ctx context.Context, argv []string) (time.Duration, int64, string, 
 }
 
 // Run measures the phases for cfg with the plumb binary self and writes a
-// table to w.
+// table to w. The data is generated in a child process too: Linux carries a
+// process's peak RSS over to the children it forks, so the parent must stay
+// small for the children's peaks to be their own.
 func Run(ctx context.Context, cfg Config, self string, w io.Writer) ([]Result, error) {
-	file, err := Generate(ctx, cfg)
+	_, _, out, err := Measure(ctx, []string{self, "bench", "--generate", "--groups", strconv.Itoa(cfg.Groups),
+		"--length", strconv.Itoa(cfg.Length), "--dir", cfg.Dir})
 	if err != nil {
 		return nil, err
 	}
+	file := strings.TrimSpace(out)
 	var results []Result
-	for _, p := range []Phase{PhaseFloor, PhaseDiagnose} {
+	for _, p := range []Phase{PhaseFloor, PhaseUnitRoot, PhaseDiagnose} {
 		wall, rss, out, err := Measure(ctx, []string{self, "bench", "--phase", string(p), "--file", file})
 		if err != nil {
 			return nil, err

@@ -8,30 +8,31 @@ import (
 	"strconv"
 	"strings"
 	"time"
+
+	"github.com/plumb-sql/plumb/udf"
 )
 
-// referenceScript is the loop practitioners write today: read the same
-// Parquet file, and for each group run python3-statsmodels' adfuller (AIC
-// lag choice) and kpss. It times only the loop over groups, not the
-// reading, and prints the seconds per group.
+// referenceScript is the loop practitioners write today: for each group
+// run python3-statsmodels' adfuller (AIC lag choice) and kpss. It reads the
+// first groups of the same Parquet file, exported to CSV by DuckDB (Debian
+// has no Parquet reader for Python), times only the loop over groups, and
+// prints the seconds per group.
 const referenceScript = `
 import sys, time, warnings
-import numpy as np
-import pyarrow.parquet as pq
+import pandas as pd
 from statsmodels.tsa.stattools import adfuller, kpss
-path, k = sys.argv[1], int(sys.argv[2])
-table = pq.read_table(path, columns=["g", "t", "v"]).to_pandas()
+path = sys.argv[1]
+table = pd.read_csv(path)
 groups = table.groupby("g")
-keys = list(groups.groups.keys())[:k]
 start = time.perf_counter()
 with warnings.catch_warnings():
     warnings.simplefilter("ignore")
-    for key in keys:
-        x = groups.get_group(key).sort_values("t")["v"].to_numpy()
+    for key, group in groups:
+        x = group.sort_values("t")["v"].to_numpy()
         adfuller(x, autolag="AIC")
         kpss(x, regression="c", nlags="auto")
 elapsed = time.perf_counter() - start
-print(elapsed / len(keys))
+print(elapsed / groups.ngroups)
 `
 
 // referenceLoop runs referenceScript with Debian's /usr/bin/python3 on
@@ -41,7 +42,11 @@ func referenceLoop(ctx context.Context, cfg Config, file string) (Result, error)
 	if err := os.WriteFile(script, []byte(referenceScript), 0o644); err != nil {
 		return Result{}, err
 	}
-	_, rss, out, err := Measure(ctx, []string{"/usr/bin/python3", script, file, strconv.Itoa(cfg.Reference)})
+	sample := filepath.Join(cfg.Dir, fmt.Sprintf("reference_%d_%d.csv", cfg.Reference, cfg.Length))
+	if err := exportGroups(ctx, file, sample, cfg.Reference); err != nil {
+		return Result{}, err
+	}
+	_, rss, out, err := Measure(ctx, []string{"/usr/bin/python3", script, sample})
 	if err != nil {
 		return Result{}, err
 	}
@@ -56,4 +61,17 @@ func referenceLoop(ctx context.Context, cfg Config, file string) (Result, error)
 		Groups:  cfg.Groups,
 		Note:    fmt.Sprintf("(extrapolated from %d groups, %.2f ms per group; one core)", cfg.Reference, perGroup*1000),
 	}, nil
+}
+
+// exportGroups writes the first k groups of file to a CSV file.
+func exportGroups(ctx context.Context, file, csv string, k int) error {
+	db, err := udf.Open(ctx, udf.Options{})
+	if err != nil {
+		return err
+	}
+	defer db.Close()
+	q := fmt.Sprintf("COPY (SELECT g, t, v FROM %s WHERE g < %d ORDER BY g, t) TO %s (HEADER)",
+		udf.QuoteLiteral(file), k, udf.QuoteLiteral(csv))
+	_, err = db.ExecContext(ctx, q)
+	return err
 }
