@@ -19,6 +19,9 @@ type SeasonalityOptions struct {
 	// Candidates are the periods tried when Period is 0; nil means
 	// DefaultPeriods.
 	Candidates []int
+	// skipOCSBWhenSeasonal leaves out the OCSB test when the strength alone
+	// already makes the series seasonal (the verdict does not need it then).
+	skipOCSBWhenSeasonal bool
 }
 
 // SeasonalityResult describes a series' seasonal pattern.
@@ -102,7 +105,7 @@ func Seasonality(x []float64, opts SeasonalityOptions) (r SeasonalityResult, err
 	r.TrendStrength = TrendStrength(dec)
 	r.Seasonal = r.SeasonalStrength >= SeasonalStrengthThreshold
 	r.OCSB = OCSBResult{Status: StatusSeasonUnknown, Statistic: math.NaN(), Critical5: math.NaN()}
-	if r.SeasonalStrength >= ModerateSeasonalStrength {
+	if r.SeasonalStrength >= ModerateSeasonalStrength && !(opts.skipOCSBWhenSeasonal && r.Seasonal) {
 		if r.OCSB, err = OCSB(x, period); err != nil {
 			return r, err
 		}

@@ -113,7 +113,7 @@ func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, er
 		return StationarityResult{}, errorf("stationarity: alpha must be between 0 and 1, got %v", opts.Alpha)
 	}
 	r := StationarityResult{BoxCoxLambda: math.NaN(), SpreadPValue: math.NaN()}
-	season, err := Seasonality(x, SeasonalityOptions{Period: opts.Period, Candidates: opts.Candidates})
+	season, err := Seasonality(x, SeasonalityOptions{Period: opts.Period, Candidates: opts.Candidates, skipOCSBWhenSeasonal: true})
 	if err != nil {
 		return r, err
 	}
