@@ -158,21 +158,26 @@ func rollingFunction(t *types, name string, pick func(stats.RollingResult) []flo
 		params: []duckdb.TypeInfo{t.doubles(), t.bigint()},
 		result: t.doubles(),
 		eval: func(args []driver.Value) (any, error) {
-			x, err := floats(args[0])
-			if err != nil {
-				return nil, err
-			}
-			width, err := integer(args[1], "width")
-			if err != nil {
-				return nil, err
-			}
-			r, err := stats.Rolling(x, width)
+			r, err := rolling(args)
 			if err != nil {
 				return nil, err
 			}
 			return listOrNull(pick(r)), nil
 		},
 	}
+}
+
+// rolling reads (series, width) arguments and computes the rolling statistics.
+func rolling(args []driver.Value) (stats.RollingResult, error) {
+	x, err := floats(args[0])
+	if err != nil {
+		return stats.RollingResult{}, err
+	}
+	width, err := integer(args[1], "width")
+	if err != nil {
+		return stats.RollingResult{}, err
+	}
+	return stats.Rolling(x, width)
 }
 
 func stabilityType(t *types) duckdb.TypeInfo {

@@ -5,8 +5,6 @@ import (
 	"fmt"
 
 	"github.com/duckdb/duckdb-go/v2"
-
-	"github.com/plumb-sql/plumb/stats"
 )
 
 // rollingDispersionFunctions provides
@@ -26,15 +24,7 @@ func rollingDispersionFunctions(t *types) []*function {
 		params: []duckdb.TypeInfo{t.doubles(), t.bigint()},
 		result: t.structOf(field{"mean", list}, field{"sd", list}, field{"mean_ratio", list}, field{"sd_ratio", list}, field{"mean_deviation", list}),
 		eval: func(args []driver.Value) (any, error) {
-			x, err := floats(args[0])
-			if err != nil {
-				return nil, err
-			}
-			width, err := integer(args[1], "width")
-			if err != nil {
-				return nil, err
-			}
-			r, err := stats.Rolling(x, width)
+			r, err := rolling(args)
 			if err != nil {
 				return nil, err
 			}

@@ -11,6 +11,8 @@ import (
 	"strconv"
 	"strings"
 	"time"
+
+	"github.com/duckdb/duckdb-go/v2"
 )
 
 // Format names an output format.
@@ -117,8 +119,12 @@ func formatFloat(f float64, digits int) string {
 	return strconv.FormatFloat(f, 'g', digits, 64)
 }
 
-// jsonValue turns a value into something encoding/json writes faithfully:
-// non-finite floats become strings, times RFC 3339, lists and structs recurse.
+// JSONValue turns a value read from DuckDB into something encoding/json
+// writes faithfully: non-finite floats become strings, times RFC 3339,
+// decimals numbers, lists, structs and maps recurse (map keys as text), and
+// other values with a String method (intervals, UUIDs) their text.
+func JSONValue(v any) any { return jsonValue(v) }
+
 func jsonValue(v any) any {
 	switch x := v.(type) {
 	case float64:
@@ -142,6 +148,21 @@ func jsonValue(v any) any {
 			out[k] = jsonValue(e)
 		}
 		return out
+	case duckdb.OrderedMap:
+		out := make(map[string]any, x.Len())
+		for _, k := range x.Keys() {
+			e, _ := x.Get(k)
+			out[fmt.Sprint(k)] = jsonValue(e)
+		}
+		return out
+	case duckdb.Map:
+		out := make(map[string]any, len(x))
+		for k, e := range x {
+			out[fmt.Sprint(k)] = jsonValue(e)
+		}
+		return out
+	case duckdb.Interval:
+		return fmt.Sprintf("%d months %d days %d microseconds", x.Months, x.Days, x.Micros)
 	case interface{ Float64() float64 }: // DECIMAL
 		return jsonValue(x.Float64())
 	case fmt.Stringer:

@@ -59,16 +59,7 @@ func (sess *session) copyOut(source string, opts copyOptions) (int64, error) {
 		}
 		sess.be.Send(&pgproto3.CopyData{Data: line(names, nil)})
 	}
-	vals := make([]any, len(sh.columns))
-	ptrs := make([]any, len(vals))
-	for i := range vals {
-		ptrs[i] = &vals[i]
-	}
-	var n int64
-	for rows.Next() {
-		if err := rows.Scan(ptrs...); err != nil {
-			return n, err
-		}
+	n, err := sess.eachRow(rows, len(sh.columns), func(vals []any) {
 		fields := make([]string, len(vals))
 		null := make([]bool, len(vals))
 		for i, v := range vals {
@@ -78,14 +69,8 @@ func (sess *session) copyOut(source string, opts copyOptions) (int64, error) {
 			}
 		}
 		sess.be.Send(&pgproto3.CopyData{Data: line(fields, null)})
-		n++
-		if n%256 == 0 {
-			if err := sess.be.Flush(); err != nil {
-				return n, err
-			}
-		}
-	}
-	if err := rows.Err(); err != nil {
+	})
+	if err != nil {
 		return n, sess.wrap(ctx, err)
 	}
 	sess.be.Send(&pgproto3.CopyDone{})

@@ -132,19 +132,9 @@ func (sess *session) wrap(ctx context.Context, err error) error {
 	return err
 }
 
-// sendRows streams rows as DataRow messages, flushing every 256 rows so a
-// large result does not pile up in memory.
+// sendRows streams rows as DataRow messages.
 func (sess *session) sendRows(rows *sql.Rows, cols []column, formats []int16) (int64, error) {
-	vals := make([]any, len(cols))
-	ptrs := make([]any, len(cols))
-	for i := range vals {
-		ptrs[i] = &vals[i]
-	}
-	var n int64
-	for rows.Next() {
-		if err := rows.Scan(ptrs...); err != nil {
-			return n, err
-		}
+	return sess.eachRow(rows, len(cols), func(vals []any) {
 		data := make([][]byte, len(cols))
 		for i, v := range vals {
 			if formatOf(formats, i) == 1 {
@@ -154,14 +144,32 @@ func (sess *session) sendRows(rows *sql.Rows, cols []column, formats []int16) (i
 			}
 		}
 		sess.be.Send(&pgproto3.DataRow{Values: data})
-		n++
-		if n%256 == 0 {
+	})
+}
+
+// eachRow scans every row and hands its values to send, flushing the
+// connection every 256 rows so that a large result does not pile up in
+// memory (and a vanished client is noticed).
+func (sess *session) eachRow(rows *sql.Rows, n int, send func([]any)) (int64, error) {
+	vals := make([]any, n)
+	ptrs := make([]any, n)
+	for i := range vals {
+		ptrs[i] = &vals[i]
+	}
+	var count int64
+	for rows.Next() {
+		if err := rows.Scan(ptrs...); err != nil {
+			return count, err
+		}
+		send(vals)
+		count++
+		if count%256 == 0 {
 			if err := sess.be.Flush(); err != nil {
-				return n, err
+				return count, err
 			}
 		}
 	}
-	return n, rows.Err()
+	return count, rows.Err()
 }
 
 func formatOf(formats []int16, i int) int16 {

@@ -6,12 +6,13 @@ import (
 	"fmt"
 	"math"
 	"math/big"
-	"sort"
 	"strconv"
 	"strings"
 	"time"
 
 	"github.com/duckdb/duckdb-go/v2"
+
+	"github.com/plumb-sql/plumb/cmd/internal/output"
 )
 
 // PostgreSQL type OIDs (from the pg_type catalogue; stable across releases).
@@ -234,52 +235,11 @@ func arrayText(list []any, elem uint32) string {
 
 // jsonText renders lists, structs and maps as JSON.
 func jsonText(v any) string {
-	b, err := json.Marshal(jsonable(v))
+	b, err := json.Marshal(output.JSONValue(v))
 	if err != nil {
 		return fmt.Sprint(v)
 	}
 	return string(b)
-}
-
-func jsonable(v any) any {
-	switch x := v.(type) {
-	case []any:
-		out := make([]any, len(x))
-		for i, e := range x {
-			out[i] = jsonable(e)
-		}
-		return out
-	case map[string]any:
-		out := make(map[string]any, len(x))
-		for k, e := range x {
-			out[k] = jsonable(e)
-		}
-		return out
-	case duckdb.OrderedMap:
-		out := map[string]any{}
-		for _, k := range x.Keys() {
-			v, _ := x.Get(k)
-			out[fmt.Sprint(k)] = jsonable(v)
-		}
-		return out
-	case duckdb.Map:
-		out := map[string]any{}
-		keys := make([]string, 0, len(x))
-		for k, e := range x {
-			keys = append(keys, fmt.Sprint(k))
-			out[fmt.Sprint(k)] = jsonable(e)
-		}
-		sort.Strings(keys)
-		return out
-	case float64:
-		if math.IsNaN(x) || math.IsInf(x, 0) {
-			return floatText(x, 64)
-		}
-		return x
-	case time.Time, duckdb.Interval, duckdb.Decimal, *big.Int, duckdb.UUID, []byte:
-		return textOf(x, oidText)
-	}
-	return v
 }
 
 // pgEpoch is PostgreSQL's zero for dates and timestamps.
