@@ -8,6 +8,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/plumb-sql/plumb/cmd/internal/demodata"
 	"github.com/plumb-sql/plumb/udf"
 )
 
@@ -23,6 +24,26 @@ func needTool(t *testing.T, name, pkg string) string {
 		t.Skipf("%s is not installed (apt-get install %s); CI runs this test", name, pkg)
 	}
 	return path
+}
+
+// writeDemoShops writes a small demo scenario under dir and returns the path
+// of its shop Parquet file (3 shops × 4 product lines × 200 days).
+func writeDemoShops(t *testing.T, dir string) string {
+	t.Helper()
+	sets, err := demodata.Generate(1, demodata.Sizes{Shops: 3, Products: 4, Days: 200})
+	if err != nil {
+		t.Fatal(err)
+	}
+	db, err := udf.Open(context.Background(), udf.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer db.Close()
+	files, err := demodata.Write(context.Background(), db, dir, sets)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return files["shops"].Data
 }
 
 // writeSeries writes a small Parquet file of grouped series under dir.
@@ -44,30 +65,31 @@ func writeSeries(t *testing.T, dir string) string {
 }
 
 // TestPsql drives Debian's psql (postgresql-client): \dt, a diagnose query
-// over Parquet under --data, and \copy of a query to a CSV file.
+// over the demo's shop Parquet under --data, and \copy of a query to a CSV
+// file.
 func TestPsql(t *testing.T) {
 	psql := needTool(t, "psql", "postgresql-client")
 	ts := startServer(t, Config{})
-	file := writeSeries(t, ts.data)
+	file := writeDemoShops(t, ts.data)
 	out := filepath.Join(t.TempDir(), "ranked.csv")
 	cmd := exec.Command(psql, ts.url("ana", "s3cret"), "-X", "-v", "ON_ERROR_STOP=1",
 		"-c", "CREATE TABLE kept AS SELECT 1 AS a",
 		"-c", `\dt`,
-		"-c", "SELECT grp, rank, violations FROM diagnose('"+file+"', by := 'grp', at := 'day', value := 'v') ORDER BY rank, grp",
-		"-c", `\copy (SELECT grp, rank, round(score, 3) AS score FROM diagnose('`+file+`', by := 'grp', at := 'day', value := 'v') ORDER BY grp) to '`+out+`' with csv header`)
+		"-c", "SELECT shop, product, rank, violations FROM diagnose('"+file+"', by := ['shop', 'product'], at := 'day', value := 'units', period := 7) ORDER BY rank, shop, product",
+		"-c", `\copy (SELECT shop, product, rank, round(score, 3) AS score FROM diagnose('`+file+`', by := ['shop', 'product'], at := 'day', value := 'units', period := 7) ORDER BY shop, product) to '`+out+`' with csv header`)
 	cmd.Env = append(os.Environ(), "PGCONNECT_TIMEOUT=10")
 	got, err := cmd.CombinedOutput()
 	if err != nil {
 		t.Fatalf("psql: %v\n%s", err, got)
 	}
 	text := string(got)
-	for _, want := range []string{"kept", "| table |", "(4 rows)", "COPY 4"} {
+	for _, want := range []string{"kept", "| table |", "(12 rows)", "COPY 12"} {
 		if !strings.Contains(text, want) {
 			t.Errorf("psql output lacks %q:\n%s", want, text)
 		}
 	}
 	csv, err := os.ReadFile(out)
-	if err != nil || !strings.HasPrefix(string(csv), "grp,rank,score\ng0,") || strings.Count(string(csv), "\n") != 5 {
+	if err != nil || !strings.HasPrefix(string(csv), "shop,product,rank,score\nLarchmere Central,") || strings.Count(string(csv), "\n") != 13 {
 		t.Errorf("\\copy wrote %q (%v)", csv, err)
 	}
 }
