@@ -7,7 +7,6 @@ import (
 	"fmt"
 	"runtime"
 	"sync"
-	"sync/atomic"
 
 	"github.com/duckdb/duckdb-go/v2"
 )
@@ -69,43 +68,53 @@ func (f *function) Executor() duckdb.ScalarFuncExecutor {
 	}
 }
 
-// executeParallel reads every row's arguments, evaluates the rows on up to
-// GOMAXPROCS goroutines, then walks the rows again to write the results
-// (the chunk API sets a result only at the row the iterator stands on).
+// executeParallel evaluates a chunk's rows on GOMAXPROCS goroutines. Each
+// row is handed to the workers as soon as DuckDB's thread has read its
+// arguments, so reading overlaps computing; a second walk over the rows
+// writes the results in order, each as soon as it is ready (the chunk API
+// sets a result only at the row its iterator stands on).
 func (f *function) executeParallel(chunk *duckdb.ChunkIteratorState) error {
-	var rows [][]driver.Value
-	for row, err := range chunk.Rows() {
-		if err != nil {
-			return err
-		}
-		args := make([]driver.Value, row.ColumnCount())
-		for i := range args {
-			args[i] = *row.GetValuePtr(i)
-		}
-		rows = append(rows, args)
-	}
-	results := make([]any, len(rows))
-	errs := make([]error, len(rows))
-	workers := min(runtime.GOMAXPROCS(0), len(rows))
-	var next atomic.Int64
+	size := chunk.GetInputChunk().GetSize()
+	results := make([]any, size)
+	errs := make([]error, size)
+	done := make([]chan struct{}, size)
+	jobs := make(chan int, size)
+	args := make([][]driver.Value, size)
 	var wg sync.WaitGroup
-	for w := 0; w < workers; w++ {
+	for w := 0; w < runtime.GOMAXPROCS(0); w++ {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			for {
-				i := int(next.Add(1) - 1)
-				if i >= len(rows) {
-					return
-				}
-				results[i], errs[i] = f.eval(rows[i])
+			for i := range jobs {
+				results[i], errs[i] = f.eval(args[i])
+				args[i] = nil
+				close(done[i])
 			}
 		}()
 	}
-	wg.Wait()
-	for _, err := range errs {
+	n := 0
+	var readErr error
+	for row, err := range chunk.Rows() {
 		if err != nil {
-			return fmt.Errorf("%s: %w", f.name, err)
+			readErr = err
+			break
+		}
+		a := make([]driver.Value, row.ColumnCount())
+		for i := range a {
+			a[i] = *row.GetValuePtr(i)
+		}
+		args[n], done[n] = a, make(chan struct{})
+		jobs <- n
+		n++
+	}
+	close(jobs)
+	wg.Wait()
+	if readErr != nil {
+		return readErr
+	}
+	for i := 0; i < n; i++ {
+		if errs[i] != nil {
+			return fmt.Errorf("%s: %w", f.name, errs[i])
 		}
 	}
 	i := 0
