@@ -162,19 +162,7 @@ func SimulateOCSB(s, T, reps int, seed uint64) [3]float64 {
 	stats := make([]float64, 0, reps)
 	y := make([]float64, T)
 	for len(stats) < reps {
-		for t := range y {
-			v := rng.NormFloat64()
-			if t >= 1 {
-				v += y[t-1]
-			}
-			if t >= s {
-				v += y[t-s]
-			}
-			if t >= s+1 {
-				v -= y[t-s-1]
-			}
-			y[t] = v
-		}
+		seasonalRandomWalk(rng, y, s)
 		if st, _, _, ok := ocsbStatistic(scaled(y), s, 3); ok {
 			stats = append(stats, st)
 		}
@@ -182,4 +170,23 @@ func SimulateOCSB(s, T, reps int, seed uint64) [3]float64 {
 	sort.Float64s(stats)
 	q := func(p float64) float64 { return stats[int(p*float64(len(stats)))] }
 	return [3]float64{q(0.01), q(0.05), q(0.10)}
+}
+
+// seasonalRandomWalk fills y with a series that has both a unit root and a
+// seasonal unit root at period s: ΔΔ_s y_t = e_t, e standard normal, the
+// OCSB test's null hypothesis.
+func seasonalRandomWalk(rng *rand.Rand, y []float64, s int) {
+	for t := range y {
+		v := rng.NormFloat64()
+		if t >= 1 {
+			v += y[t-1]
+		}
+		if t >= s {
+			v += y[t-s]
+		}
+		if t >= s+1 {
+			v -= y[t-s-1]
+		}
+		y[t] = v
+	}
 }

@@ -20,19 +20,7 @@ func TestOCSBSizeAndPower(t *testing.T) {
 	var nullRej, detRej int
 	y := make([]float64, n)
 	for r := 0; r < reps; r++ {
-		for i := range y {
-			v := rng.NormFloat64()
-			if i >= 1 {
-				v += y[i-1]
-			}
-			if i >= s {
-				v += y[i-s]
-			}
-			if i >= s+1 {
-				v -= y[i-s-1]
-			}
-			y[i] = v
-		}
+		seasonalRandomWalk(rng, y, s)
 		if res, _ := OCSB(y, s); res.Status == StatusOK && !res.SeasonalUnitRoot {
 			nullRej++
 		}

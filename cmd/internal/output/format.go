@@ -107,7 +107,10 @@ func text(v any, digits int) string {
 	}
 }
 
-func formatFloat(f float64, digits int) string {
+// FormatFloat renders a float with the given significant digits (-1 for
+// as many as it takes to read back exactly), NaN and ±Infinity spelled as
+// PostgreSQL and JSON consumers expect; bits is 32 or 64.
+func FormatFloat(f float64, digits, bits int) string {
 	switch {
 	case math.IsNaN(f):
 		return "NaN"
@@ -116,8 +119,10 @@ func formatFloat(f float64, digits int) string {
 	case math.IsInf(f, -1):
 		return "-Infinity"
 	}
-	return strconv.FormatFloat(f, 'g', digits, 64)
+	return strconv.FormatFloat(f, 'g', digits, bits)
 }
+
+func formatFloat(f float64, digits int) string { return FormatFloat(f, digits, 64) }
 
 // JSONValue turns a value read from DuckDB into something encoding/json
 // writes faithfully: non-finite floats become strings, times RFC 3339,

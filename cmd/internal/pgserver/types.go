@@ -177,17 +177,7 @@ func textOf(v any, oid uint32) string {
 	return fmt.Sprint(v)
 }
 
-func floatText(f float64, bits int) string {
-	switch {
-	case math.IsNaN(f):
-		return "NaN"
-	case math.IsInf(f, 1):
-		return "Infinity"
-	case math.IsInf(f, -1):
-		return "-Infinity"
-	}
-	return strconv.FormatFloat(f, 'g', -1, bits)
-}
+func floatText(f float64, bits int) string { return output.FormatFloat(f, -1, bits) }
 
 func intervalText(i duckdb.Interval) string {
 	var parts []string
