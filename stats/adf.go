@@ -70,7 +70,8 @@ func ADF(x []float64, opts ADFOptions) (UnitRootResult, error) {
 	if maxLag < 0 || maxLag > limit || T-1-maxLag < terms+1+maxLag+2 {
 		return fail(StatusTooShort)
 	}
-	a := newADFDesign(scaled(x), d)
+	a := newADFDesign(x, d)
+	defer a.release()
 
 	lags := maxLag
 	if rule != LagFixed {
@@ -105,33 +106,56 @@ type adfDesign struct {
 	sum, wsum, xsum, xwsum, xsq []float64
 }
 
-// prefix builds the prefix sums of dx and of u·dx_u once.
+// prefix builds the prefix sums once; the weighted ones only with a trend.
 func (a *adfDesign) prefix() {
 	if a.sum != nil {
 		return
 	}
-	a.sum = make([]float64, len(a.dx)+1)
-	a.wsum = make([]float64, len(a.dx)+1)
+	a.sum = getScratch(len(a.dx) + 1)
+	a.xsum = getScratch(len(a.x) + 1)
+	a.xsq = getScratch(len(a.x) + 1)
+	a.sum[0], a.xsum[0], a.xsq[0] = 0, 0, 0
 	for u, v := range a.dx {
 		a.sum[u+1] = a.sum[u] + v
-		a.wsum[u+1] = a.wsum[u] + float64(u)*v
 	}
-	a.xsum = make([]float64, len(a.x)+1)
-	a.xwsum = make([]float64, len(a.x)+1)
-	a.xsq = make([]float64, len(a.x)+1)
 	for u, v := range a.x {
 		a.xsum[u+1] = a.xsum[u] + v
-		a.xwsum[u+1] = a.xwsum[u] + float64(u)*v
 		a.xsq[u+1] = a.xsq[u] + v*v
+	}
+	if a.terms < 2 {
+		return
+	}
+	a.wsum = getScratch(len(a.dx) + 1)
+	a.xwsum = getScratch(len(a.x) + 1)
+	a.wsum[0], a.xwsum[0] = 0, 0
+	for u, v := range a.dx {
+		a.wsum[u+1] = a.wsum[u] + float64(u)*v
+	}
+	for u, v := range a.x {
+		a.xwsum[u+1] = a.xwsum[u] + float64(u)*v
 	}
 }
 
+// newADFDesign builds the design on x scaled to a largest magnitude of 1
+// (the statistic is scale-free; the cross products stay well within range).
 func newADFDesign(x []float64, d Deterministic) *adfDesign {
-	dx := make([]float64, len(x)-1)
-	for i := range dx {
-		dx[i] = x[i+1] - x[i]
+	xs := getScratch(len(x))
+	m := maxAbs(x)
+	for i, v := range x {
+		xs[i] = v / m
 	}
-	return &adfDesign{x: x, dx: dx, d: d, terms: d.terms()}
+	dx := getScratch(len(x) - 1)
+	for i := range dx {
+		dx[i] = xs[i+1] - xs[i]
+	}
+	return &adfDesign{x: xs, dx: dx, d: d, terms: d.terms()}
+}
+
+// release returns the design's scratch slices; a must not be used again.
+func (a *adfDesign) release() {
+	for _, s := range [][]float64{a.x, a.dx, a.sum, a.wsum, a.xsum, a.xwsum, a.xsq} {
+		putScratch(s)
+	}
 }
 
 // columns returns the design for the sample t = start..len(dx)-1 (indices
@@ -218,7 +242,8 @@ func (a *adfDesign) tau(lags, start int) (float64, int, bool) {
 		}
 	}
 	order = append(order, a.terms, p)
-	perm := make([]float64, m*m)
+	perm := getZeroed(m * m)
+	defer putScratch(perm)
 	for i := 0; i < m; i++ {
 		for j := 0; j <= i; j++ {
 			r, c := order[i], order[j]
@@ -228,6 +253,7 @@ func (a *adfDesign) tau(lags, start int) (float64, int, bool) {
 			perm[i*m+j] = mat[r*m+c]
 		}
 	}
+	putScratch(mat)
 	var ls nestedLS
 	if ls.factorCross(perm, p, n) >= 1e-8 && ls.rank == p {
 		if ls.ssr(p) > 1e-20*ls.n0() {
@@ -248,6 +274,7 @@ func (a *adfDesign) tau(lags, start int) (float64, int, bool) {
 func (a *adfDesign) crossProducts(maxLag int) {
 	mat, p, n := a.crossMatrix(maxLag, maxLag)
 	a.ls.factorCross(mat, p, n)
+	putScratch(mat)
 }
 
 // crossMatrix returns the lower triangle of the cross-product matrix of the
@@ -267,7 +294,7 @@ func (a *adfDesign) crossMatrix(lags, start int) ([]float64, int, int) {
 	k := a.terms + 1 // deterministic columns, then the lagged level
 	p := k + lags
 	m := p + 1
-	mat := make([]float64, m*m)
+	mat := getZeroed(m * m) // the caller puts it back
 	// index of lag j (0..lags) in the matrix: lags at k..k+lags-1, Δy last.
 	at := func(j int) int {
 		if j == 0 {
@@ -287,8 +314,6 @@ func (a *adfDesign) crossMatrix(lags, start int) ([]float64, int, int) {
 	// Products among the deterministic columns (ones, and time (r+1)/n)
 	// and the level, in closed form or from prefix sums of x, x² and u·x_u.
 	sumX := a.xsum[hi] - a.xsum[lo]
-	// Σ_r (r+1)/n · x[lo+r] = (Σ u·x_u - (lo-1)·Σ x_u)/n over the window.
-	timeX := ((a.xwsum[hi] - a.xwsum[lo]) - float64(lo-1)*sumX) / nf
 	c := 0
 	if a.terms >= 1 {
 		set(0, 0, nf)
@@ -303,7 +328,8 @@ func (a *adfDesign) crossMatrix(lags, start int) ([]float64, int, int) {
 		set(c, 0, sumX)
 	}
 	if a.terms == 2 {
-		set(c, 1, timeX)
+		// Σ_r (r+1)/n · x[lo+r] = (Σ u·x_u - (lo-1)·Σ x_u)/n over the window.
+		set(c, 1, ((a.xwsum[hi]-a.xwsum[lo])-float64(lo-1)*sumX)/nf)
 	}
 	set(c, c, a.xsq[hi]-a.xsq[lo])
 	// Deterministic columns against the shifts: window sums of Δy and of

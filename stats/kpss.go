@@ -54,7 +54,9 @@ func KPSS(x []float64, opts KPSSOptions) (UnitRootResult, error) {
 	if isConstant(x) {
 		return fail(StatusConstant)
 	}
-	e := detrend(scaled(x), d)
+	e := scaledInto(getScratch(T), x)
+	defer putScratch(e)
+	detrendInto(e, e, d)
 	l := 0
 	if opts.Bandwidth != nil {
 		l = *opts.Bandwidth
@@ -107,13 +109,18 @@ func interpolateUpperTail(stat float64, crit, levels [4]float64) (float64, PValu
 // detrend returns the residuals of x regressed on a constant, or on a
 // constant and a linear trend (closed-form least squares).
 func detrend(x []float64, d Deterministic) []float64 {
+	return detrendInto(make([]float64, len(x)), x, d)
+}
+
+// detrendInto writes detrend's residuals into e (which may be x itself)
+// and returns it.
+func detrendInto(e, x []float64, d Deterministic) []float64 {
 	T := float64(len(x))
 	var mean float64
 	for _, v := range x {
 		mean += v
 	}
 	mean /= T
-	e := make([]float64, len(x))
 	if d != DeterministicTrend {
 		for i, v := range x {
 			e[i] = v - mean

@@ -14,6 +14,7 @@ func PrewhitenedLongRunVariance(e []float64) float64 {
 	if v == nil {
 		return math.NaN()
 	}
+	defer putScratch(v)
 	return LongRunVariance(v, HobijnBandwidth(v)) / ((1 - phi) * (1 - phi))
 }
 
@@ -31,12 +32,14 @@ func blockAR1LongRunVariance(e []float64, m int) float64 {
 	if v == nil {
 		return math.NaN()
 	}
+	defer putScratch(v)
 	return autocovariance(v, 0) / ((1 - phi) * (1 - phi))
 }
 
 // ar1Fit fits e_t = φ·e_{t-1} + v_t by least squares, with Kendall's bias
 // correction for block demeaning when m > 3, φ kept within ±0.97, and
-// returns φ and the residuals v (nil for fewer than 3 values).
+// returns φ and the residuals v (nil for fewer than 3 values), a scratch
+// slice the caller puts back.
 func ar1Fit(e []float64, m int) (float64, []float64) {
 	if len(e) < 3 {
 		return 0, nil
@@ -54,7 +57,7 @@ func ar1Fit(e []float64, m int) (float64, []float64) {
 		}
 		phi = math.Max(-0.97, math.Min(0.97, phi))
 	}
-	v := make([]float64, len(e)-1)
+	v := getScratch(len(e) - 1)
 	for t := 1; t < len(e); t++ {
 		v[t-1] = e[t] - phi*e[t-1]
 	}

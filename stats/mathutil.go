@@ -26,12 +26,16 @@ func maxAbs(x []float64) float64 {
 // squares cannot overflow even for values near 1e300; every test statistic
 // here is invariant to the scale of the series.
 func scaled(x []float64) []float64 {
+	return scaledInto(make([]float64, len(x)), x)
+}
+
+// scaledInto writes x scaled as scaled does into dst and returns it.
+func scaledInto(dst, x []float64) []float64 {
 	m := maxAbs(x)
-	out := make([]float64, len(x))
 	for i, v := range x {
-		out[i] = v / m
+		dst[i] = v / m
 	}
-	return out
+	return dst
 }
 
 var errSingular = errorf("singular design")

@@ -77,7 +77,11 @@ func Seasonality(x []float64, opts SeasonalityOptions) (r SeasonalityResult, err
 		r.Status = StatusConstant
 		return r, nil
 	}
-	d, _ := Difference(x, 1, 1)
+	d := getScratch(max(len(x)-1, 0))
+	defer putScratch(d)
+	for i := range d {
+		d[i] = x[i+1] - x[i]
+	}
 	period := opts.Period
 	if period == 0 {
 		candidates := opts.Candidates
@@ -103,6 +107,7 @@ func Seasonality(x []float64, opts SeasonalityOptions) (r SeasonalityResult, err
 	}
 	r.SeasonalStrength = SeasonalStrength(dec)
 	r.TrendStrength = TrendStrength(dec)
+	dec.release()
 	r.Seasonal = r.SeasonalStrength >= SeasonalStrengthThreshold
 	r.OCSB = OCSBResult{Status: StatusSeasonUnknown, Statistic: math.NaN(), Critical5: math.NaN()}
 	if r.SeasonalStrength >= ModerateSeasonalStrength && !(opts.skipOCSBWhenSeasonal && r.Seasonal) {

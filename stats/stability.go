@@ -112,18 +112,17 @@ func stability(x []float64, opts StabilityOptions, full bool) (StabilityResult, 
 	k := len(bounds) - 1
 	r.Segments = k
 	r.SegmentLength = bounds[k] - bounds[k-1]
-	xs := scaled(x)
-
+	xs := scaledInto(getScratch(T), x)
+	defer putScratch(xs)
 	means := make([]float64, k)
 	sds := make([]float64, k)
-	resid := make([]float64, T)
-	z := make([]float64, T)
+	z := getScratch(T)
+	defer putScratch(z)
 	for j := 0; j < k; j++ {
 		seg := xs[bounds[j]:bounds[j+1]]
 		means[j], sds[j] = meanSD(seg)
 		med := median(seg)
 		for i, v := range seg {
-			resid[bounds[j]+i] = v - means[j]
 			z[bounds[j]+i] = math.Abs(v - med)
 		}
 	}
@@ -163,7 +162,8 @@ func spreadPValue(x []float64, segments int) float64 {
 	if bounds == nil {
 		return math.NaN()
 	}
-	z := make([]float64, len(x))
+	z := getScratch(len(x))
+	defer putScratch(z)
 	for j := 0; j+1 < len(bounds); j++ {
 		seg := x[bounds[j]:bounds[j+1]]
 		med := median(seg)
@@ -208,7 +208,8 @@ func segmentWald(y []float64, bounds []int) (float64, float64) {
 		total += v
 	}
 	grand := total / float64(len(y))
-	e := make([]float64, len(y))
+	e := getScratch(len(y))
+	defer putScratch(e)
 	q := 0.0
 	for j := 0; j < k; j++ {
 		seg := y[bounds[j]:bounds[j+1]]
@@ -405,7 +406,9 @@ func MannKendall(x []float64) (float64, float64) {
 // median returns the median of x (x is not modified), by quickselect in
 // expected linear time.
 func median(x []float64) float64 {
-	s := append([]float64(nil), x...)
+	s := getScratch(len(x))
+	defer putScratch(s)
+	copy(s, x)
 	n := len(s)
 	if n%2 == 1 {
 		return selectKth(s, n/2)

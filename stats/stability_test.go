@@ -1,9 +1,11 @@
 package stats
 
 import (
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"sort"
+	"sync"
 	"testing"
 )
 
@@ -249,6 +251,82 @@ func TestMedian(t *testing.T) {
 		}
 		if got := median(x); got != want {
 			t.Fatalf("median of %v = %v, want %v", x, got, want)
+		}
+	}
+}
+
+// BenchmarkStationarityDetect: the verdict at T = 1000 with the period
+// detected, on the two kinds of series plumb bench generates: a random walk
+// of uniform steps, and uniform noise around a weekly sine.
+func BenchmarkStationarityDetect(b *testing.B) {
+	rng := rand.New(rand.NewPCG(3, 4))
+	walk := make([]float64, 1000)
+	weekly := make([]float64, 1000)
+	w := 100.0
+	for i := range walk {
+		w += rng.Float64() - 0.5
+		walk[i] = w
+		weekly[i] = 100 + 3*math.Sin(float64(i)*0.8976) + (rng.Float64()-0.5)*4
+	}
+	for _, c := range []struct {
+		name string
+		x    []float64
+	}{{"walk", walk}, {"weekly", weekly}} {
+		b.Run(c.name, func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				Stationarity(c.x, StationarityOptions{})
+			}
+		})
+	}
+}
+
+// TestStationarityConcurrent: the verdicts computed on eight goroutines at
+// once equal those computed one by one, so scratch slices (scratch.go) are
+// never shared between calls.
+func TestStationarityConcurrent(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 6))
+	series := make([][]float64, 64)
+	for k := range series {
+		x := make([]float64, 200+10*k)
+		w := 0.0
+		for i := range x {
+			w += rng.NormFloat64()
+			switch k % 3 {
+			case 0:
+				x[i] = w
+			case 1:
+				x[i] = 10 + 3*math.Sin(float64(i)*2*math.Pi/7) + rng.NormFloat64()
+			default:
+				x[i] = 50 + float64(i)/20*rng.NormFloat64()
+			}
+		}
+		series[k] = x
+	}
+	want := make([]string, len(series))
+	for k, x := range series {
+		r, err := Stationarity(x, StationarityOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		want[k] = fmt.Sprintf("%v", r)
+	}
+	got := make([]string, len(series))
+	var wg sync.WaitGroup
+	for g := 0; g < 8; g++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for k := g; k < len(series); k += 8 {
+				r, _ := Stationarity(series[k], StationarityOptions{})
+				got[k] = fmt.Sprintf("%v", r)
+			}
+		}()
+	}
+	wg.Wait()
+	for k := range series {
+		if got[k] != want[k] {
+			t.Errorf("series %d: concurrent verdict differs:\n got %s\nwant %s", k, got[k], want[k])
 		}
 	}
 }

@@ -57,13 +57,20 @@ func STL(x []float64, p int, opts STLOptions) (STLResult, Status) {
 	if inner <= 0 {
 		inner = 2
 	}
-	trend := make([]float64, n)
-	season := make([]float64, n)
-	detrended := make([]float64, n)
-	cycle := make([]float64, n+2*p)
-	sub := make([]float64, n/p+1)
-	subSmooth := make([]float64, n/p+3)
-	w := make([]float64, n+2*p)
+	trend := getZeroed(n)
+	season := getScratch(n)
+	detrended := getScratch(n)
+	cycle := getScratch(n + 2*p)
+	sub := getScratch(n/p + 1)
+	subSmooth := getScratch(n/p + 3)
+	w := getScratch(n + 2*p)
+	lowSmooth := getScratch(n)
+	ma1, ma2, low := getScratch(n+p+1), getScratch(n+2), getScratch(n)
+	defer func() {
+		for _, s := range [][]float64{detrended, cycle, sub, subSmooth, w, lowSmooth, ma1, ma2, low} {
+			putScratch(s)
+		}
+	}()
 	for pass := 0; pass < inner; pass++ {
 		for i := range detrended {
 			detrended[i] = x[i] - trend[i]
@@ -89,9 +96,11 @@ func STL(x []float64, p int, opts STLOptions) (STLResult, Status) {
 				cycle[m*p+j] = subSmooth[m]
 			}
 		}
-		// (iii) low-pass filter of the cycle-subseries.
-		low := movingAverage(movingAverage(movingAverage(cycle, p), p), 3)
-		lowSmooth := make([]float64, n)
+		// (iii) low-pass filter of the cycle-subseries: moving averages of
+		// lengths p, p and 3 (n+2p → n+p+1 → n+2 → n values), then loess.
+		movingAverageInto(ma1, cycle, p)
+		movingAverageInto(ma2, ma1, p)
+		movingAverageInto(low, ma2, 3)
 		loessSmooth(low, nl, lowSmooth, w)
 		for i := range season {
 			season[i] = cycle[p+i] - lowSmooth[i]
@@ -102,17 +111,30 @@ func STL(x []float64, p int, opts STLOptions) (STLResult, Status) {
 		}
 		loessSmooth(detrended, nt, trend, w)
 	}
-	rem := make([]float64, n)
+	rem := getScratch(n)
 	for i := range rem {
 		rem[i] = x[i] - season[i] - trend[i]
 	}
 	return STLResult{Seasonal: season, Trend: trend, Remainder: rem}, StatusOK
 }
 
+// release gives the components' memory back for reuse by later STL calls;
+// d must not be used again.
+func (d STLResult) release() {
+	putScratch(d.Seasonal)
+	putScratch(d.Trend)
+	putScratch(d.Remainder)
+}
+
 // movingAverage returns the moving averages of x over windows of length m
 // (len(x) - m + 1 values).
 func movingAverage(x []float64, m int) []float64 {
-	out := make([]float64, len(x)-m+1)
+	return movingAverageInto(make([]float64, len(x)-m+1), x, m)
+}
+
+// movingAverageInto writes movingAverage(x, m) into out (of length
+// len(x)-m+1) and returns it.
+func movingAverageInto(out, x []float64, m int) []float64 {
 	s := 0.0
 	for i := 0; i < m; i++ {
 		s += x[i]
@@ -161,11 +183,7 @@ func loessSmooth(y []float64, q int, out, w []float64) {
 				}
 			}
 			if kernel != nil {
-				v := 0.0
-				for j, k := range kernel {
-					v += k * y[left+j]
-				}
-				out[i] = v
+				out[i] = dot(kernel, y[left:left+len(kernel)])
 				continue
 			}
 		}
@@ -247,14 +265,21 @@ func TrendStrength(d STLResult) float64 {
 }
 
 func strength(component, rem []float64) float64 {
-	sum := make([]float64, len(rem))
-	for i := range sum {
-		sum[i] = component[i] + rem[i]
+	var mean float64
+	for i, r := range rem {
+		mean += component[i] + r
+	}
+	mean /= float64(len(rem))
+	var ss float64
+	for i, r := range rem {
+		d := component[i] + r - mean
+		ss += d * d
 	}
 	_, sr := meanSD(rem)
-	_, ss := meanSD(sum)
+	// meanSD divides by n - 1; so does this ratio's denominator.
+	ss /= float64(len(rem) - 1)
 	if ss == 0 {
 		return 0
 	}
-	return math.Max(0, 1-sr*sr/(ss*ss))
+	return math.Max(0, 1-sr*sr/ss)
 }

@@ -10,6 +10,9 @@ import (
 // elements become NaN: plumb treats NULL and NaN alike as missing, and every
 // function documents what it does with a missing value.
 func floats(v driver.Value) ([]float64, error) {
+	if x, ok := v.([]float64); ok { // read unboxed by listColumn
+		return x, nil
+	}
 	list, ok := v.([]any)
 	if !ok {
 		return nil, fmt.Errorf("expected a list of numbers, got %T", v)

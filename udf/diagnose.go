@@ -31,34 +31,31 @@ func diagnoseFunctions(t *types) []*function {
 	return []*function{{
 		name:     "plumb_diagnose",
 		parallel: true,
-		params:   []duckdb.TypeInfo{t.anyType(), t.doubles(), t.bigint(), t.double(), t.varchar()},
+		params:   []duckdb.TypeInfo{t.anyType(), t.bigint(), t.double(), t.varchar()},
 		result:   t.structOf(fields...),
 		nullable: true,
 		eval: func(args []driver.Value) (any, error) {
-			if args[0] == nil || args[1] == nil {
+			if args[0] == nil {
 				return nil, nil
 			}
-			at, err := times(args[0])
+			p, err := pointsOf(args[0])
 			if err != nil {
 				return nil, err
 			}
-			x, err := floats(args[1])
-			if err != nil {
-				return nil, err
-			}
-			opts, err := stationarityOptions(args[2], args[3])
+			opts, err := stationarityOptions(args[1], args[2])
 			if err != nil {
 				return nil, err
 			}
 			fill := stats.FillNone
-			if args[4] != nil {
-				s, err := text(args[4], "fill")
+			if args[3] != nil {
+				s, err := text(args[3], "fill")
 				if err != nil {
 					return nil, err
 				}
 				fill = stats.FillMethod(s)
 			}
-			return diagnoseGroup(at, x, opts, fill)
+			p.sortByTime()
+			return diagnoseGroup(p.at, p.values, opts, fill)
 		},
 	}, {
 		name:     "plumb_diagnose_sql",
@@ -70,7 +67,7 @@ func diagnoseFunctions(t *types) []*function {
 			if err != nil {
 				return nil, err
 			}
-			q.duplicatesInGo = true
+			q.duplicatesInGo, q.points = true, true
 			if _, err := stationarityOptions(args[4], args[5]); err != nil {
 				return nil, err
 			}
@@ -178,9 +175,9 @@ func diagnoseSQL(q seriesQuery, period, alpha, fill string) string {
 	for _, test := range diagnoseTests {
 		exclude = append(exclude, "plumb_"+test+"_raw", "plumb_"+test+"_i")
 	}
-	return fmt.Sprintf(`WITH %[1]s, plumb_judged AS (
-    SELECT %[2]s, plumb_rows AS n, plumb_at[1] AS first_at, plumb_at[len(plumb_at)] AS last_at,
-           plumb_diagnose(plumb_at, plumb_value, %[3]s, %[4]s, %[5]s) AS plumb_d
+	return fmt.Sprintf(`WITH %[1]s, plumb_judged AS MATERIALIZED (
+    SELECT %[2]s, plumb_rows AS n, plumb_first_at AS first_at, plumb_last_at AS last_at,
+           plumb_diagnose(plumb_points, %[3]s, %[4]s, %[5]s) AS plumb_d
     FROM plumb_series
 ), plumb_flat AS (
     SELECT %[2]s, n, first_at, last_at, %[6]s

@@ -18,6 +18,11 @@ type seriesQuery struct {
 	// function that receives each group's at list (duplicateAtMessage):
 	// count(DISTINCT at) costs DuckDB about a second per ten million rows.
 	duplicatesInGo bool
+	// points aggregates each group as one unordered list of (t, v) pairs,
+	// plumb_points, with plumb_first_at and plumb_last_at, instead of the
+	// ordered lists plumb_at and plumb_raw; the Go function sorts the pairs
+	// (points.sortByTime). It implies duplicatesInGo.
+	points bool
 }
 
 // duplicateAt is the status a per-group Go function returns when its sorted
@@ -83,6 +88,9 @@ func (q seriesQuery) inputCTE() string {
 // The value column is cast to DOUBLE, so any numeric type works; a column
 // DuckDB cannot cast fails with DuckDB's own conversion message.
 func (q seriesQuery) groupsCTE() string {
+	if q.points {
+		return q.pointsCTE()
+	}
 	at := quoteIdent(q.at)
 	value := quoteIdent(q.value)
 	by := q.byList("")
@@ -112,4 +120,30 @@ func (q seriesQuery) groupsCTE() string {
            END AS plumb_value
     FROM plumb_groups
 )`, by, at, value, "", name, quoteLiteral(quoteIdent(q.at)), label, distinct)
+}
+
+// pointsCTE is groupsCTE for a query with points set: plumb_series holds
+// the group columns, plumb_rows, plumb_first_at, plumb_last_at and
+// plumb_points, a list of (t, v) pairs in no particular order with v cast
+// to DOUBLE, after checking that at is never NULL.
+func (q seriesQuery) pointsCTE() string {
+	at := quoteIdent(q.at)
+	return q.inputCTE() + fmt.Sprintf(`, plumb_groups AS (
+    SELECT %[1]s,
+           count(*) AS plumb_rows,
+           count(%[2]s) AS plumb_at_present,
+           min(%[2]s) AS plumb_first_at,
+           max(%[2]s) AS plumb_last_at,
+           list(struct_pack(t := %[2]s, v := %[3]s::DOUBLE)) AS plumb_points
+    FROM plumb_input
+    GROUP BY %[1]s
+), plumb_series AS (
+    SELECT %[1]s, plumb_rows, plumb_first_at, plumb_last_at,
+           CASE
+               WHEN plumb_at_present < plumb_rows THEN
+                   error(%[4]s || 'column ' || %[5]s || ' is NULL in ' || (plumb_rows - plumb_at_present) || ' rows of group ' || %[6]s)
+               ELSE plumb_points
+           END AS plumb_points
+    FROM plumb_groups
+)`, q.byList(""), at, quoteIdent(q.value), quoteLiteral(q.function+": "), quoteLiteral(quoteIdent(q.at)), q.groupLabel())
 }

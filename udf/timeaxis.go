@@ -2,15 +2,23 @@ package udf
 
 import (
 	"database/sql/driver"
+	"errors"
 	"fmt"
 	"math"
 	"time"
 )
 
+// errNullTime is the error for a NULL in the at column: a time point
+// that is not known cannot be placed on the series' axis.
+var errNullTime = errors.New("the at column holds a NULL; filter those rows out or fill them in")
+
 // times reads a list of at values (DATE, TIMESTAMP or an integer type) as
 // int64 positions: microseconds since 1970 for dates and timestamps, the
 // numbers themselves otherwise.
 func times(v driver.Value) ([]int64, error) {
+	if ts, ok := v.([]int64); ok { // read unboxed by listColumn
+		return ts, nil
+	}
 	list, ok := v.([]any)
 	if !ok {
 		return nil, fmt.Errorf("expected a list of times, got %T", v)
@@ -36,6 +44,8 @@ func times(v driver.Value) ([]int64, error) {
 			out[i] = int64(t)
 		case uint8:
 			out[i] = int64(t)
+		case nil:
+			return nil, errNullTime
 		case float64:
 			if t != math.Trunc(t) {
 				return nil, fmt.Errorf("the at column must be a DATE, a TIMESTAMP or whole numbers, got %v", t)

@@ -1,0 +1,252 @@
+package udf
+
+import (
+	"database/sql/driver"
+	"math"
+	"reflect"
+	"unsafe"
+
+	"github.com/duckdb/duckdb-go/v2"
+	"github.com/duckdb/duckdb-go/v2/mapping"
+)
+
+// Reading list arguments straight from DuckDB's vectors.
+//
+// duckdb-go's chunk API returns a LIST value as []any, one interface box per
+// element, and sets a result only at the row its iterator stands on, which
+// re-reads (and re-boxes) every argument of that row. At 10,000 groups of
+// 1,000 values, the boxes and their garbage collection took more CPU than
+// the statistics (CPU profile in DEVELOPERS.md). So plumb reads LIST columns
+// of numbers and times from the vectors themselves, through duckdb-go's
+// public mapping package (DuckDB's C API), and places the iterator on a row
+// itself to write that row's result with duckdb-go's own setter.
+//
+// Both need one unexported field of duckdb-go: the C handle inside a
+// DataChunk and the row index inside a ChunkIteratorState. Their offsets are
+// found once by reflection and checked by name and type. If a later
+// duckdb-go renames or retypes either, chunkAccess.ok is false and every
+// function runs on the boxed iterator instead, which gives the same values
+// (udf tests run both paths).
+var chunkAccess = findChunkAccess()
+
+type chunkLayout struct {
+	ok bool
+	// chunkHandle is the offset of DataChunk.chunk (a mapping.DataChunk).
+	chunkHandle uintptr
+	// rowIndex is the offset of ChunkIteratorState.r.rowIdx (a mapping.IdxT).
+	rowIndex uintptr
+}
+
+func findChunkAccess() chunkLayout {
+	chunk, ok := reflect.TypeOf(duckdb.DataChunk{}).FieldByName("chunk")
+	if !ok || chunk.Type != reflect.TypeOf(mapping.DataChunk{}) {
+		return chunkLayout{}
+	}
+	row, ok := reflect.TypeOf(duckdb.ChunkIteratorState{}).FieldByName("r")
+	if !ok || row.Type != reflect.TypeOf(duckdb.Row{}) {
+		return chunkLayout{}
+	}
+	index, ok := row.Type.FieldByName("rowIdx")
+	if !ok || index.Type != reflect.TypeOf(mapping.IdxT(0)) {
+		return chunkLayout{}
+	}
+	return chunkLayout{ok: true, chunkHandle: chunk.Offset, rowIndex: row.Offset + index.Offset}
+}
+
+// rawChunk returns the C handle of a DataChunk.
+func rawChunk(c *duckdb.DataChunk) mapping.DataChunk {
+	return *(*mapping.DataChunk)(unsafe.Add(unsafe.Pointer(c), chunkAccess.chunkHandle))
+}
+
+// moveTo places the iterator on row, so that SetResult writes that row.
+func moveTo(state *duckdb.ChunkIteratorState, row int) {
+	*(*mapping.IdxT)(unsafe.Add(unsafe.Pointer(state), chunkAccess.rowIndex)) = mapping.IdxT(row)
+}
+
+// listEntry is DuckDB's duckdb_list_entry: where a row's elements sit in
+// the list's child vector.
+type listEntry struct{ offset, length uint64 }
+
+// listColumn reads one LIST column of a chunk without boxing: DOUBLE
+// elements become a []float64 (NULL elements NaN, as floats does); DATE,
+// TIMESTAMP and integer elements a []int64 (microseconds since 1970 for
+// dates and timestamps, as times does); STRUCT elements of a time and a
+// DOUBLE (the points diagnose aggregates) become points.
+type listColumn struct {
+	entries []listEntry
+	rows    unsafe.Pointer // validity of the lists themselves; nil: all valid
+	// elements reads a plain list's child vector, or a list of pairs' time
+	// member; values reads the pairs' value member.
+	elements, values *childVector
+}
+
+// childVector is the child vector of a list, or a member of it.
+type childVector struct {
+	data      unsafe.Pointer
+	valid     unsafe.Pointer // nil: all valid
+	kind      mapping.Type
+	microsPer int64 // for dates and timestamps: microseconds per stored unit
+}
+
+// newListColumn returns a reader for column col of a chunk of n rows, or
+// nil when the column is not a list of a type listColumn reads (the caller
+// then reads that column through duckdb-go's boxed getter).
+//
+// DuckDB flattens the arguments of a C API scalar function before calling
+// it, so row i's list entry is entries[i] even for a constant argument
+// (a test passes a literal list over several thousand rows).
+func newListColumn(c *duckdb.DataChunk, col, n int) *listColumn {
+	vec := mapping.DataChunkGetVector(rawChunk(c), mapping.IdxT(col))
+	lt := mapping.VectorGetColumnType(vec)
+	defer mapping.DestroyLogicalType(&lt)
+	if mapping.GetTypeId(lt) != mapping.TypeList {
+		return nil
+	}
+	ct := mapping.ListTypeChildType(lt)
+	defer mapping.DestroyLogicalType(&ct)
+	child := mapping.ListVectorGetChild(vec)
+	r := &listColumn{rows: mapping.VectorGetValidity(vec)}
+	switch mapping.GetTypeId(ct) {
+	case mapping.TypeStruct:
+		if mapping.StructTypeChildCount(ct) != 2 {
+			return nil
+		}
+		t0, t1 := mapping.StructTypeChildType(ct, 0), mapping.StructTypeChildType(ct, 1)
+		defer mapping.DestroyLogicalType(&t0)
+		defer mapping.DestroyLogicalType(&t1)
+		r.elements = newChildVector(mapping.StructVectorGetChild(child, 0), mapping.GetTypeId(t0))
+		r.values = newChildVector(mapping.StructVectorGetChild(child, 1), mapping.GetTypeId(t1))
+		if r.elements == nil || r.elements.kind == mapping.TypeDouble || r.values == nil || r.values.kind != mapping.TypeDouble {
+			return nil
+		}
+	default:
+		if r.elements = newChildVector(child, mapping.GetTypeId(ct)); r.elements == nil {
+			return nil
+		}
+	}
+	if n > 0 {
+		r.entries = unsafe.Slice((*listEntry)(mapping.VectorGetData(vec)), n)
+	}
+	return r
+}
+
+func newChildVector(vec mapping.Vector, kind mapping.Type) *childVector {
+	c := &childVector{kind: kind}
+	switch kind {
+	case mapping.TypeDouble, mapping.TypeBigInt, mapping.TypeInteger, mapping.TypeSmallInt, mapping.TypeTinyInt,
+		mapping.TypeUInteger, mapping.TypeUSmallInt, mapping.TypeUTinyInt, mapping.TypeTimestampNS:
+	case mapping.TypeDate:
+		c.microsPer = 86_400_000_000
+	case mapping.TypeTimestamp, mapping.TypeTimestampTZ:
+		c.microsPer = 1
+	case mapping.TypeTimestampS:
+		c.microsPer = 1_000_000
+	case mapping.TypeTimestampMS:
+		c.microsPer = 1_000
+	default:
+		return nil
+	}
+	c.data = mapping.VectorGetData(vec)
+	c.valid = mapping.VectorGetValidity(vec)
+	return c
+}
+
+// valid reports bit i of a DuckDB validity mask (nil: every bit set).
+func valid(mask unsafe.Pointer, i uint64) bool {
+	if mask == nil {
+		return true
+	}
+	word := *(*uint64)(unsafe.Add(mask, (i/64)*8))
+	return word&(1<<(i%64)) != 0
+}
+
+// value returns row's list, or nil for a NULL list. It only reads DuckDB's
+// memory, so workers may call it concurrently while the chunk is alive.
+func (r *listColumn) value(row int) (driver.Value, error) {
+	if !valid(r.rows, uint64(row)) {
+		return nil, nil
+	}
+	e := r.entries[row]
+	if r.values != nil {
+		at, err := r.elements.times(e)
+		if err != nil {
+			return nil, err
+		}
+		return points{at: at, values: r.values.floats(e)}, nil
+	}
+	if r.elements.kind == mapping.TypeDouble {
+		return r.elements.floats(e), nil
+	}
+	return r.elements.times(e)
+}
+
+// floats reads e's elements of a DOUBLE vector, NULL as NaN.
+func (c *childVector) floats(e listEntry) []float64 {
+	out := make([]float64, e.length)
+	copy(out, elements[float64](c.data, e))
+	if c.valid != nil {
+		for i := range out {
+			if !valid(c.valid, e.offset+uint64(i)) {
+				out[i] = math.NaN()
+			}
+		}
+	}
+	return out
+}
+
+// times reads e's elements of a time or integer vector as int64.
+func (c *childVector) times(e listEntry) ([]int64, error) {
+	if c.valid != nil {
+		for i := uint64(0); i < e.length; i++ {
+			if !valid(c.valid, e.offset+i) {
+				return nil, errNullTime
+			}
+		}
+	}
+	out := make([]int64, e.length)
+	switch c.kind {
+	case mapping.TypeDate, mapping.TypeInteger:
+		widen(out, elements[int32](c.data, e))
+	case mapping.TypeSmallInt:
+		widen(out, elements[int16](c.data, e))
+	case mapping.TypeTinyInt:
+		widen(out, elements[int8](c.data, e))
+	case mapping.TypeUInteger:
+		widen(out, elements[uint32](c.data, e))
+	case mapping.TypeUSmallInt:
+		widen(out, elements[uint16](c.data, e))
+	case mapping.TypeUTinyInt:
+		widen(out, elements[uint8](c.data, e))
+	case mapping.TypeTimestampNS:
+		for i, v := range elements[int64](c.data, e) {
+			// Floor division, as time.Time.UnixMicro rounds.
+			out[i] = v / 1000
+			if v%1000 < 0 {
+				out[i]--
+			}
+		}
+	default:
+		copy(out, elements[int64](c.data, e))
+	}
+	if c.microsPer > 1 {
+		for i := range out {
+			out[i] *= c.microsPer
+		}
+	}
+	return out, nil
+}
+
+// elements views e's elements in a child vector of T values.
+func elements[T any](data unsafe.Pointer, e listEntry) []T {
+	if e.length == 0 {
+		return nil
+	}
+	var zero T
+	return unsafe.Slice((*T)(unsafe.Add(data, uintptr(e.offset)*unsafe.Sizeof(zero))), e.length)
+}
+
+func widen[T int8 | int16 | int32 | uint8 | uint16 | uint32](out []int64, in []T) {
+	for i, v := range in {
+		out[i] = int64(v)
+	}
+}

@@ -1,0 +1,68 @@
+package udf
+
+import (
+	"cmp"
+	"database/sql/driver"
+	"fmt"
+	"slices"
+)
+
+// points is one group's observations as diagnose aggregates them: an
+// unordered list(struct_pack(t := at, v := value)), which DuckDB builds
+// about four times faster than two lists ordered by at (README, Speed),
+// sorted by time here, in parallel across groups.
+type points struct {
+	at     []int64
+	values []float64
+}
+
+// pointsOf reads a LIST(STRUCT(t, v)) argument: the unboxed points of
+// listColumn, or duckdb-go's boxed []any of map[string]any.
+func pointsOf(v driver.Value) (points, error) {
+	if p, ok := v.(points); ok {
+		return p, nil
+	}
+	list, ok := v.([]any)
+	if !ok {
+		return points{}, fmt.Errorf("expected a list of (t, v) pairs, got %T", v)
+	}
+	at := make([]any, len(list))
+	vals := make([]any, len(list))
+	for i, e := range list {
+		m, ok := e.(map[string]any)
+		if !ok {
+			return points{}, fmt.Errorf("expected a list of (t, v) pairs, got an element of type %T", e)
+		}
+		at[i], vals[i] = m["t"], m["v"]
+	}
+	ts, err := times(at)
+	if err != nil {
+		return points{}, err
+	}
+	xs, err := floats(vals)
+	if err != nil {
+		return points{}, err
+	}
+	return points{at: ts, values: xs}, nil
+}
+
+// sortByTime orders the points by time, keeping each value with its time.
+// A list already in order (the common case: DuckDB's aggregate keeps the
+// order of a file sorted by group and time) costs one pass.
+func (p points) sortByTime() {
+	if slices.IsSorted(p.at) {
+		return
+	}
+	type point struct {
+		at    int64
+		value float64
+	}
+	ps := make([]point, len(p.at))
+	for i := range ps {
+		ps[i] = point{p.at[i], p.values[i]}
+	}
+	slices.SortStableFunc(ps, func(a, b point) int { return cmp.Compare(a.at, b.at) })
+	for i, q := range ps {
+		p.at[i], p.values[i] = q.at, q.value
+	}
+}
