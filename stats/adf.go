@@ -332,8 +332,17 @@ func (a *adfDesign) crossMatrix(lags, start int) ([]float64, int, int) {
 		set(c, 1, ((a.xwsum[hi]-a.xwsum[lo])-float64(lo-1)*sumX)/nf)
 	}
 	set(c, c, a.xsq[hi]-a.xsq[lo])
+	// The level and Δy itself against every shift: two sets of lagged dot
+	// products over one window of Δy.
+	window := a.dx[start-lags : start+n]
+	levelShift := getScratch(lags + 1)
+	band := getScratch(lags + 1)
+	defer putScratch(levelShift)
+	defer putScratch(band)
+	lagDots(level, window, levelShift)
+	lagDots(shift(0), window, band)
 	// Deterministic columns against the shifts: window sums of Δy and of
-	// u·Δy_u, O(1) each; the level against each shift needs a dot product.
+	// u·Δy_u, O(1) each.
 	for l := 0; l <= lags; l++ {
 		wlo, whi := start-l, start-l+n // the window of dx that shift(l) covers
 		col := 0
@@ -346,11 +355,11 @@ func (a *adfDesign) crossMatrix(lags, start int) ([]float64, int, int) {
 			set(at(l), col, w/nf)
 			col++
 		}
-		set(at(l), col, dot(level, shift(l)))
+		set(at(l), col, levelShift[l])
 	}
 	dx := a.dx
 	for d := 0; d <= lags; d++ { // diagonal band: pairs (i, i+d)
-		v := dot(shift(0), shift(d))
+		v := band[d]
 		set(at(0), at(d), v)
 		for i := 0; i+d < lags; i++ {
 			j := i + d

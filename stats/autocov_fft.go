@@ -25,8 +25,14 @@ func autocovariances(e []float64, maxLag int) []float64 {
 	// Direct sums cost about maxLag·n; two real FFTs about 10·size·log2(size)
 	// (measured on this machine); take the cheaper.
 	if maxLag*n <= 10*size*logSize {
+		// Σ_{t≥j} e_t·e_{t-j}: lagDots gives the terms with t ≥ maxLag for
+		// every lag at once; the few earlier ones are added directly.
+		lagDots(e[maxLag:], e, out)
 		for j := range out {
-			out[j] = autocovariance(e, j)
+			for t := j; t < maxLag; t++ {
+				out[j] += e[t] * e[t-j]
+			}
+			out[j] /= float64(n)
 		}
 		return out
 	}

@@ -32,15 +32,16 @@ func (q *nestedLS) factorGram(cols [][]float64, y []float64) {
 func dot(a, b []float64) float64 {
 	b = b[:len(a)]
 	var s0, s1, s2, s3 float64
-	t := 0
-	for ; t+4 <= len(a); t += 4 {
-		s0 += a[t] * b[t]
-		s1 += a[t+1] * b[t+1]
-		s2 += a[t+2] * b[t+2]
-		s3 += a[t+3] * b[t+3]
+	// Re-slicing by four lets the compiler drop the bounds checks.
+	for len(a) >= 4 && len(b) >= 4 {
+		s0 += a[0] * b[0]
+		s1 += a[1] * b[1]
+		s2 += a[2] * b[2]
+		s3 += a[3] * b[3]
+		a, b = a[4:], b[4:]
 	}
-	for ; t < len(a); t++ {
-		s0 += a[t] * b[t]
+	for i := range a {
+		s0 += a[i] * b[i]
 	}
 	return (s0 + s1) + (s2 + s3)
 }

@@ -40,12 +40,15 @@ func LongRunVariance(e []float64, l int) float64 {
 func HobijnBandwidth(e []float64) int {
 	T := len(e)
 	n := int(math.Pow(float64(T), 2.0/9.0))
-	s0 := autocovariance(e, 0)
+	g := autocovariances(e, n)
+	if g == nil {
+		return 0
+	}
+	s0 := g[0]
 	s1 := 0.0
-	for i := 1; i <= n && i < T; i++ {
-		g := autocovariance(e, i)
-		s0 += 2 * g
-		s1 += 2 * float64(i) * g
+	for i := 1; i < len(g); i++ {
+		s0 += 2 * g[i]
+		s1 += 2 * float64(i) * g[i]
 	}
 	if s0 == 0 {
 		return 0

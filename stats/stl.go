@@ -151,7 +151,8 @@ func movingAverageInto(out, x []float64, m int) []float64 {
 // with window q at every position, writing out. The window slides with the
 // point, as in the original STL code: the q nearest positions, or all of
 // them when q ≥ n. Wherever the window sits symmetrically around the point
-// the weights are the same, so they are computed once and reused.
+// the weights are the same, so they are computed once and applied to that
+// whole stretch as one convolution, kernel tap by kernel tap.
 func loessSmooth(y []float64, q int, out, w []float64) {
 	n := len(y)
 	if n < 2 {
@@ -170,28 +171,43 @@ func loessSmooth(y []float64, q int, out, w []float64) {
 	}
 	half := (q + 1) / 2
 	left, right := 0, q-1
-	var kernel []float64
+	first, last := -1, -1 // the stretch of points with a symmetric window
 	for i := 0; i < n; i++ {
 		if i+1 > half && right != n-1 {
 			left++
 			right++
 		}
 		if i-left == right-i {
-			if kernel == nil {
-				if _, ok := loessAt(y, q, float64(i), left, right, w); ok {
-					kernel = append([]float64(nil), w[left:right+1]...)
-				}
+			if first < 0 {
+				first = i
 			}
-			if kernel != nil {
-				out[i] = dot(kernel, y[left:left+len(kernel)])
-				continue
-			}
+			last = i
+			continue
 		}
 		v, ok := loessAt(y, q, float64(i), left, right, w)
 		if !ok {
 			v = y[i]
 		}
 		out[i] = v
+	}
+	if first < 0 {
+		return
+	}
+	h := (q - 1) / 2
+	if _, ok := loessAt(y, q, float64(first), first-h, first+h, w); !ok {
+		for i := first; i <= last; i++ {
+			out[i] = y[i]
+		}
+		return
+	}
+	kernel := w[first-h : first+h+1]
+	dst := out[first : last+1]
+	clear(dst)
+	for j, k := range kernel {
+		src := y[first-h+j : first-h+j+len(dst)]
+		for i := range dst {
+			dst[i] += k * src[i]
+		}
 	}
 }
 
