@@ -12,7 +12,7 @@ import (
 )
 
 func newBenchCommand() *cobra.Command {
-	cfg := bench.Config{Groups: 10000, Length: 1000, Dir: "plumb-bench", Reference: 0}
+	cfg := bench.Config{Groups: 10000, Length: 1000, Dir: "plumb-bench", Reference: 0, Repeats: 3, Layout: bench.LayoutGroup}
 	var phase, file, profile, scalingDir string
 	var generate bool
 	cmd := &cobra.Command{
@@ -21,8 +21,8 @@ func newBenchCommand() *cobra.Command {
 		Long: `Generates a Parquet file of G groups x T observations (reused if present), then
 runs, each in a child process of its own, DuckDB's list(v ORDER BY t) per group
 (the data-movement floor) and plumb's diagnose with default options, and
-prints wall time, groups per second, peak resident memory and the ratio to the
-floor. With --reference N it also times python3-statsmodels' adfuller and kpss
+prints wall time (the median of --repeat runs), groups per second, peak
+resident memory and the ratio to the floor. With --reference N it also times python3-statsmodels' adfuller and kpss
 over N groups of the same file and extrapolates to all groups.`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
@@ -56,7 +56,7 @@ over N groups of the same file and extrapolates to all groups.`,
 				if err := os.MkdirAll(scalingDir, 0o755); err != nil {
 					return err
 				}
-				_, err := bench.Scaling(cmd.Context(), cfg.Dir, self, bench.ScalingGrid, cmd.OutOrStdout(), filepath.Join(scalingDir, "scaling.svg"))
+				_, err := bench.Scaling(cmd.Context(), cfg, self, bench.ScalingGrid, cmd.OutOrStdout(), filepath.Join(scalingDir, "scaling.svg"))
 				return err
 			}
 			_, err = bench.Run(cmd.Context(), cfg, self, cmd.OutOrStdout())
@@ -68,6 +68,8 @@ over N groups of the same file and extrapolates to all groups.`,
 	f.IntVar(&cfg.Length, "length", cfg.Length, "observations per group T")
 	f.StringVar(&cfg.Dir, "dir", cfg.Dir, "where the generated Parquet files go")
 	f.IntVar(&cfg.Reference, "reference", cfg.Reference, "time the statsmodels loop on this many groups (0: skip)")
+	f.IntVar(&cfg.Repeats, "repeat", cfg.Repeats, "run each phase this many times and report the median")
+	f.StringVar(&cfg.Layout, "layout", cfg.Layout, "row order of the generated file: group (by group, then time) or time (by time, then group, as a table of daily appends)")
 	f.StringVar(&phase, "phase", "", "run one phase in this process (used by bench itself)")
 	f.StringVar(&file, "file", "", "the Parquet file for --phase")
 	f.StringVar(&scalingDir, "scaling", "", "measure the scaling grid (G of 1k, 10k, 100k at T = 500; T of 100, 1k, 10k at G = 1k), print a Markdown table and draw `DIR`/scaling.svg")

@@ -5,12 +5,14 @@ package bench
 
 import (
 	"bytes"
+	"cmp"
 	"context"
 	"fmt"
 	"io"
 	"os"
 	"os/exec"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 	"syscall"
@@ -26,7 +28,21 @@ type Config struct {
 	// Reference is the number of groups the reference-library loop runs on
 	// (0 to skip it); its time is extrapolated to all groups.
 	Reference int
+	// Repeats runs each phase this many times and reports the run with the
+	// median wall time (0 means 1). This machine's timings drift by 10-20%
+	// from run to run.
+	Repeats int
+	// Layout is the row order of the generated file: LayoutGroup (sorted
+	// by group, then time) or LayoutTime (by time, then group: a table that
+	// grows by appending each day's rows for every group).
+	Layout string
 }
+
+// The row orders Generate can write.
+const (
+	LayoutGroup = "group"
+	LayoutTime  = "time"
+)
 
 // Phase names a measured step.
 type Phase string
@@ -47,10 +63,14 @@ type Result struct {
 }
 
 // Generate writes G groups of T observations to dir/series_G_T.parquet
-// (half random walks, half noise around a weekly pattern) and returns its
-// path; an existing file is reused.
+// (half random walks, half noise around a weekly pattern; rows in the order
+// cfg.Layout names, with "_time" in the name for LayoutTime) and returns
+// its path; an existing file is reused.
 func Generate(ctx context.Context, cfg Config) (string, error) {
-	path := filepath.Join(cfg.Dir, fmt.Sprintf("series_%d_%d.parquet", cfg.Groups, cfg.Length))
+	path, order, err := dataFile(cfg)
+	if err != nil {
+		return "", err
+	}
 	if _, err := os.Stat(path); err == nil {
 		return path, nil
 	}
@@ -68,12 +88,23 @@ func Generate(ctx context.Context, cfg Config) (string, error) {
 		            THEN 100 + sum(random() - 0.5) OVER (PARTITION BY g ORDER BY t)
 		            ELSE 100 + 3 * sin(t * 0.8976) + (random() - 0.5) * 4 END AS v
 		FROM range(%d) AS gs(g), range(%d) AS ts(t)
-		ORDER BY g, t
-	) TO '%s' (FORMAT parquet, ROW_GROUP_SIZE 1000000)`, cfg.Groups, cfg.Length, strings.ReplaceAll(path, "'", "''"))
+		ORDER BY %s
+	) TO '%s' (FORMAT parquet, ROW_GROUP_SIZE 1000000)`, cfg.Groups, cfg.Length, order, strings.ReplaceAll(path, "'", "''"))
 	if _, err := db.ExecContext(ctx, q); err != nil {
 		return "", fmt.Errorf("generate %s: %w", path, err)
 	}
 	return path, nil
+}
+
+// dataFile returns the path of cfg's generated file and its ORDER BY.
+func dataFile(cfg Config) (path, order string, err error) {
+	switch cfg.Layout {
+	case "", LayoutGroup:
+		return filepath.Join(cfg.Dir, fmt.Sprintf("series_%d_%d.parquet", cfg.Groups, cfg.Length)), "g, t", nil
+	case LayoutTime:
+		return filepath.Join(cfg.Dir, fmt.Sprintf("series_%d_%d_time.parquet", cfg.Groups, cfg.Length)), "t, g", nil
+	}
+	return "", "", fmt.Errorf("unknown layout %q: use %s or %s", cfg.Layout, LayoutGroup, LayoutTime)
 }
 
 // PhaseSQL is the query each phase runs; both read every value and return
@@ -137,19 +168,29 @@ func Measure(ctx context.Context, argv []string) (time.Duration, int64, string, 
 // small for the children's peaks to be their own.
 func Run(ctx context.Context, cfg Config, self string, w io.Writer) ([]Result, error) {
 	_, _, out, err := Measure(ctx, []string{self, "bench", "--generate", "--groups", strconv.Itoa(cfg.Groups),
-		"--length", strconv.Itoa(cfg.Length), "--dir", cfg.Dir})
+		"--length", strconv.Itoa(cfg.Length), "--dir", cfg.Dir, "--layout", cfg.Layout})
 	if err != nil {
 		return nil, err
 	}
 	file := strings.TrimSpace(out)
 	var results []Result
+	repeats := max(cfg.Repeats, 1)
 	for _, p := range []Phase{PhaseFloor, PhaseUnitRoot, PhaseDiagnose} {
-		wall, rss, out, err := Measure(ctx, []string{self, "bench", "--phase", string(p), "--file", file})
-		if err != nil {
-			return nil, err
+		var runs []Result
+		for range repeats {
+			wall, rss, out, err := Measure(ctx, []string{self, "bench", "--phase", string(p), "--file", file})
+			if err != nil {
+				return nil, err
+			}
+			groups, _ := strconv.Atoi(strings.Fields(out + " 0")[0])
+			runs = append(runs, Result{Phase: string(p), Wall: wall, PeakRSS: rss, Groups: groups})
 		}
-		groups, _ := strconv.Atoi(strings.Fields(out + " 0")[0])
-		results = append(results, Result{Phase: string(p), Wall: wall, PeakRSS: rss, Groups: groups})
+		slices.SortFunc(runs, func(a, b Result) int { return cmp.Compare(a.Wall, b.Wall) })
+		median := runs[len(runs)/2]
+		if repeats > 1 {
+			median.Note = fmt.Sprintf("(median of %d runs: %.2f-%.2f s)", repeats, runs[0].Wall.Seconds(), runs[len(runs)-1].Wall.Seconds())
+		}
+		results = append(results, median)
 	}
 	if cfg.Reference > 0 {
 		r, err := referenceLoop(ctx, cfg, file)
@@ -164,7 +205,11 @@ func Run(ctx context.Context, cfg Config, self string, w io.Writer) ([]Result, e
 }
 
 func writeTable(w io.Writer, cfg Config, results []Result) {
-	fmt.Fprintf(w, "%d groups x %d observations\n", cfg.Groups, cfg.Length)
+	layout := cfg.Layout
+	if layout == "" {
+		layout = LayoutGroup
+	}
+	fmt.Fprintf(w, "%d groups x %d observations, rows ordered by %s\n", cfg.Groups, cfg.Length, layout)
 	fmt.Fprintf(w, "%-34s %10s %12s %12s %10s\n", "phase", "wall (s)", "groups/s", "peak RSS MB", "vs floor")
 	floor := results[0].Wall
 	for _, r := range results {

@@ -7,7 +7,6 @@ import (
 	"io"
 	"math"
 	"os"
-	"path/filepath"
 	"sort"
 	"strings"
 
@@ -28,18 +27,22 @@ type Point struct {
 // T = 500, and T ∈ {100, 1k, 10k} at G = 1k.
 var ScalingGrid = [][2]int{{1000, 500}, {10000, 500}, {100000, 500}, {1000, 100}, {1000, 1000}, {1000, 10000}}
 
-// Scaling measures every size of grid and writes a Markdown table to w and
-// the two curves to plotPath (SVG), unless plotPath is empty.
-func Scaling(ctx context.Context, dir, self string, grid [][2]int, w io.Writer, plotPath string) ([]Point, error) {
+// Scaling measures every size of grid, with base's directory, layout and
+// repeats, and writes a Markdown table to w and the two curves to plotPath
+// (SVG), unless plotPath is empty.
+func Scaling(ctx context.Context, base Config, self string, grid [][2]int, w io.Writer, plotPath string) ([]Point, error) {
 	var points []Point
 	for _, gt := range grid {
-		cfg := Config{Groups: gt[0], Length: gt[1], Dir: dir}
+		cfg := base
+		cfg.Groups, cfg.Length, cfg.Reference = gt[0], gt[1], 0
 		res, err := Run(ctx, cfg, self, io.Discard)
 		if err != nil {
 			return points, err
 		}
 		// The generated file is large at 100k groups; keep the disk tidy.
-		os.Remove(filepath.Join(dir, fmt.Sprintf("series_%d_%d.parquet", gt[0], gt[1])))
+		if path, _, err := dataFile(cfg); err == nil {
+			os.Remove(path)
+		}
 		points = append(points, Point{Groups: gt[0], Length: gt[1], Results: res})
 		fmt.Fprintf(os.Stderr, "measured G=%d T=%d\n", gt[0], gt[1])
 	}
