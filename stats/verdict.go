@@ -39,9 +39,12 @@ type StationarityResult struct {
 	// Score ranks series by how far they are from stationary (see
 	// Stationarity); 0 for a series with no evidence against.
 	Score float64
-	// The tests behind the verdict, on the original series. Stability
-	// holds the segment tests only (its ARCH, trend and Mann-Kendall fields
-	// are NaN; call Stability for those).
+	// The tests behind the verdict. ADF and KPSS are the first step of the
+	// differencing sequence: on the original series, or, for a seasonal
+	// series, on its seasonal differences (the tests that chose d; on the
+	// levels a seasonal pattern would mislead both). Stability holds the
+	// segment tests on the original series only (its ARCH, trend and
+	// Mann-Kendall fields are NaN; call Stability for those).
 	ADF, KPSS   UnitRootResult
 	Stability   StabilityResult
 	Seasonality SeasonalityResult
@@ -100,8 +103,9 @@ func (r StationarityResult) ViolationList() string {
 //
 //	score = min(10, -log10 p_mean) + min(10, -log10 p_spread) + 10·F_s·[seasonal],
 //
-// with p_mean the smaller of the KPSS and segment-means p-values on the
-// original series, p_spread the spread test after the recommended
+// with p_mean the smaller of the segment-means p-value and the KPSS p-value
+// of the differencing sequence's first step (after the seasonal
+// differences, so that a seasonal pattern counts once, through F_s), p_spread the spread test after the recommended
 // differencing (SpreadPValue), and F_s the seasonal strength. It runs from 0
 // to 30.
 func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, error) {
@@ -148,7 +152,7 @@ func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, er
 		if err != nil {
 			return r, err
 		}
-		if r.Differences == 0 && r.SeasonalDifferences == 0 {
+		if r.Differences == 0 {
 			r.ADF, r.KPSS = adf, kpss
 		}
 		if adf.Status != StatusOK || kpss.Status != StatusOK {
@@ -159,10 +163,6 @@ func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, er
 		}
 		y, _ = Difference(y, 1, 1)
 		r.Differences++
-	}
-	if r.SeasonalDifferences > 0 {
-		r.ADF, _ = ADF(x, ADFOptions{})
-		r.KPSS, _ = KPSS(x, KPSSOptions{})
 	}
 	r.Stability, err = stability(x, StabilityOptions{Segments: opts.Segments, Period: stabilityPeriod}, false)
 	if err != nil {
