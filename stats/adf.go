@@ -104,6 +104,11 @@ type adfDesign struct {
 	// sum[u] = Σ_{v<u} dx_v and wsum[u] = Σ_{v<u} v·dx_v; xsum, xwsum and
 	// xsq the same for x, x·u and x²; built on first use.
 	sum, wsum, xsum, xwsum, xsq []float64
+	// search is the lag search's cross-product matrix (before factoring)
+	// for searchLags lags on the sample from searchLags on; refitMatrix
+	// grows its corner into the chosen model's matrix.
+	search     []float64
+	searchLags int
 }
 
 // prefix builds the prefix sums once; the weighted ones only with a trend.
@@ -153,7 +158,7 @@ func newADFDesign(x []float64, d Deterministic) *adfDesign {
 
 // release returns the design's scratch slices; a must not be used again.
 func (a *adfDesign) release() {
-	for _, s := range [][]float64{a.x, a.dx, a.sum, a.wsum, a.xsum, a.xwsum, a.xsq} {
+	for _, s := range [][]float64{a.x, a.dx, a.sum, a.wsum, a.xsum, a.xwsum, a.xsq, a.search} {
 		putScratch(s)
 	}
 }
@@ -232,7 +237,7 @@ func (a *adfDesign) chooseLag(maxLag int, rule LagRule) (int, error) {
 // the design near singular (a pivot below 1e-8) it falls back to a
 // Householder QR of the design itself.
 func (a *adfDesign) tau(lags, start int) (float64, int, bool) {
-	mat, p, n := a.crossMatrix(lags, start)
+	mat, p, n := a.refitMatrix(lags, start)
 	// Move the lagged level (index terms) to the last regressor slot.
 	m := p + 1
 	order := make([]int, 0, m)
@@ -273,8 +278,59 @@ func (a *adfDesign) tau(lags, start int) (float64, int, bool) {
 // design [deterministic, level, lags 1..maxLag, Δy] on the common sample.
 func (a *adfDesign) crossProducts(maxLag int) {
 	mat, p, n := a.crossMatrix(maxLag, maxLag)
+	a.search = getScratch(len(mat))
+	copy(a.search, mat)
+	a.searchLags = maxLag
 	a.ls.factorCross(mat, p, n)
 	putScratch(mat)
+}
+
+// refitMatrix returns what crossMatrix(lags, start) returns. When the lag
+// search's matrix is at hand, the model has only a constant (the trend
+// column would change with the sample), and start lies k rows before the
+// search's sample, it takes the search matrix's rows and columns for lags
+// lags and adds the k earlier observations' products: k·m² work instead
+// of the 2·(lags+1)·n of a new matrix.
+func (a *adfDesign) refitMatrix(lags, start int) ([]float64, int, int) {
+	k := a.searchLags - start
+	p := a.terms + 1 + lags
+	m := p + 1
+	n := len(a.dx) - start
+	if a.search == nil || a.terms > 1 || k < 0 || lags > a.searchLags || k*m*m >= 2*(lags+1)*n {
+		return a.crossMatrix(lags, start)
+	}
+	ms := a.terms + 2 + a.searchLags
+	index := func(i int) int { // refit column i in the search matrix
+		if i == p {
+			return ms - 1
+		}
+		return i
+	}
+	mat := getZeroed(m * m) // the caller puts it back
+	for i := 0; i < m; i++ {
+		for j := 0; j <= i; j++ {
+			mat[i*m+j] = a.search[index(i)*ms+index(j)]
+		}
+	}
+	row := make([]float64, m)
+	for t := start; t < a.searchLags; t++ { // dx index of the added observation
+		c := 0
+		if a.terms == 1 {
+			row[c] = 1
+			c++
+		}
+		row[c] = a.x[t]
+		for j := 1; j <= lags; j++ {
+			row[c+j] = a.dx[t-j]
+		}
+		row[p] = a.dx[t]
+		for i := 0; i < m; i++ {
+			for j := 0; j <= i; j++ {
+				mat[i*m+j] += row[i] * row[j]
+			}
+		}
+	}
+	return mat, p, n
 }
 
 // crossMatrix returns the lower triangle of the cross-product matrix of the
