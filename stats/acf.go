@@ -16,7 +16,8 @@ func Autocorrelation(x []float64, maxLag int) []float64 {
 		mean += v
 	}
 	mean /= float64(n)
-	d := make([]float64, n)
+	d := getScratch(n)
+	defer putScratch(d)
 	var c0 float64
 	for i, v := range x {
 		d[i] = v - mean
@@ -26,13 +27,10 @@ func Autocorrelation(x []float64, maxLag int) []float64 {
 		return nil
 	}
 	maxLag = min(maxLag, n-1)
+	g := autocovariances(d, maxLag) // Σ_{t≥k} d_t·d_{t-k} / n
 	out := make([]float64, maxLag)
 	for k := 1; k <= maxLag; k++ {
-		s := 0.0
-		for t := k; t < n; t++ {
-			s += d[t] * d[t-k]
-		}
-		out[k-1] = s / c0
+		out[k-1] = g[k] * float64(n) / c0
 	}
 	return out
 }
