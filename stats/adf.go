@@ -101,9 +101,9 @@ type adfDesign struct {
 	d     Deterministic
 	terms int
 	ls    nestedLS
-	// sum[u] = Σ_{v<u} dx_v and wsum[u] = Σ_{v<u} v·dx_v; xsum, xwsum and
-	// xsq the same for x, x·u and x²; built on first use.
-	sum, wsum, xsum, xwsum, xsq []float64
+	// wsum[u] = Σ_{v<u} v·dx_v and xwsum[u] = Σ_{v<u} v·x_v, built on
+	// first use by a model with a trend.
+	wsum, xwsum []float64
 	// search is the lag search's cross-product matrix (before factoring)
 	// for searchLags lags on the sample from searchLags on; refitMatrix
 	// grows its corner into the chosen model's matrix.
@@ -111,23 +111,10 @@ type adfDesign struct {
 	searchLags int
 }
 
-// prefix builds the prefix sums once; the weighted ones only with a trend.
+// prefix builds, once, the prefix sums of u·Δy_u and u·x_u that the trend
+// column's products need.
 func (a *adfDesign) prefix() {
-	if a.sum != nil {
-		return
-	}
-	a.sum = getScratch(len(a.dx) + 1)
-	a.xsum = getScratch(len(a.x) + 1)
-	a.xsq = getScratch(len(a.x) + 1)
-	a.sum[0], a.xsum[0], a.xsq[0] = 0, 0, 0
-	for u, v := range a.dx {
-		a.sum[u+1] = a.sum[u] + v
-	}
-	for u, v := range a.x {
-		a.xsum[u+1] = a.xsum[u] + v
-		a.xsq[u+1] = a.xsq[u] + v*v
-	}
-	if a.terms < 2 {
+	if a.wsum != nil {
 		return
 	}
 	a.wsum = getScratch(len(a.dx) + 1)
@@ -158,7 +145,7 @@ func newADFDesign(x []float64, d Deterministic) *adfDesign {
 
 // release returns the design's scratch slices; a must not be used again.
 func (a *adfDesign) release() {
-	for _, s := range [][]float64{a.x, a.dx, a.sum, a.wsum, a.xsum, a.xwsum, a.xsq, a.search} {
+	for _, s := range [][]float64{a.x, a.dx, a.wsum, a.xwsum, a.search} {
 		putScratch(s)
 	}
 }
@@ -364,12 +351,15 @@ func (a *adfDesign) crossMatrix(lags, start int) ([]float64, int, int) {
 		}
 		mat[r*m+c] = v
 	}
-	a.prefix()
 	nf := float64(n)
 	lo, hi := start, start+n // the window of x the level column covers
 	// Products among the deterministic columns (ones, and time (r+1)/n)
-	// and the level, in closed form or from prefix sums of x, x² and u·x_u.
-	sumX := a.xsum[hi] - a.xsum[lo]
+	// and the level, in closed form, as sums over the window, or (with a
+	// trend) from prefix sums of x and u·x_u.
+	if a.terms == 2 {
+		a.prefix()
+	}
+	sumX := sum(level)
 	c := 0
 	if a.terms >= 1 {
 		set(0, 0, nf)
@@ -387,7 +377,7 @@ func (a *adfDesign) crossMatrix(lags, start int) ([]float64, int, int) {
 		// Σ_r (r+1)/n · x[lo+r] = (Σ u·x_u - (lo-1)·Σ x_u)/n over the window.
 		set(c, 1, ((a.xwsum[hi]-a.xwsum[lo])-float64(lo-1)*sumX)/nf)
 	}
-	set(c, c, a.xsq[hi]-a.xsq[lo])
+	set(c, c, dot(level, level))
 	// The level and Δy itself against every shift: two sets of lagged dot
 	// products over one window of Δy.
 	window := a.dx[start-lags : start+n]
@@ -397,17 +387,22 @@ func (a *adfDesign) crossMatrix(lags, start int) ([]float64, int, int) {
 	defer putScratch(band)
 	lagDots(level, window, levelShift)
 	lagDots(shift(0), window, band)
-	// Deterministic columns against the shifts: window sums of Δy and of
-	// u·Δy_u, O(1) each.
+	// Deterministic columns against the shifts: window sums of Δy, each
+	// from the one before (the window moves back one step per lag), and of
+	// u·Δy_u from prefix sums.
+	windowSum := sum(shift(0))
 	for l := 0; l <= lags; l++ {
 		wlo, whi := start-l, start-l+n // the window of dx that shift(l) covers
+		if l > 0 {
+			windowSum += a.dx[wlo] - a.dx[whi]
+		}
 		col := 0
 		if a.terms >= 1 {
-			set(at(l), col, a.sum[whi]-a.sum[wlo])
+			set(at(l), col, windowSum)
 			col++
 		}
 		if a.terms == 2 {
-			w := (a.wsum[whi] - a.wsum[wlo]) - float64(wlo-1)*(a.sum[whi]-a.sum[wlo])
+			w := (a.wsum[whi] - a.wsum[wlo]) - float64(wlo-1)*windowSum
 			set(at(l), col, w/nf)
 			col++
 		}

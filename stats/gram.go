@@ -46,6 +46,22 @@ func dot(a, b []float64) float64 {
 	return (s0 + s1) + (s2 + s3)
 }
 
+// sum returns Σ a_t with four running sums, as dot does.
+func sum(a []float64) float64 {
+	var s0, s1, s2, s3 float64
+	for len(a) >= 4 {
+		s0 += a[0]
+		s1 += a[1]
+		s2 += a[2]
+		s3 += a[3]
+		a = a[4:]
+	}
+	for _, v := range a {
+		s0 += v
+	}
+	return (s0 + s1) + (s2 + s3)
+}
+
 // factorCross fills q from the lower triangle of the (p+1)×(p+1)
 // cross-product matrix a of [X y] (row-major, y last) on n observations.
 // a is overwritten. It returns the smallest pivot of the regressors'
