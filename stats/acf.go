@@ -48,20 +48,18 @@ func autocorrelationAt(x []float64, lags []int) []float64 {
 		mean += v
 	}
 	mean /= float64(n)
-	var c0 float64
-	for _, v := range x {
-		c0 += (v - mean) * (v - mean)
+	d := getScratch(n)
+	defer putScratch(d)
+	for i, v := range x {
+		d[i] = v - mean
 	}
+	c0 := dot(d, d)
 	if c0 == 0 {
 		return nil
 	}
 	out := make([]float64, len(lags))
 	for i, k := range lags {
-		s := 0.0
-		for t := k; t < n; t++ {
-			s += (x[t] - mean) * (x[t-k] - mean)
-		}
-		out[i] = s / c0
+		out[i] = dot(d[k:], d[:n-k]) / c0
 	}
 	return out
 }

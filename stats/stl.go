@@ -203,8 +203,21 @@ func loessSmooth(y []float64, q int, out, w []float64) {
 	kernel := w[first-h : first+h+1]
 	dst := out[first : last+1]
 	clear(dst)
-	for j, k := range kernel {
-		src := y[first-h+j : first-h+j+len(dst)]
+	m := len(dst)
+	j := 0
+	for ; j+4 <= len(kernel); j += 4 { // four taps per pass over dst
+		k0, k1, k2, k3 := kernel[j], kernel[j+1], kernel[j+2], kernel[j+3]
+		s0 := y[first-h+j : first-h+j+m]
+		s1 := y[first-h+j+1 : first-h+j+1+m]
+		s2 := y[first-h+j+2 : first-h+j+2+m]
+		s3 := y[first-h+j+3 : first-h+j+3+m]
+		for i := range dst {
+			dst[i] += (k0*s0[i] + k1*s1[i]) + (k2*s2[i] + k3*s3[i])
+		}
+	}
+	for ; j < len(kernel); j++ {
+		k := kernel[j]
+		src := y[first-h+j : first-h+j+m]
 		for i := range dst {
 			dst[i] += k * src[i]
 		}
