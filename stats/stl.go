@@ -169,57 +169,70 @@ func loessSmooth(y []float64, q int, out, w []float64) {
 		}
 		return
 	}
+	// The window of point i starts at left(i) = min(max(0, i-half+1), n-q):
+	// it slides with the point once i reaches half, until it meets the end.
+	// For odd q it sits symmetrically around i exactly for h ≤ i ≤ n-1-h.
 	half := (q + 1) / 2
-	left, right := 0, q-1
-	first, last := -1, -1 // the stretch of points with a symmetric window
+	h := (q - 1) / 2
+	first, last := h, n-1-h
+	if q%2 == 0 || first > last {
+		first, last = n, n-1 // no symmetric stretch
+	}
 	for i := 0; i < n; i++ {
-		if i+1 > half && right != n-1 {
-			left++
-			right++
-		}
-		if i-left == right-i {
-			if first < 0 {
-				first = i
-			}
-			last = i
+		if i == first {
+			i = last
 			continue
 		}
-		v, ok := loessAt(y, q, float64(i), left, right, w)
+		left := min(max(0, i-half+1), n-q)
+		v, ok := loessAt(y, q, float64(i), left, left+q-1, w)
 		if !ok {
 			v = y[i]
 		}
 		out[i] = v
 	}
-	if first < 0 {
+	if first > last {
 		return
 	}
-	h := (q - 1) / 2
 	if _, ok := loessAt(y, q, float64(first), first-h, first+h, w); !ok {
 		for i := first; i <= last; i++ {
 			out[i] = y[i]
 		}
 		return
 	}
-	kernel := w[first-h : first+h+1]
-	dst := out[first : last+1]
-	clear(dst)
+	convolve(out[first:last+1], y[first-h:], w[first-h:first+h+1])
+}
+
+// convolve sets dst[i] = Σ_j kernel[j]·src[i+j], four taps per pass over
+// dst (then the remaining one to three in one more pass).
+func convolve(dst, src, kernel []float64) {
 	m := len(dst)
+	clear(dst)
 	j := 0
-	for ; j+4 <= len(kernel); j += 4 { // four taps per pass over dst
+	for ; j+4 <= len(kernel); j += 4 {
 		k0, k1, k2, k3 := kernel[j], kernel[j+1], kernel[j+2], kernel[j+3]
-		s0 := y[first-h+j : first-h+j+m]
-		s1 := y[first-h+j+1 : first-h+j+1+m]
-		s2 := y[first-h+j+2 : first-h+j+2+m]
-		s3 := y[first-h+j+3 : first-h+j+3+m]
+		s0, s1, s2, s3 := src[j:j+m], src[j+1:j+1+m], src[j+2:j+2+m], src[j+3:j+3+m]
 		for i := range dst {
 			dst[i] += (k0*s0[i] + k1*s1[i]) + (k2*s2[i] + k3*s3[i])
 		}
 	}
-	for ; j < len(kernel); j++ {
-		k := kernel[j]
-		src := y[first-h+j : first-h+j+m]
+	switch len(kernel) - j {
+	case 3:
+		k0, k1, k2 := kernel[j], kernel[j+1], kernel[j+2]
+		s0, s1, s2 := src[j:j+m], src[j+1:j+1+m], src[j+2:j+2+m]
 		for i := range dst {
-			dst[i] += k * src[i]
+			dst[i] += (k0*s0[i] + k1*s1[i]) + k2*s2[i]
+		}
+	case 2:
+		k0, k1 := kernel[j], kernel[j+1]
+		s0, s1 := src[j:j+m], src[j+1:j+1+m]
+		for i := range dst {
+			dst[i] += k0*s0[i] + k1*s1[i]
+		}
+	case 1:
+		k0 := kernel[j]
+		s0 := src[j : j+m]
+		for i := range dst {
+			dst[i] += k0 * s0[i]
 		}
 	}
 }
