@@ -28,12 +28,18 @@ func PrewhitenedLongRunVariance(e []float64) float64 {
 // Stability keep their level (measured: 4.6% and 5.6% at 5% on AR(1) with
 // φ = 0.5, where the kernel version gave 10%; TestStabilitySize).
 func blockAR1LongRunVariance(e []float64, m int) float64 {
-	phi, v := ar1Fit(e, m)
-	if v == nil {
+	n := len(e)
+	if n < 3 {
 		return math.NaN()
 	}
-	defer putScratch(v)
-	return autocovariance(v, 0) / ((1 - phi) * (1 - phi))
+	// The AR(1) fit needs only three sums of products: with them the
+	// residuals' sum of squares is Σe_t² - 2φ·Σe_t·e_{t-1} + φ²·Σe_{t-1}².
+	cross := dot(e[1:], e[:n-1])
+	lagged := dot(e[:n-1], e[:n-1])
+	current := lagged - e[0]*e[0] + e[n-1]*e[n-1]
+	phi := ar1Coefficient(cross, lagged, m)
+	ssv := current - 2*phi*cross + phi*phi*lagged
+	return math.Max(ssv, 0) / float64(n-1) / ((1 - phi) * (1 - phi))
 }
 
 // ar1Fit fits e_t = φ·e_{t-1} + v_t by least squares, with Kendall's bias
@@ -44,22 +50,23 @@ func ar1Fit(e []float64, m int) (float64, []float64) {
 	if len(e) < 3 {
 		return 0, nil
 	}
-	var num, den float64
-	for t := 1; t < len(e); t++ {
-		num += e[t] * e[t-1]
-		den += e[t-1] * e[t-1]
-	}
-	phi := 0.0
-	if den > 0 {
-		phi = num / den
-		if m > 3 {
-			phi = (float64(m)*phi + 1) / float64(m-3)
-		}
-		phi = math.Max(-0.97, math.Min(0.97, phi))
-	}
+	phi := ar1Coefficient(dot(e[1:], e[:len(e)-1]), dot(e[:len(e)-1], e[:len(e)-1]), m)
 	v := getScratch(len(e) - 1)
 	for t := 1; t < len(e); t++ {
 		v[t-1] = e[t] - phi*e[t-1]
 	}
 	return phi, v
+}
+
+// ar1Coefficient is ar1Fit's φ from Σe_t·e_{t-1} and Σe_{t-1}²: least
+// squares, Kendall's correction when m > 3, kept within ±0.97.
+func ar1Coefficient(cross, lagged float64, m int) float64 {
+	if !(lagged > 0) {
+		return 0
+	}
+	phi := cross / lagged
+	if m > 3 {
+		phi = (float64(m)*phi + 1) / float64(m-3)
+	}
+	return math.Max(-0.97, math.Min(0.97, phi))
 }

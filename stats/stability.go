@@ -203,21 +203,13 @@ func segmentBounds(T, k, period int) []int {
 // the block-AR(1) long-run variance of y about its segment means.
 func segmentWald(y []float64, bounds []int) (float64, float64) {
 	k := len(bounds) - 1
-	total := 0.0
-	for _, v := range y {
-		total += v
-	}
-	grand := total / float64(len(y))
+	grand := sum(y) / float64(len(y))
 	e := getScratch(len(y))
 	defer putScratch(e)
 	q := 0.0
 	for j := 0; j < k; j++ {
 		seg := y[bounds[j]:bounds[j+1]]
-		m := 0.0
-		for _, v := range seg {
-			m += v
-		}
-		m /= float64(len(seg))
+		m := sum(seg) / float64(len(seg))
 		for i, v := range seg {
 			e[bounds[j]+i] = v - m
 		}
