@@ -105,3 +105,50 @@ func TestRecipeBadInput(t *testing.T) {
 		t.Errorf("forecast outside the Box-Cox range: %v %s", out, s)
 	}
 }
+
+// TestDifferencedIsRecipeOutput: without a Box-Cox transform, the verdict's
+// Differenced equals what its recipe's Apply returns, so diagnose may test
+// it for white noise without applying the recipe again.
+func TestDifferencedIsRecipeOutput(t *testing.T) {
+	rng := rand.New(rand.NewPCG(9, 10))
+	checked, differenced := 0, 0
+	for k := 0; k < 12; k++ {
+		x := make([]float64, 300)
+		w := 0.0
+		for i := range x {
+			w += rng.NormFloat64()
+			switch k % 3 {
+			case 0:
+				x[i] = w
+			case 1:
+				x[i] = 10*math.Sin(float64(i)*2*math.Pi/7) + w
+			default:
+				x[i] = rng.NormFloat64()
+			}
+		}
+		v, err := Stationarity(x, StationarityOptions{})
+		if err != nil || !math.IsNaN(v.BoxCoxLambda) {
+			continue
+		}
+		rec := v.Recipe()
+		y, s, err := rec.Apply(x)
+		if err != nil || s != StatusOK {
+			t.Fatalf("series %d: Apply: %v %v", k, s, err)
+		}
+		if len(y) != len(v.Differenced) {
+			t.Fatalf("series %d: %d values applied, %d differenced", k, len(y), len(v.Differenced))
+		}
+		for i := range y {
+			if y[i] != v.Differenced[i] {
+				t.Fatalf("series %d, value %d: %v applied, %v differenced", k, i, y[i], v.Differenced[i])
+			}
+		}
+		checked++
+		if v.Differences+v.SeasonalDifferences > 0 {
+			differenced++
+		}
+	}
+	if checked < 8 || differenced < 4 {
+		t.Fatalf("only %d series checked, %d of them differenced", checked, differenced)
+	}
+}

@@ -50,7 +50,11 @@ type StationarityResult struct {
 	Seasonality SeasonalityResult
 	// SpreadPValue is the spread test after the recommended differencing.
 	SpreadPValue float64
-	Status       Status
+	// Differenced is the series after the recommended seasonal and plain
+	// differences, without the Box-Cox transform (so Recipe().Apply gives
+	// the same values when BoxCoxLambda is NaN). It may be the input itself.
+	Differenced []float64
+	Status      Status
 }
 
 // Recipe returns the recommended transform as a Recipe.
@@ -178,6 +182,7 @@ func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, er
 		r.SpreadPValue = spreadPValue(y, opts.Segments)
 	}
 	r.SpreadStable = !(r.SpreadPValue < each)
+	r.Differenced = y
 	if !(r.Stability.SpreadPValue >= each) && r.Stability.MeanSpreadCorrelation > 0.5 {
 		if lambda, s := GuerreroLambda(x, stabilityPeriod); s == StatusOK {
 			r.BoxCoxLambda = lambda

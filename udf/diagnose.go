@@ -119,8 +119,16 @@ func diagnoseGroup(at []int64, x []float64, opts stats.StationarityOptions, fill
 	out["ljung_box_p_value"] = nil
 	failed := v.Status != stats.StatusOK && v.Status != stats.StatusSeasonUnknown
 	if !failed {
-		recipe := v.Recipe()
-		if y, s, err := recipe.Apply(reg.Values); err == nil && s == stats.StatusOK {
+		// The series after its recommended transform: the verdict's own
+		// differences unless a Box-Cox transform comes first.
+		y, s := v.Differenced, stats.StatusOK
+		if !math.IsNaN(v.BoxCoxLambda) {
+			recipe := v.Recipe()
+			if y, s, err = recipe.Apply(reg.Values); err != nil {
+				s = stats.StatusTooShort
+			}
+		}
+		if s == stats.StatusOK {
 			if lb, err := stats.LjungBox(y, 0, 0); err == nil && lb.Status == stats.StatusOK {
 				out["ljung_box_p_value"] = lb.PValue
 			}
