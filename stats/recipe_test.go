@@ -113,19 +113,7 @@ func TestDifferencedIsRecipeOutput(t *testing.T) {
 	rng := rand.New(rand.NewPCG(9, 10))
 	checked, differenced := 0, 0
 	for k := 0; k < 12; k++ {
-		x := make([]float64, 300)
-		w := 0.0
-		for i := range x {
-			w += rng.NormFloat64()
-			switch k % 3 {
-			case 0:
-				x[i] = w
-			case 1:
-				x[i] = 10*math.Sin(float64(i)*2*math.Pi/7) + w
-			default:
-				x[i] = rng.NormFloat64()
-			}
-		}
+		x := testSeries(rng, 300, k)
 		v, err := Stationarity(x, StationarityOptions{})
 		if err != nil || !math.IsNaN(v.BoxCoxLambda) {
 			continue

@@ -288,20 +288,7 @@ func TestStationarityConcurrent(t *testing.T) {
 	rng := rand.New(rand.NewPCG(5, 6))
 	series := make([][]float64, 64)
 	for k := range series {
-		x := make([]float64, 200+10*k)
-		w := 0.0
-		for i := range x {
-			w += rng.NormFloat64()
-			switch k % 3 {
-			case 0:
-				x[i] = w
-			case 1:
-				x[i] = 10 + 3*math.Sin(float64(i)*2*math.Pi/7) + rng.NormFloat64()
-			default:
-				x[i] = 50 + float64(i)/20*rng.NormFloat64()
-			}
-		}
-		series[k] = x
+		series[k] = testSeries(rng, 200+10*k, k)
 	}
 	want := make([]string, len(series))
 	for k, x := range series {

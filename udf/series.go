@@ -112,14 +112,20 @@ func (q seriesQuery) groupsCTE() string {
 ), plumb_series AS (
     SELECT %[1]s, plumb_rows, plumb_at, plumb_raw,
            CASE
-               WHEN plumb_at_present < plumb_rows THEN
-                   error(%[5]s || 'column ' || %[6]s || ' is NULL in ' || (plumb_rows - plumb_at_present) || ' rows of group ' || %[7]s)
+               WHEN plumb_at_present < plumb_rows THEN %[9]s
                WHEN plumb_at_distinct < plumb_rows THEN
                    error(%[5]s || 'column ' || %[6]s || ' repeats a value in group ' || %[7]s || ' (' || (plumb_rows - plumb_at_distinct) || ' duplicates); each group needs one row per time point')
                ELSE plumb_raw::DOUBLE[]
            END AS plumb_value
     FROM plumb_groups
-)`, by, at, value, "", name, quoteLiteral(quoteIdent(q.at)), label, distinct)
+)`, by, at, value, "", name, quoteLiteral(quoteIdent(q.at)), label, distinct, q.nullAtError())
+}
+
+// nullAtError is the SQL expression that fails with the group's name and
+// its count of rows whose at is NULL.
+func (q seriesQuery) nullAtError() string {
+	return fmt.Sprintf(`error(%s || 'column ' || %s || ' is NULL in ' || (plumb_rows - plumb_at_present) || ' rows of group ' || %s)`,
+		quoteLiteral(q.function+": "), quoteLiteral(quoteIdent(q.at)), q.groupLabel())
 }
 
 // pointsCTE is groupsCTE for a query with points set: plumb_series holds
@@ -140,10 +146,9 @@ func (q seriesQuery) pointsCTE() string {
 ), plumb_series AS (
     SELECT %[1]s, plumb_rows, plumb_first_at, plumb_last_at,
            CASE
-               WHEN plumb_at_present < plumb_rows THEN
-                   error(%[4]s || 'column ' || %[5]s || ' is NULL in ' || (plumb_rows - plumb_at_present) || ' rows of group ' || %[6]s)
+               WHEN plumb_at_present < plumb_rows THEN %[4]s
                ELSE plumb_points
            END AS plumb_points
     FROM plumb_groups
-)`, q.byList(""), at, quoteIdent(q.value), quoteLiteral(q.function+": "), quoteLiteral(quoteIdent(q.at)), q.groupLabel())
+)`, q.byList(""), at, quoteIdent(q.value), q.nullAtError())
 }
