@@ -317,3 +317,71 @@ func TestStationarityConcurrent(t *testing.T) {
 		}
 	}
 }
+
+// TestSelectKth checks every k against sorting, and the partition around
+// it, on lengths up to 130 with values from wide to all equal, and on a
+// long series that is mostly zeros (intermittent demand).
+func TestSelectKth(t *testing.T) {
+	rng := rand.New(rand.NewPCG(33, 34))
+	check := func(x []float64) {
+		sorted := append([]float64(nil), x...)
+		sort.Float64s(sorted)
+		for k := range x {
+			s := append([]float64(nil), x...)
+			got := selectKth(s, k)
+			if got != sorted[k] || s[k] != got {
+				t.Fatalf("selectKth(%v, %d) = %v, want %v", x, k, got, sorted[k])
+			}
+			for i := range s {
+				if (i < k && s[i] > got) || (i > k && s[i] < got) {
+					t.Fatalf("selectKth(%v, %d): %v at %d is on the wrong side of %v", x, k, s[i], i, got)
+				}
+			}
+		}
+	}
+	for n := 1; n <= 130; n++ {
+		for _, distinct := range []int{1, 2, 5, 1000} {
+			x := make([]float64, n)
+			for i := range x {
+				x[i] = float64(rng.IntN(distinct))
+			}
+			check(x)
+		}
+	}
+	x := make([]float64, 2000)
+	for i := range x {
+		if rng.IntN(10) == 0 {
+			x[i] = float64(1 + rng.IntN(5))
+		}
+	}
+	for _, k := range []int{0, 1000, 1799, 1800, 1999} {
+		s := append([]float64(nil), x...)
+		sorted := append([]float64(nil), x...)
+		sort.Float64s(sorted)
+		if got := selectKth(s, k); got != sorted[k] {
+			t.Fatalf("mostly zeros, k=%d: got %v, want %v", k, got, sorted[k])
+		}
+	}
+}
+
+// BenchmarkSelectKth: the median of a fresh segment of 100 Gaussian values
+// each time, as Stability meets them (4,096 segments cycled, so that the
+// branch predictor cannot learn one).
+func BenchmarkSelectKth(b *testing.B) {
+	rng := rand.New(rand.NewPCG(1, 1))
+	const m = 4096
+	data := make([][]float64, m)
+	for i := range data {
+		data[i] = make([]float64, 100)
+		for j := range data[i] {
+			data[i][j] = rng.NormFloat64()
+		}
+	}
+	s := make([]float64, 100)
+	i := 0
+	for b.Loop() {
+		copy(s, data[i%m])
+		selectKth(s, 50)
+		i++
+	}
+}
