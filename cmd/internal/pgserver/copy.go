@@ -59,7 +59,7 @@ func (sess *session) copyOut(source string, opts copyOptions) (int64, error) {
 		}
 		sess.be.Send(&pgproto3.CopyData{Data: line(names, nil)})
 	}
-	n, err := sess.eachRow(rows, len(sh.columns), func(vals []any) {
+	n, err := sess.eachRow(rows, len(sh.columns), 0, func(vals []any) {
 		fields := make([]string, len(vals))
 		null := make([]bool, len(vals))
 		for i, v := range vals {

@@ -59,6 +59,7 @@ func (sess *session) bind(m *pgproto3.Bind) error {
 		}
 		args[i] = v
 	}
+	sess.closeCursor(sess.portals[m.DestinationPortal])
 	sess.portals[m.DestinationPortal] = &portal{stmt: p, args: args, formats: m.ResultFormatCodes}
 	sess.be.Send(&pgproto3.BindComplete{})
 	return nil
@@ -101,5 +102,21 @@ func (sess *session) execute(m *pgproto3.Execute) error {
 	if !ok {
 		return pgError{"34000", fmt.Sprintf("portal %q does not exist", m.Portal)}
 	}
+	if pt.cursor != nil || (m.MaxRows > 0 && sess.fetchable(pt.stmt)) {
+		return sess.fetch(pt, int64(m.MaxRows))
+	}
 	return sess.run(pt.stmt.sql, pt.args, pt.formats, false)
+}
+
+// fetchable reports whether a statement's rows may be fetched a few at a
+// time: one DuckDB runs and that returns rows (not a client command plumb
+// answers itself, nor COPY).
+func (sess *session) fetchable(p *prepared) bool {
+	if _, special := specialShape(p.sql); special {
+		return false
+	}
+	if copyToStdout.MatchString(p.sql) || copyFromStdin.MatchString(p.sql) {
+		return false
+	}
+	return p.shape.returnsRows()
 }

@@ -27,6 +27,7 @@ type portal struct {
 	stmt    *prepared
 	args    []any
 	formats []int16
+	cursor  *cursor // open between Execute messages with a row limit (cursor.go)
 }
 
 var beginVariant = regexp.MustCompile(`(?is)^\s*(BEGIN|START\s+TRANSACTION)\b.*$`)
@@ -113,7 +114,7 @@ func (sess *session) execute1(ctx context.Context, sql string, sh shape, args []
 		return 0, sess.wrap(ctx, err)
 	}
 	defer rows.Close()
-	n, err := sess.sendRows(rows, sh.columns, formats)
+	n, err := sess.sendRows(rows, sh.columns, formats, 0)
 	if err != nil {
 		return n, sess.wrap(ctx, err)
 	}
@@ -132,9 +133,9 @@ func (sess *session) wrap(ctx context.Context, err error) error {
 	return err
 }
 
-// sendRows streams rows as DataRow messages.
-func (sess *session) sendRows(rows *sql.Rows, cols []column, formats []int16) (int64, error) {
-	return sess.eachRow(rows, len(cols), func(vals []any) {
+// sendRows streams rows as DataRow messages, at most limit of them (0: all).
+func (sess *session) sendRows(rows *sql.Rows, cols []column, formats []int16, limit int64) (int64, error) {
+	return sess.eachRow(rows, len(cols), limit, func(vals []any) {
 		data := make([][]byte, len(cols))
 		for i, v := range vals {
 			if formatOf(formats, i) == 1 {
@@ -150,14 +151,14 @@ func (sess *session) sendRows(rows *sql.Rows, cols []column, formats []int16) (i
 // eachRow scans every row and hands its values to send, flushing the
 // connection every 256 rows so that a large result does not pile up in
 // memory (and a vanished client is noticed).
-func (sess *session) eachRow(rows *sql.Rows, n int, send func([]any)) (int64, error) {
+func (sess *session) eachRow(rows *sql.Rows, n int, limit int64, send func([]any)) (int64, error) {
 	vals := make([]any, n)
 	ptrs := make([]any, n)
 	for i := range vals {
 		ptrs[i] = &vals[i]
 	}
 	var count int64
-	for rows.Next() {
+	for (limit == 0 || count < limit) && rows.Next() {
 		if err := rows.Scan(ptrs...); err != nil {
 			return count, err
 		}
@@ -206,6 +207,7 @@ func (sess *session) track(sql string, kind duckdb.StmtType) {
 		sess.txn = 'T'
 	case "COMMIT", "END", "ROLLBACK", "ABORT":
 		sess.txn = 'I'
+		sess.dropPortals()
 	}
 }
 

@@ -54,6 +54,7 @@ func (s *Server) handle(c net.Conn) {
 	}
 	defer s.unregister(sess)
 	defer sess.db.Close()
+	defer sess.dropPortals() // before the connection: open rows would block its Close
 	sess.log = sess.log.With("user", sess.user, "pid", sess.pid)
 	sess.log.Info("connection opened")
 	err = sess.loop()
@@ -202,11 +203,15 @@ func (sess *session) loop() error {
 			if m.ObjectType == 'S' {
 				delete(sess.statements, m.Name)
 			} else {
+				sess.closeCursor(sess.portals[m.Name])
 				delete(sess.portals, m.Name)
 			}
 			sess.be.Send(&pgproto3.CloseComplete{})
 		case *pgproto3.Sync:
 			sess.skipping = false
+			if sess.txn == 'I' { // the implicit transaction ends with its portals
+				sess.dropPortals()
+			}
 			sess.be.Send(&pgproto3.ReadyForQuery{TxStatus: sess.txn})
 			if err := sess.be.Flush(); err != nil {
 				return err
@@ -258,6 +263,21 @@ func (sess *session) end() {
 	if sess.cancel != nil {
 		sess.cancel()
 	}
+	sess.cancel, sess.busy = nil, false
+	sess.mu.Unlock()
+}
+
+// markBusy registers cancel as the running statement's, as begin does, for
+// a statement whose context outlives it (a cursor's).
+func (sess *session) markBusy(cancel context.CancelFunc) {
+	sess.mu.Lock()
+	sess.cancel, sess.busy = cancel, true
+	sess.mu.Unlock()
+}
+
+// markIdle ends what markBusy began without cancelling the context.
+func (sess *session) markIdle() {
+	sess.mu.Lock()
 	sess.cancel, sess.busy = nil, false
 	sess.mu.Unlock()
 }
