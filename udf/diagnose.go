@@ -67,7 +67,7 @@ func diagnoseFunctions(t *types) []*function {
 			if err != nil {
 				return nil, err
 			}
-			q.duplicatesInGo, q.points = true, true
+			q.points = true
 			if _, err := stationarityOptions(args[4], args[5]); err != nil {
 				return nil, err
 			}

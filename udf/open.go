@@ -101,6 +101,7 @@ func allFunctions() ([]*function, error) {
 	t := &types{}
 	var all []*function
 	for _, group := range [][]*function{
+		timeAxisFunctions(t),
 		differenceFunctions(t),
 		differencedFunctions(t),
 		unitRootFunctions(t),

@@ -14,14 +14,10 @@ type seriesQuery struct {
 	by       []string // group columns, unquoted
 	at       string   // time column, unquoted
 	value    string   // value column, unquoted
-	// duplicatesInGo leaves the check for repeated at values to the Go
-	// function that receives each group's at list (duplicateAtMessage):
-	// count(DISTINCT at) costs DuckDB about a second per ten million rows.
-	duplicatesInGo bool
 	// points aggregates each group as one unordered list of (t, v) pairs,
 	// plumb_points, with plumb_first_at and plumb_last_at, instead of the
 	// ordered lists plumb_at and plumb_raw; the Go function sorts the pairs
-	// (points.sortByTime). It implies duplicatesInGo.
+	// (points.sortByTime) and reports repeated times as duplicateAt.
 	points bool
 }
 
@@ -83,7 +79,8 @@ func (q seriesQuery) inputCTE() string {
 //	              column in at order, in its own type);
 //	plumb_series: the same plus plumb_value, the values as DOUBLE[], after
 //	              checking that at is never NULL and never repeats within a
-//	              group (either is an error that names the group).
+//	              group (either is an error that names the group; repeats
+//	              are counted on the ordered list by plumb_repeats).
 //
 // The value column is cast to DOUBLE, so any numeric type works; a column
 // DuckDB cannot cast fails with DuckDB's own conversion message.
@@ -96,15 +93,10 @@ func (q seriesQuery) groupsCTE() string {
 	by := q.byList("")
 	label := q.groupLabel()
 	name := quoteLiteral(q.function + ": ")
-	distinct := fmt.Sprintf("count(DISTINCT %s)", at)
-	if q.duplicatesInGo {
-		distinct = "count(*)"
-	}
 	return q.inputCTE() + fmt.Sprintf(`, plumb_groups AS (
     SELECT %[1]s,
            count(*) AS plumb_rows,
            count(%[2]s) AS plumb_at_present,
-           %[8]s AS plumb_at_distinct,
            list(%[2]s ORDER BY %[2]s) AS plumb_at,
            list(%[3]s ORDER BY %[2]s) AS plumb_raw
     FROM plumb_input
@@ -112,13 +104,13 @@ func (q seriesQuery) groupsCTE() string {
 ), plumb_series AS (
     SELECT %[1]s, plumb_rows, plumb_at, plumb_raw,
            CASE
-               WHEN plumb_at_present < plumb_rows THEN %[9]s
-               WHEN plumb_at_distinct < plumb_rows THEN
-                   error(%[5]s || 'column ' || %[6]s || ' repeats a value in group ' || %[7]s || ' (' || (plumb_rows - plumb_at_distinct) || ' duplicates); each group needs one row per time point')
+               WHEN plumb_at_present < plumb_rows THEN %[8]s
+               WHEN plumb_repeats(plumb_at) > 0 THEN
+                   error(%[5]s || 'column ' || %[6]s || ' repeats a value in group ' || %[7]s || ' (' || plumb_repeats(plumb_at) || ' duplicates); each group needs one row per time point')
                ELSE plumb_raw::DOUBLE[]
            END AS plumb_value
     FROM plumb_groups
-)`, by, at, value, "", name, quoteLiteral(quoteIdent(q.at)), label, distinct, q.nullAtError())
+)`, by, at, value, "", name, quoteLiteral(quoteIdent(q.at)), label, q.nullAtError())
 }
 
 // nullAtError is the SQL expression that fails with the group's name and

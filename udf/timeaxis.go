@@ -6,6 +6,8 @@ import (
 	"fmt"
 	"math"
 	"time"
+
+	"github.com/duckdb/duckdb-go/v2"
 )
 
 // errNullTime is the error for a NULL in the at column: a time point
@@ -56,4 +58,32 @@ func times(v driver.Value) ([]int64, error) {
 		}
 	}
 	return out, nil
+}
+
+// timeAxisFunctions provides plumb_repeats(at_list), the number of values
+// of a sorted list of times that equal the one before: the rows that repeat
+// a time point. The table functions' group query (seriesQuery.groupsCTE)
+// fails a group with repeats; counting them here, on the list DuckDB has
+// already ordered, replaced count(DISTINCT at), which cost DuckDB about a
+// second per ten million rows.
+func timeAxisFunctions(t *types) []*function {
+	return []*function{{
+		name:     "plumb_repeats",
+		parallel: true,
+		params:   []duckdb.TypeInfo{t.anyType()},
+		result:   t.bigint(),
+		eval: func(args []driver.Value) (any, error) {
+			at, err := times(args[0])
+			if err != nil {
+				return nil, err
+			}
+			repeats := int64(0)
+			for i := 1; i < len(at); i++ {
+				if at[i] == at[i-1] {
+					repeats++
+				}
+			}
+			return repeats, nil
+		},
+	}}
 }
