@@ -64,9 +64,9 @@ func writeSeries(t *testing.T, dir string) string {
 	return path
 }
 
-// TestPsql drives Debian's psql (postgresql-client): \dt, a diagnose query
-// over the demo's shop Parquet under --data, and \copy of a query to a CSV
-// file.
+// TestPsql drives Debian's psql (postgresql-client): \dt, \d of a table
+// and \d+ of a view, a diagnose query over the demo's shop Parquet under
+// --data, and \copy of a query to a CSV file.
 func TestPsql(t *testing.T) {
 	psql := needTool(t, "psql", "postgresql-client")
 	ts := startServer(t, Config{})
@@ -75,6 +75,9 @@ func TestPsql(t *testing.T) {
 	cmd := exec.Command(psql, ts.url("ana", "s3cret"), "-X", "-v", "ON_ERROR_STOP=1",
 		"-c", "CREATE TABLE kept AS SELECT 1 AS a",
 		"-c", `\dt`,
+		"-c", "CREATE VIEW kept_view AS SELECT a FROM kept",
+		"-c", `\d kept`,
+		"-c", `\d+ kept_view`,
 		"-c", "SELECT shop, product, rank, violations FROM diagnose('"+file+"', by := ['shop', 'product'], at := 'day', value := 'units', period := 7) ORDER BY rank, shop, product",
 		"-c", `\copy (SELECT shop, product, rank, round(score, 3) AS score FROM diagnose('`+file+`', by := ['shop', 'product'], at := 'day', value := 'units', period := 7) ORDER BY shop, product) to '`+out+`' with csv header`)
 	cmd.Env = append(os.Environ(), "PGCONNECT_TIMEOUT=10")
@@ -83,7 +86,8 @@ func TestPsql(t *testing.T) {
 		t.Fatalf("psql: %v\n%s", err, got)
 	}
 	text := string(got)
-	for _, want := range []string{"kept", "| table |", "(12 rows)", "COPY 12"} {
+	for _, want := range []string{"kept", "| table |", `Table "main.kept"`, " a      | integer |", `View "main.kept_view"`,
+		"View definition:", "(12 rows)", "COPY 12"} {
 		if !strings.Contains(text, want) {
 			t.Errorf("psql output lacks %q:\n%s", want, text)
 		}

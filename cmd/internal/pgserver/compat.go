@@ -92,6 +92,9 @@ func unquote(s string) string {
 // rewrite replaces a client's catalogue query with one DuckDB answers in the
 // shape the client expects, or returns the statement unchanged.
 func rewrite(sql string) string {
+	if r := rewritePsqlDescribe(sql); r != "" {
+		return r
+	}
 	if psqlListTables.MatchString(sql) {
 		return `SELECT schema_name AS "Schema", table_name AS "Name", 'table' AS "Type", 'plumb' AS "Owner"
 			FROM duckdb_tables() WHERE NOT internal ORDER BY 1, 2`
