@@ -9,6 +9,20 @@ import (
 	"github.com/jackc/pgx/v5/pgproto3"
 )
 
+// rawFrontend starts a server with cfg and logs in by hand, for tests that
+// speak the protocol message by message.
+func rawFrontend(t *testing.T, cfg Config) (*testServer, *pgproto3.Frontend) {
+	t.Helper()
+	ts := startServer(t, cfg)
+	c, err := rawStartup(ts.addr)
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { c.Close() })
+	c.SetDeadline(time.Now().Add(20 * time.Second))
+	return ts, pgproto3.NewFrontend(c, c)
+}
+
 // exchange sends msgs, flushes, and returns what the server answers up to
 // and including ReadyForQuery, one short line per message.
 func exchange(t *testing.T, fe *pgproto3.Frontend, msgs ...pgproto3.FrontendMessage) []string {
@@ -50,14 +64,7 @@ func exchange(t *testing.T, fe *pgproto3.Frontend, msgs ...pgproto3.FrontendMess
 // Expected messages follow the PostgreSQL protocol documentation (Extended
 // Query: "Execute ... PortalSuspended"), common practice.
 func TestExecuteWithRowLimit(t *testing.T) {
-	ts := startServer(t, Config{Auth: "trust"})
-	c, err := rawStartup(ts.addr)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer c.Close()
-	c.SetDeadline(time.Now().Add(20 * time.Second))
-	fe := pgproto3.NewFrontend(c, c)
+	ts, fe := rawFrontend(t, Config{Auth: "trust"})
 	five := &pgproto3.Parse{Query: "SELECT i FROM range(5) t(i) ORDER BY i"}
 	check := func(what string, got []string, want ...string) {
 		t.Helper()
@@ -103,14 +110,7 @@ func TestExecuteWithRowLimit(t *testing.T) {
 // TestRowLimitTimeout: the statement timeout cuts short a query run for a
 // row-limited Execute too, and the session goes on.
 func TestRowLimitTimeout(t *testing.T) {
-	ts := startServer(t, Config{Auth: "trust", QueryTimeout: 500 * time.Millisecond})
-	c, err := rawStartup(ts.addr)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer c.Close()
-	c.SetDeadline(time.Now().Add(20 * time.Second))
-	fe := pgproto3.NewFrontend(c, c)
+	_, fe := rawFrontend(t, Config{Auth: "trust", QueryTimeout: 500 * time.Millisecond})
 	slow := "SELECT count(*) FROM range(1000000000) a, range(10) b WHERE a.range * b.range = -1"
 	start := time.Now()
 	got := exchange(t, fe, &pgproto3.Parse{Query: slow}, &pgproto3.Bind{}, &pgproto3.Execute{MaxRows: 1}, &pgproto3.Sync{})
