@@ -35,7 +35,7 @@ type Regular struct {
 // Regularize puts the observations x at strictly increasing times at on
 // the grid of their usual step, filling missing points and missing values
 // by method. It is an error for at and x to differ in length or for at not
-// to increase. With FillNone the values are returned as they are.
+// to increase. Values is x itself (not a copy) when nothing is filled.
 func Regularize(at []int64, x []float64, method FillMethod) (Regular, error) {
 	switch method {
 	case "", FillNone, FillLinear, FillPrevious:
@@ -52,7 +52,7 @@ func Regularize(at []int64, x []float64, method FillMethod) (Regular, error) {
 		}
 	}
 	if len(at) < 2 {
-		r.Values = append([]float64(nil), x...)
+		r.Values = x
 		return r, nil
 	}
 	// The common case first: every step the same.
@@ -63,8 +63,9 @@ func Regularize(at []int64, x []float64, method FillMethod) (Regular, error) {
 	}
 	if regular {
 		r.Step = first
-		r.Values = append([]float64(nil), x...)
+		r.Values = x
 		if r.Missing > 0 && method != "" && method != FillNone {
+			r.Values = append([]float64(nil), x...)
 			fillGrid(r.Values, method)
 		}
 		return r, nil
@@ -97,7 +98,7 @@ func Regularize(at []int64, x []float64, method FillMethod) (Regular, error) {
 		r.Gaps += int(d/r.Step) - 1
 	}
 	if method == "" || method == FillNone {
-		r.Values = append([]float64(nil), x...)
+		r.Values = x
 		return r, nil
 	}
 	// Place each observation on the grid (rounding irregular times to the

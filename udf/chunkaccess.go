@@ -160,29 +160,52 @@ func valid(mask unsafe.Pointer, i uint64) bool {
 	return word&(1<<(i%64)) != 0
 }
 
+// listBuffers are one worker's reusable slices for a list column, for a
+// function whose result never holds on to its arguments (function.reuse).
+type listBuffers struct {
+	floats []float64
+	times  []int64
+}
+
 // value returns row's list, or nil for a NULL list. It only reads DuckDB's
 // memory, so workers may call it concurrently while the chunk is alive.
-func (r *listColumn) value(row int) (driver.Value, error) {
+// With b, the list is written into b's slices (grown as needed) instead of
+// new ones.
+func (r *listColumn) value(row int, b *listBuffers) (driver.Value, error) {
 	if !valid(r.rows, uint64(row)) {
 		return nil, nil
 	}
 	e := r.entries[row]
+	var fdst []float64
+	var tdst []int64
+	if b != nil {
+		if uint64(cap(b.floats)) < e.length {
+			b.floats = make([]float64, e.length)
+		}
+		if uint64(cap(b.times)) < e.length {
+			b.times = make([]int64, e.length)
+		}
+		fdst, tdst = b.floats[:e.length], b.times[:e.length]
+	}
 	if r.values != nil {
-		at, err := r.elements.times(e)
+		at, err := r.elements.times(e, tdst)
 		if err != nil {
 			return nil, err
 		}
-		return points{at: at, values: r.values.floats(e)}, nil
+		return points{at: at, values: r.values.floats(e, fdst)}, nil
 	}
 	if r.elements.kind == mapping.TypeDouble {
-		return r.elements.floats(e), nil
+		return r.elements.floats(e, fdst), nil
 	}
-	return r.elements.times(e)
+	return r.elements.times(e, tdst)
 }
 
-// floats reads e's elements of a DOUBLE vector, NULL as NaN.
-func (c *childVector) floats(e listEntry) []float64 {
-	out := make([]float64, e.length)
+// floats reads e's elements of a DOUBLE vector, NULL as NaN, into out (a
+// new slice when out is nil).
+func (c *childVector) floats(e listEntry, out []float64) []float64 {
+	if out == nil {
+		out = make([]float64, e.length)
+	}
 	copy(out, elements[float64](c.data, e))
 	if c.valid != nil {
 		for i := range out {
@@ -194,8 +217,9 @@ func (c *childVector) floats(e listEntry) []float64 {
 	return out
 }
 
-// times reads e's elements of a time or integer vector as int64.
-func (c *childVector) times(e listEntry) ([]int64, error) {
+// times reads e's elements of a time or integer vector as int64 into out
+// (a new slice when out is nil).
+func (c *childVector) times(e listEntry, out []int64) ([]int64, error) {
 	if c.valid != nil {
 		for i := uint64(0); i < e.length; i++ {
 			if !valid(c.valid, e.offset+i) {
@@ -203,7 +227,9 @@ func (c *childVector) times(e listEntry) ([]int64, error) {
 			}
 		}
 	}
-	out := make([]int64, e.length)
+	if out == nil {
+		out = make([]int64, e.length)
+	}
 	switch c.kind {
 	case mapping.TypeDate, mapping.TypeInteger:
 		widen(out, elements[int32](c.data, e))

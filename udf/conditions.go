@@ -26,6 +26,7 @@ func conditionFunctions(t *types) []*function {
 		{
 			name:     "plumb_stability",
 			parallel: true,
+			reuse:    true,
 			params:   []duckdb.TypeInfo{t.doubles(), t.bigint()},
 			result:   stabilityType(t),
 			nullable: true,
@@ -44,6 +45,7 @@ func conditionFunctions(t *types) []*function {
 		{
 			name:     "plumb_seasonality",
 			parallel: true,
+			reuse:    true,
 			params:   []duckdb.TypeInfo{t.doubles(), t.bigint()},
 			result:   seasonalityType(t),
 			nullable: true,
@@ -249,6 +251,7 @@ func stationarityFunctions(t *types) []*function {
 	return []*function{{
 		name:     "plumb_stationarity",
 		parallel: true,
+		reuse:    true,
 		params:   []duckdb.TypeInfo{t.doubles(), t.bigint(), t.double()},
 		result:   t.structOf(verdictFields(t)...),
 		nullable: true,

@@ -31,6 +31,7 @@ func diagnoseFunctions(t *types) []*function {
 	return []*function{{
 		name:     "plumb_diagnose",
 		parallel: true,
+		reuse:    true, // the result is a STRUCT of numbers and text
 		params:   []duckdb.TypeInfo{t.anyType(), t.bigint(), t.double(), t.varchar()},
 		result:   t.structOf(fields...),
 		nullable: true,

@@ -28,7 +28,11 @@ type function struct {
 	// heavy per-group functions spread a chunk's rows over the cores
 	// themselves.
 	parallel bool
-	eval     func(args []driver.Value) (any, error)
+	// reuse lets each worker read list arguments into slices it reuses from
+	// row to row (executeDirect): for functions whose result holds no slice
+	// of their arguments, such as those returning a STRUCT of numbers.
+	reuse bool
+	eval  func(args []driver.Value) (any, error)
 }
 
 func (f *function) Config() duckdb.ScalarFuncConfig {
@@ -76,11 +80,15 @@ func (f *function) executeDirect(state *duckdb.ChunkIteratorState) error {
 	}
 	results := make([]any, n)
 	skip := make([]bool, n)
-	evalRow := func(row int, args []driver.Value) error {
+	evalRow := func(row int, args []driver.Value, bufs []listBuffers) error {
 		for c := range args {
 			var err error
 			if lists[c] != nil {
-				args[c], err = lists[c].value(row)
+				var b *listBuffers
+				if f.reuse {
+					b = &bufs[c]
+				}
+				args[c], err = lists[c].value(row, b)
 			} else {
 				args[c], err = in.GetValue(c, row)
 			}
@@ -108,12 +116,13 @@ func (f *function) executeDirect(state *duckdb.ChunkIteratorState) error {
 		go func() {
 			defer wg.Done()
 			args := make([]driver.Value, len(lists))
+			bufs := make([]listBuffers, len(lists))
 			for failed.Load() == nil {
 				row := int(next.Add(1)) - 1
 				if row >= n {
 					return
 				}
-				if err := evalRow(row, args); err != nil {
+				if err := evalRow(row, args, bufs); err != nil {
 					failed.CompareAndSwap(nil, &err)
 				}
 			}

@@ -37,6 +37,7 @@ func unitRootFunctions(t *types) []*function {
 	return []*function{{
 		name:     "plumb_unit_root",
 		parallel: true,
+		reuse:    true,
 		params:   []duckdb.TypeInfo{t.doubles(), t.varchar(), t.varchar(), t.bigint(), t.varchar()},
 		result:   result,
 		nullable: true,
