@@ -152,9 +152,13 @@ func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, er
 		if err != nil {
 			return r, err
 		}
-		kpss, err := KPSS(y, KPSSOptions{})
-		if err != nil {
-			return r, err
+		// KPSS is reported for the first step; after that it is computed
+		// only when it decides (ADF's p-value between α/4 and α).
+		kpss := UnitRootResult{Status: StatusOK, PValue: math.NaN()}
+		if r.Differences == 0 || (adf.PValue >= alpha/4 && adf.PValue < alpha) {
+			if kpss, err = KPSS(y, KPSSOptions{}); err != nil {
+				return r, err
+			}
 		}
 		if r.Differences == 0 {
 			r.ADF, r.KPSS = adf, kpss
