@@ -121,9 +121,11 @@ func stability(x []float64, opts StabilityOptions, full bool) (StabilityResult, 
 	for j := 0; j < k; j++ {
 		seg := xs[bounds[j]:bounds[j+1]]
 		means[j], sds[j] = meanSD(seg)
-		med := median(seg)
+		zs := z[bounds[j]:bounds[j+1]] // the median is found in place, then overwritten
+		copy(zs, seg)
+		med := medianInPlace(zs)
 		for i, v := range seg {
-			z[bounds[j]+i] = math.Abs(v - med)
+			zs[i] = math.Abs(v - med)
 		}
 	}
 	r.MeanStatistic, r.MeanPValue = segmentWald(xs, bounds)
@@ -166,9 +168,11 @@ func spreadPValue(x []float64, segments int) float64 {
 	defer putScratch(z)
 	for j := 0; j+1 < len(bounds); j++ {
 		seg := x[bounds[j]:bounds[j+1]]
-		med := median(seg)
+		zs := z[bounds[j]:bounds[j+1]] // the median is found in place, then overwritten
+		copy(zs, seg)
+		med := medianInPlace(zs)
 		for i, v := range seg {
-			z[bounds[j]+i] = math.Abs(v - med)
+			zs[i] = math.Abs(v - med)
 		}
 	}
 	_, p := segmentWald(z, bounds)
@@ -401,6 +405,11 @@ func median(x []float64) float64 {
 	s := getScratch(len(x))
 	defer putScratch(s)
 	copy(s, x)
+	return medianInPlace(s)
+}
+
+// medianInPlace returns the median of s, reordering s.
+func medianInPlace(s []float64) float64 {
 	n := len(s)
 	if n%2 == 1 {
 		return selectKth(s, n/2)
