@@ -59,6 +59,19 @@ func diagnoseFunctions(t *types) []*function {
 			return diagnoseGroup(p.at, p.values, opts, fill)
 		},
 	}, {
+		// plumb_q_values(p DOUBLE[]) -> DOUBLE[]: Benjamini-Hochberg
+		// q-values of a list of p-values, NULL for NULL.
+		name:   "plumb_q_values",
+		params: []duckdb.TypeInfo{t.doubles()},
+		result: t.doubles(),
+		eval: func(args []driver.Value) (any, error) {
+			p, err := floats(args[0])
+			if err != nil {
+				return nil, err
+			}
+			return listOrNull(stats.BenjaminiHochberg(p)), nil
+		},
+	}, {
 		name:     "plumb_diagnose_sql",
 		params:   []duckdb.TypeInfo{t.varchar(), t.anyType(), t.varchar(), t.varchar(), t.bigint(), t.double(), t.varchar()},
 		result:   t.varchar(),
@@ -172,35 +185,34 @@ func diagnoseSQL(q seriesQuery, period, alpha, fill string) string {
 		picks[i] = fmt.Sprintf("plumb_d.%s AS %s", f, f)
 	}
 	picks[0] = q.duplicateAtCheck("plumb_d.status") + " AS status"
-	var raw, qs []string
+	// The q-values come from one list per test, in the groups' row order,
+	// adjusted in Go (plumb_q_values), unnested beside their positions and
+	// joined back: ten window sorts that carried every column took about
+	// 0.1 s at 10,000 groups, single-threaded.
+	var lists, qs []string
 	for _, test := range diagnoseTests {
-		p := test + "_p_value"
-		raw = append(raw, fmt.Sprintf(`%[1]s * count(%[1]s) OVER () / row_number() OVER (PARTITION BY %[1]s IS NULL ORDER BY %[1]s) AS plumb_%[2]s_raw,
-           row_number() OVER (PARTITION BY %[1]s IS NULL ORDER BY %[1]s) AS plumb_%[2]s_i`, p, test))
-		qs = append(qs, fmt.Sprintf(`least(1, min(plumb_%[1]s_raw) OVER (PARTITION BY %[2]s IS NULL ORDER BY %[2]s DESC, plumb_%[1]s_i DESC
-               ROWS BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW)) AS %[1]s_q_value`, test, p))
-	}
-	var exclude []string
-	for _, test := range diagnoseTests {
-		exclude = append(exclude, "plumb_"+test+"_raw", "plumb_"+test+"_i")
+		lists = append(lists, fmt.Sprintf("plumb_q_values(list(%[1]s_p_value ORDER BY plumb_row)) AS %[1]s", test))
+		qs = append(qs, fmt.Sprintf("unnest(%[1]s) AS %[1]s_q_value", test))
 	}
 	return fmt.Sprintf(`WITH %[1]s, plumb_judged AS MATERIALIZED (
     SELECT %[2]s, plumb_rows AS n, plumb_first_at AS first_at, plumb_last_at AS last_at,
            plumb_diagnose(plumb_points, %[3]s, %[4]s, %[5]s) AS plumb_d
     FROM plumb_series
-), plumb_flat AS (
-    SELECT %[2]s, n, first_at, last_at, %[6]s
+), plumb_flat AS MATERIALIZED (
+    SELECT %[2]s, n, first_at, last_at, %[6]s, row_number() OVER () AS plumb_row
     FROM plumb_judged
-), plumb_raw AS (
-    SELECT *, %[7]s
+), plumb_lists AS (
+    SELECT count(*) AS plumb_count, %[7]s
     FROM plumb_flat
+), plumb_q AS (
+    SELECT unnest(range(1, plumb_count + 1)) AS plumb_row, %[8]s
+    FROM plumb_lists
 )
-SELECT * EXCLUDE (%[8]s), %[9]s,
+SELECT plumb_flat.* EXCLUDE (plumb_row), plumb_q.* EXCLUDE (plumb_row),
        rank() OVER (ORDER BY score DESC NULLS LAST) AS rank
-FROM plumb_raw
+FROM plumb_flat JOIN plumb_q USING (plumb_row)
 ORDER BY rank, %[2]s`, q.groupsCTE(), by, period, alpha, fill,
-		strings.Join(picks, ", "), strings.Join(raw, ",\n           "),
-		strings.Join(exclude, ", "), strings.Join(qs, ",\n       "))
+		strings.Join(picks, ", "), strings.Join(lists, ",\n           "), strings.Join(qs, ",\n       "))
 }
 
 const diagnoseMacro = `
