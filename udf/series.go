@@ -93,14 +93,21 @@ func (q seriesQuery) groupsCTE() string {
 	by := q.byList("")
 	label := q.groupLabel()
 	name := quoteLiteral(q.function + ": ")
-	return q.inputCTE() + fmt.Sprintf(`, plumb_groups AS (
+	// One unordered list of (at, value) pairs, sorted afterwards, rather
+	// than two lists ordered by at: the same on a file sorted by group and
+	// time, and three to four times faster on one ordered by time.
+	return q.inputCTE() + fmt.Sprintf(`, plumb_pairs AS (
     SELECT %[1]s,
            count(*) AS plumb_rows,
            count(%[2]s) AS plumb_at_present,
-           list(%[2]s ORDER BY %[2]s) AS plumb_at,
-           list(%[3]s ORDER BY %[2]s) AS plumb_raw
+           list_sort(list(struct_pack(t := %[2]s, v := %[3]s))) AS plumb_sorted
     FROM plumb_input
     GROUP BY %[1]s
+), plumb_groups AS (
+    SELECT %[1]s, plumb_rows, plumb_at_present,
+           [p.t FOR p IN plumb_sorted] AS plumb_at,
+           [p.v FOR p IN plumb_sorted] AS plumb_raw
+    FROM plumb_pairs
 ), plumb_series AS (
     SELECT %[1]s, plumb_rows, plumb_at, plumb_raw,
            CASE
