@@ -2,6 +2,7 @@ package udf
 
 import (
 	"database/sql"
+	"database/sql/driver"
 	"fmt"
 	"strings"
 	"testing"
@@ -101,4 +102,12 @@ func TestDirectReadingNullTime(t *testing.T) {
 		}
 	}
 	forceIterator = false
+}
+
+// TestEvalSafely: a panic inside a function becomes that query's error.
+func TestEvalSafely(t *testing.T) {
+	f := &function{name: "plumb_boom", eval: func([]driver.Value) (any, error) { panic("boom") }}
+	if _, err := f.evalSafely(nil); err == nil || !strings.Contains(err.Error(), "boom") {
+		t.Fatalf("got %v", err)
+	}
 }

@@ -63,6 +63,18 @@ func (f *function) Executor() duckdb.ScalarFuncExecutor {
 	}
 }
 
+// evalSafely calls eval and turns a panic into an error, so that a bug
+// met by one row fails that query rather than the whole process (plumb
+// serve answers other clients from the same process).
+func (f *function) evalSafely(args []driver.Value) (v any, err error) {
+	defer func() {
+		if r := recover(); r != nil {
+			err = fmt.Errorf("internal error, please report it: %v", r)
+		}
+	}()
+	return f.eval(args)
+}
+
 // forceIterator makes every function use duckdb-go's boxed iterator; tests
 // set it to compare the two ways of reading a chunk.
 var forceIterator bool
@@ -100,7 +112,7 @@ func (f *function) executeDirect(state *duckdb.ChunkIteratorState) error {
 				return nil
 			}
 		}
-		v, err := f.eval(args)
+		v, err := f.evalSafely(args)
 		results[row] = v
 		return err
 	}
@@ -154,7 +166,7 @@ func (f *function) executeRows(chunk *duckdb.ChunkIteratorState) error {
 		for i := range args {
 			args[i] = *row.GetValuePtr(i)
 		}
-		v, err := f.eval(args)
+		v, err := f.evalSafely(args)
 		if err != nil {
 			return fmt.Errorf("%s: %w", f.name, err)
 		}
@@ -183,7 +195,7 @@ func (f *function) executeParallel(chunk *duckdb.ChunkIteratorState) error {
 		go func() {
 			defer wg.Done()
 			for i := range jobs {
-				results[i], errs[i] = f.eval(args[i])
+				results[i], errs[i] = f.evalSafely(args[i])
 				args[i] = nil
 				close(done[i])
 			}
