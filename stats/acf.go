@@ -11,18 +11,8 @@ func Autocorrelation(x []float64, maxLag int) []float64 {
 	if n < 2 || maxLag < 1 {
 		return nil
 	}
-	mean := 0.0
-	for _, v := range x {
-		mean += v
-	}
-	mean /= float64(n)
-	d := getScratch(n)
+	d, c0 := centered(x)
 	defer putScratch(d)
-	var c0 float64
-	for i, v := range x {
-		d[i] = v - mean
-		c0 += d[i] * d[i]
-	}
 	if c0 == 0 {
 		return nil
 	}
@@ -43,17 +33,8 @@ func autocorrelationAt(x []float64, lags []int) []float64 {
 	if n < 2 || len(lags) == 0 {
 		return nil
 	}
-	mean := 0.0
-	for _, v := range x {
-		mean += v
-	}
-	mean /= float64(n)
-	d := getScratch(n)
+	d, c0 := centered(x)
 	defer putScratch(d)
-	for i, v := range x {
-		d[i] = v - mean
-	}
-	c0 := dot(d, d)
 	if c0 == 0 {
 		return nil
 	}
@@ -62,4 +43,15 @@ func autocorrelationAt(x []float64, lags []int) []float64 {
 		out[i] = dot(d[k:], d[:n-k]) / c0
 	}
 	return out
+}
+
+// centered returns x minus its mean, in a scratch slice the caller puts
+// back, and the sum of its squares.
+func centered(x []float64) ([]float64, float64) {
+	mean := sum(x) / float64(len(x))
+	d := getScratch(len(x))
+	for i, v := range x {
+		d[i] = v - mean
+	}
+	return d, dot(d, d)
 }
