@@ -47,8 +47,9 @@ func dump(t *testing.T, db *sql.DB, q string) []string {
 // arguments read from DuckDB's vectors (executeDirect) and through
 // duckdb-go's boxed iterator, and requires identical results: for every
 // kind of at column, values with NULLs, rows stored out of time order,
-// groups spread over several chunks, and a literal list that DuckDB passes
-// as a constant vector.
+// groups spread over several chunks, a literal list that DuckDB passes as a
+// constant vector, and list results with NULL elements, NULL lists and
+// empty lists.
 func TestDirectReadingMatchesIterator(t *testing.T) {
 	db := openTest(t)
 	exec(t, db, `CREATE TEMP TABLE obs AS
@@ -71,6 +72,13 @@ func TestDirectReadingMatchesIterator(t *testing.T) {
 		`SELECT * FROM diagnose('obs', by := 'g', at := 'si', value := 'v') ORDER BY g`,
 		`SELECT g, unit_root(list(v ORDER BY i)), stability(list(v ORDER BY i)) FROM obs GROUP BY g ORDER BY g`,
 		`SELECT difference([1, 4, 9, 16]), unit_root([1, 3, 2, 5, 4, 6, 5, 8, 7, 9, 8, 11, 10, 12]) FROM range(3000)`,
+		// List results, written straight into DuckDB's vectors on the direct path.
+		`SELECT g, difference(list(v ORDER BY i)), difference(list(v ORDER BY i), lag := 7, times := 2),
+		        undifference(difference(list(v ORDER BY i)), [1.5])
+		 FROM obs GROUP BY g ORDER BY g`,
+		`SELECT g, box_cox(list(v ORDER BY i), 0.5), inverse_box_cox(list(v ORDER BY i), 0.5) FROM obs GROUP BY g ORDER BY g`,
+		`SELECT i, difference(CASE WHEN i % 3 = 0 THEN NULL WHEN i % 3 = 1 THEN []::DOUBLE[] ELSE [i, i * 2, NULL, i * 4] END)
+		 FROM range(3000) r(i) ORDER BY i`,
 	}
 	for _, q := range queries {
 		forceIterator = false

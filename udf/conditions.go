@@ -102,7 +102,7 @@ func conditionFunctions(t *types) []*function {
 				if status != stats.StatusOK {
 					return nil, nil // documented: NULL when a value is ≤ 0 or missing
 				}
-				return listOrNull(y), nil
+				return doubleList(y), nil
 			},
 		},
 		{
@@ -116,7 +116,7 @@ func conditionFunctions(t *types) []*function {
 				}
 				lambda, _ := floatOr(args[1], "lambda", 0)
 				x, _ := stats.InverseBoxCox(y, lambda)
-				return listOrNull(x), nil // values outside the transform's range are NULL
+				return doubleList(x), nil // values outside the transform's range are NULL
 			},
 		},
 		{

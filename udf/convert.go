@@ -31,6 +31,19 @@ func floats(v driver.Value) ([]float64, error) {
 	return out, nil
 }
 
+// doubleList is a LIST(DOUBLE) result with NaN standing for NULL.
+// executeDirect writes a chunk of them straight into DuckDB's vectors; the
+// other paths hand them to duckdb-go as listOrNull does.
+type doubleList []float64
+
+// resultValue turns a doubleList into what duckdb-go's setter takes.
+func resultValue(v any) any {
+	if l, ok := v.(doubleList); ok {
+		return listOrNull(l)
+	}
+	return v
+}
+
 // listOrNull returns x as a DuckDB list with NaN written as NULL, so that a
 // missing input never reaches the user as a NaN that aggregates would absorb.
 func listOrNull(x []float64) []any {

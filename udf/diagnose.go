@@ -69,7 +69,7 @@ func diagnoseFunctions(t *types) []*function {
 			if err != nil {
 				return nil, err
 			}
-			return listOrNull(stats.BenjaminiHochberg(p)), nil
+			return doubleList(stats.BenjaminiHochberg(p)), nil
 		},
 	}, {
 		name:     "plumb_diagnose_sql",

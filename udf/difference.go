@@ -34,7 +34,7 @@ func differenceFunctions(t *types) []*function {
 			if err != nil {
 				return nil, err
 			}
-			return listOrNull(d), nil
+			return doubleList(d), nil
 		},
 	}, {
 		name:   "plumb_undifference",
@@ -57,7 +57,7 @@ func differenceFunctions(t *types) []*function {
 			if err != nil {
 				return nil, err
 			}
-			return listOrNull(y), nil
+			return doubleList(y), nil
 		},
 	}}
 }

@@ -144,12 +144,16 @@ func (f *function) executeDirect(state *duckdb.ChunkIteratorState) error {
 	if err := failed.Load(); err != nil {
 		return fmt.Errorf("%s: %w", f.name, *err)
 	}
+	if out, ok := doubleListVector(state); ok && allDoubleLists(results, skip) {
+		writeDoubleLists(out, results, skip)
+		return nil
+	}
 	for row := range n {
 		if skip[row] {
 			continue
 		}
 		moveTo(state, row)
-		if err := state.SetResult(results[row]); err != nil {
+		if err := state.SetResult(resultValue(results[row])); err != nil {
 			return fmt.Errorf("%s: %w", f.name, err)
 		}
 	}
@@ -170,7 +174,7 @@ func (f *function) executeRows(chunk *duckdb.ChunkIteratorState) error {
 		if err != nil {
 			return fmt.Errorf("%s: %w", f.name, err)
 		}
-		if err := row.SetResult(v); err != nil {
+		if err := row.SetResult(resultValue(v)); err != nil {
 			return fmt.Errorf("%s: %w", f.name, err)
 		}
 	}
@@ -231,7 +235,7 @@ func (f *function) executeParallel(chunk *duckdb.ChunkIteratorState) error {
 		if err != nil {
 			return err
 		}
-		if err := row.SetResult(results[i]); err != nil {
+		if err := row.SetResult(resultValue(results[i])); err != nil {
 			return fmt.Errorf("%s: %w", f.name, err)
 		}
 		i++
