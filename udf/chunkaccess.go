@@ -26,7 +26,8 @@ import (
 // found once by reflection and checked by name and type. If a later
 // duckdb-go renames or retypes either, chunkAccess.ok is false and every
 // function runs on the boxed iterator instead, which gives the same values
-// (udf tests run both paths).
+// (udf tests run both paths). LIST(DOUBLE) results are written the same way
+// through a third field, the result vector's C handle (writeDoubleLists).
 var chunkAccess = findChunkAccess()
 
 type chunkLayout struct {

@@ -8,11 +8,14 @@ import (
 	"testing"
 )
 
-// TestChunkAccessLayout fails when an upgrade of duckdb-go moves the two
+// TestChunkAccessLayout fails when an upgrade of duckdb-go moves the
 // fields chunkaccess.go reads, so that the fallback never goes unnoticed.
 func TestChunkAccessLayout(t *testing.T) {
 	if !chunkAccess.ok {
 		t.Fatal("duckdb-go's DataChunk or ChunkIteratorState changed: list arguments are boxed again (see chunkaccess.go)")
+	}
+	if !chunkAccess.resultOK {
+		t.Fatal("duckdb-go's Vector changed: list results are boxed again (see chunkaccess.go)")
 	}
 }
 
