@@ -26,8 +26,8 @@ import (
 // found once by reflection and checked by name and type. If a later
 // duckdb-go renames or retypes either, chunkAccess.ok is false and every
 // function runs on the boxed iterator instead, which gives the same values
-// (udf tests run both paths). LIST(DOUBLE) results are written the same way
-// through a third field, the result vector's C handle (writeDoubleLists).
+// (udf tests run both paths). Results are written the same way through a
+// third field, the result vector's C handle (resultwriter.go).
 var chunkAccess = findChunkAccess()
 
 type chunkLayout struct {
@@ -65,9 +65,8 @@ func findChunkAccess() chunkLayout {
 	return layout
 }
 
-// doubleListVector returns the C handle of the chunk's result vector when
-// it is a LIST(DOUBLE) that writeDoubleLists may fill.
-func doubleListVector(state *duckdb.ChunkIteratorState) (mapping.Vector, bool) {
+// resultVector returns the C handle of the chunk's result vector.
+func resultVector(state *duckdb.ChunkIteratorState) (mapping.Vector, bool) {
 	if !chunkAccess.resultOK {
 		return mapping.Vector{}, false
 	}
@@ -76,81 +75,7 @@ func doubleListVector(state *duckdb.ChunkIteratorState) (mapping.Vector, bool) {
 	if p == nil {
 		return mapping.Vector{}, false
 	}
-	out := *(*mapping.Vector)(unsafe.Add(p, chunkAccess.resultHandle))
-	lt := mapping.VectorGetColumnType(out)
-	defer mapping.DestroyLogicalType(&lt)
-	if mapping.GetTypeId(lt) != mapping.TypeList {
-		return mapping.Vector{}, false
-	}
-	ct := mapping.ListTypeChildType(lt)
-	defer mapping.DestroyLogicalType(&ct)
-	return out, mapping.GetTypeId(ct) == mapping.TypeDouble
-}
-
-// allDoubleLists reports whether every result to write is a doubleList or
-// NULL.
-func allDoubleLists(results []any, skip []bool) bool {
-	for i, r := range results {
-		if _, ok := r.(doubleList); !ok && r != nil && !skip[i] {
-			return false
-		}
-	}
-	return true
-}
-
-// writeDoubleLists writes a chunk's results into its LIST(DOUBLE) result
-// vector: one reservation of the child vector for all rows, the values
-// copied in, NaN marked NULL. Rows to skip get an empty entry and are left
-// to duckdb-go, which marks them NULL after the callback; nil results are
-// NULL lists. It replaces duckdb-go's setter, which boxes every element.
-func writeDoubleLists(out mapping.Vector, results []any, skip []bool) {
-	base := uint64(mapping.ListVectorGetSize(out))
-	total := base
-	for i, r := range results {
-		if l, ok := r.(doubleList); ok && !skip[i] {
-			total += uint64(len(l))
-		}
-	}
-	mapping.ListVectorReserve(out, mapping.IdxT(total))
-	mapping.ListVectorSetSize(out, mapping.IdxT(total))
-	child := mapping.ListVectorGetChild(out)
-	mapping.VectorEnsureValidityWritable(child)
-	childValid := mapping.VectorGetValidity(child)
-	var data []float64
-	if total > 0 {
-		data = unsafe.Slice((*float64)(mapping.VectorGetData(child)), total)
-	}
-	mapping.VectorEnsureValidityWritable(out)
-	rowsValid := mapping.VectorGetValidity(out)
-	entries := unsafe.Slice((*listEntry)(mapping.VectorGetData(out)), len(results))
-	at := base
-	for i, r := range results {
-		l, ok := r.(doubleList)
-		if !ok || skip[i] {
-			entries[i] = listEntry{offset: at}
-			if !skip[i] {
-				setValid(rowsValid, uint64(i), false)
-			}
-			continue
-		}
-		setValid(rowsValid, uint64(i), true)
-		entries[i] = listEntry{offset: at, length: uint64(len(l))}
-		copy(data[at:], l)
-		for j, v := range l {
-			setValid(childValid, at+uint64(j), !math.IsNaN(v))
-		}
-		at += uint64(len(l))
-	}
-}
-
-// setValid sets bit i of a writable DuckDB validity mask.
-func setValid(mask unsafe.Pointer, i uint64, ok bool) {
-	word := (*uint64)(unsafe.Add(mask, (i/64)*8))
-	if ok {
-		*word |= 1 << (i % 64)
-	} else {
-		*word &^= 1 << (i % 64)
-	}
+	return *(*mapping.Vector)(unsafe.Add(p, chunkAccess.resultHandle)), true
 }
 
 // rawChunk returns the C handle of a DataChunk.

@@ -61,7 +61,7 @@ func TestDirectReadingMatchesIterator(t *testing.T) {
 		       TIMESTAMP '2024-01-01' + INTERVAL 1 HOUR * i AS ts,
 		       (TIMESTAMP '2024-01-01' + INTERVAL 1 HOUR * i)::TIMESTAMP_NS AS tns,
 		       (TIMESTAMP '2024-01-01' + INTERVAL 1 HOUR * i)::TIMESTAMP_S AS tsec,
-		       CASE WHEN (g + i) % 37 = 0 THEN NULL
+		       CASE WHEN (g + i) % 37 = 0 AND g % 4 = 0 THEN NULL
 		            WHEN g % 2 = 0 THEN sin(i * 0.9) * 3 + hash(g, i) % 100 / 50.0
 		            ELSE (hash(g, i) % 100) / 25.0 + i * 0.01 * (g % 5) END AS v
 		FROM range(2500) AS gs(g), range(60) AS r(i)
@@ -73,7 +73,8 @@ func TestDirectReadingMatchesIterator(t *testing.T) {
 		`SELECT * FROM diagnose('obs', by := 'g', at := 'tsec', value := 'v', period := 7) ORDER BY g`,
 		`SELECT * FROM diagnose('obs', by := 'g', at := 'i', value := 'v') ORDER BY g`,
 		`SELECT * FROM diagnose('obs', by := 'g', at := 'si', value := 'v') ORDER BY g`,
-		`SELECT g, unit_root(list(v ORDER BY i)), stability(list(v ORDER BY i)) FROM obs GROUP BY g ORDER BY g`,
+		`SELECT g, unit_root(list(v ORDER BY i)), stability(list(v ORDER BY i)), seasonality(list(v ORDER BY i)),
+		        stationarity(list(v ORDER BY i)), white_noise(list(v ORDER BY i)) FROM obs GROUP BY g ORDER BY g`,
 		`SELECT difference([1, 4, 9, 16]), unit_root([1, 3, 2, 5, 4, 6, 5, 8, 7, 9, 8, 11, 10, 12]) FROM range(3000)`,
 		// List results, written straight into DuckDB's vectors on the direct path.
 		`SELECT g, difference(list(v ORDER BY i)), difference(list(v ORDER BY i), lag := 7, times := 2),
@@ -82,6 +83,10 @@ func TestDirectReadingMatchesIterator(t *testing.T) {
 		`SELECT g, box_cox(list(v ORDER BY i), 0.5), inverse_box_cox(list(v ORDER BY i), 0.5) FROM obs GROUP BY g ORDER BY g`,
 		`SELECT i, difference(CASE WHEN i % 3 = 0 THEN NULL WHEN i % 3 = 1 THEN []::DOUBLE[] ELSE [i, i * 2, NULL, i * 4] END)
 		 FROM range(3000) r(i) ORDER BY i`,
+		// STRUCT results holding lists, text and numbers.
+		`SELECT * FROM stationarize('obs', by := 'g', at := 'd', value := 'v') ORDER BY g, d`,
+		`SELECT * FROM stationarize_recipes('obs', by := 'g', at := 'd', value := 'v') ORDER BY g`,
+		`SELECT * FROM rolling_dispersion('obs', by := 'g', at := 'd', value := 'v', width := 5) ORDER BY g, d`,
 	}
 	for _, q := range queries {
 		forceIterator = false

@@ -31,15 +31,24 @@ func floats(v driver.Value) ([]float64, error) {
 	return out, nil
 }
 
-// doubleList is a LIST(DOUBLE) result with NaN standing for NULL.
-// executeDirect writes a chunk of them straight into DuckDB's vectors; the
-// other paths hand them to duckdb-go as listOrNull does.
+// doubleList is a LIST(DOUBLE) result with NaN standing for NULL, alone or
+// as a member of a STRUCT result. executeDirect writes them straight into
+// DuckDB's vectors (resultwriter.go); the other paths hand them to
+// duckdb-go as listOrNull does.
 type doubleList []float64
 
-// resultValue turns a doubleList into what duckdb-go's setter takes.
+// resultValue turns doubleLists, also inside a STRUCT's map, into what
+// duckdb-go's setter takes.
 func resultValue(v any) any {
-	if l, ok := v.(doubleList); ok {
-		return listOrNull(l)
+	switch x := v.(type) {
+	case doubleList:
+		return listOrNull(x)
+	case map[string]any:
+		for k, m := range x {
+			if l, ok := m.(doubleList); ok {
+				x[k] = listOrNull(l)
+			}
+		}
 	}
 	return v
 }

@@ -144,8 +144,7 @@ func (f *function) executeDirect(state *duckdb.ChunkIteratorState) error {
 	if err := failed.Load(); err != nil {
 		return fmt.Errorf("%s: %w", f.name, *err)
 	}
-	if out, ok := doubleListVector(state); ok && allDoubleLists(results, skip) {
-		writeDoubleLists(out, results, skip)
+	if out, ok := resultVector(state); ok && writeResults(out, results, skip) {
 		return nil
 	}
 	for row := range n {

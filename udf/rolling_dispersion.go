@@ -29,8 +29,8 @@ func rollingDispersionFunctions(t *types) []*function {
 				return nil, err
 			}
 			return map[string]any{
-				"mean": listOrNull(r.Mean), "sd": listOrNull(r.SD), "mean_ratio": listOrNull(r.MeanRatio),
-				"sd_ratio": listOrNull(r.SDRatio), "mean_deviation": listOrNull(r.MeanDeviation),
+				"mean": doubleList(r.Mean), "sd": doubleList(r.SD), "mean_ratio": doubleList(r.MeanRatio),
+				"sd_ratio": doubleList(r.SDRatio), "mean_deviation": doubleList(r.MeanDeviation),
 			}, nil
 		},
 	}, {

@@ -131,7 +131,7 @@ func stationarizeGroup(x []float64, opts stats.StationarityOptions) (any, error)
 	for i := 0; i < recipe.Lost(); i++ {
 		padded = append(padded, math.NaN())
 	}
-	out["values"] = listOrNull(append(padded, y...))
+	out["values"] = doubleList(append(padded, y...))
 	if recipe.BoxCox {
 		out["box_cox_lambda"] = recipe.Lambda
 	}
@@ -145,12 +145,11 @@ func stationarizeGroup(x []float64, opts stats.StationarityOptions) (any, error)
 	return out, nil
 }
 
-func flatten(parts [][]float64) []any {
-	out := []any{}
+// flatten joins the recipe's anchors, one slice per pass, into one list.
+func flatten(parts [][]float64) doubleList {
+	out := doubleList{}
 	for _, p := range parts {
-		for _, v := range p {
-			out = append(out, v)
-		}
+		out = append(out, p...)
 	}
 	return out
 }

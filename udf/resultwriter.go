@@ -1,0 +1,331 @@
+package udf
+
+import (
+	"math"
+	"unsafe"
+
+	"github.com/duckdb/duckdb-go/v2/mapping"
+)
+
+// Writing a chunk's results straight into DuckDB's result vector.
+//
+// duckdb-go's setter boxes every element of a list result, so a function
+// returning a thousand values per group paid for a thousand boxes. When the
+// result type is made of the kinds below, executeDirect writes the whole
+// chunk here instead: DOUBLE, BIGINT, BOOLEAN and VARCHAR values, a
+// LIST(DOUBLE) given as a doubleList (NaN for NULL), a LIST(VARCHAR) given
+// as a []any of strings, and a STRUCT of those given as a map[string]any. Every result is checked first; if one has
+// another Go type, nothing is written and the chunk goes through
+// duckdb-go's setter as before.
+
+// columnWriter writes one column (or a struct member) of a chunk.
+type columnWriter interface {
+	// accepts reports whether write can store v (nil is NULL).
+	accepts(v any) bool
+	// count sees every value before begin (lists count their elements).
+	count(v any)
+	// begin reserves space and fetches the vector's memory.
+	begin(rows int)
+	write(row int, v any)
+	// null marks row NULL.
+	null(row int)
+}
+
+// newColumnWriter returns a writer for vec of logical type lt, or false
+// for a type it does not write.
+func newColumnWriter(vec mapping.Vector, lt mapping.LogicalType) (columnWriter, bool) {
+	switch mapping.GetTypeId(lt) {
+	case mapping.TypeDouble:
+		return &primitiveWriter[float64]{vec: vec}, true
+	case mapping.TypeBigInt:
+		return &primitiveWriter[int64]{vec: vec}, true
+	case mapping.TypeBoolean:
+		return &primitiveWriter[bool]{vec: vec}, true
+	case mapping.TypeVarchar:
+		return &textWriter{vec: vec}, true
+	case mapping.TypeList:
+		ct := mapping.ListTypeChildType(lt)
+		defer mapping.DestroyLogicalType(&ct)
+		switch mapping.GetTypeId(ct) {
+		case mapping.TypeDouble:
+			return &doubleListWriter{vec: vec}, true
+		case mapping.TypeVarchar:
+			return &textListWriter{vec: vec}, true
+		}
+		return nil, false
+	case mapping.TypeStruct:
+		w := &structWriter{vec: vec}
+		for i := 0; i < int(mapping.StructTypeChildCount(lt)); i++ {
+			ct := mapping.StructTypeChildType(lt, mapping.IdxT(i))
+			child, ok := newColumnWriter(mapping.StructVectorGetChild(vec, mapping.IdxT(i)), ct)
+			mapping.DestroyLogicalType(&ct)
+			if !ok {
+				return nil, false
+			}
+			w.names = append(w.names, mapping.StructTypeChildName(lt, mapping.IdxT(i)))
+			w.fields = append(w.fields, child)
+		}
+		return w, true
+	}
+	return nil, false
+}
+
+// writeResults writes results into out unless a type does not fit; rows
+// to skip are left to duckdb-go, which marks them NULL afterwards.
+func writeResults(out mapping.Vector, results []any, skip []bool) bool {
+	lt := mapping.VectorGetColumnType(out)
+	w, ok := newColumnWriter(out, lt)
+	mapping.DestroyLogicalType(&lt)
+	if !ok {
+		return false
+	}
+	for i, r := range results {
+		if !skip[i] && !w.accepts(r) {
+			return false
+		}
+	}
+	for i, r := range results {
+		if !skip[i] {
+			w.count(r)
+		}
+	}
+	w.begin(len(results))
+	for i, r := range results {
+		if !skip[i] {
+			w.write(i, r)
+		}
+	}
+	return true
+}
+
+// validity is a writable DuckDB validity mask.
+type validity struct{ mask unsafe.Pointer }
+
+func writableValidity(vec mapping.Vector) validity {
+	mapping.VectorEnsureValidityWritable(vec)
+	return validity{mapping.VectorGetValidity(vec)}
+}
+
+// set marks bit i valid or NULL.
+func (m validity) set(i uint64, ok bool) {
+	word := (*uint64)(unsafe.Add(m.mask, (i/64)*8))
+	if ok {
+		*word |= 1 << (i % 64)
+	} else {
+		*word &^= 1 << (i % 64)
+	}
+}
+
+type primitiveWriter[T float64 | int64 | bool] struct {
+	vec   mapping.Vector
+	data  []T
+	valid validity
+}
+
+func (w *primitiveWriter[T]) accepts(v any) bool {
+	_, ok := v.(T)
+	return ok || v == nil
+}
+func (w *primitiveWriter[T]) count(any) {}
+func (w *primitiveWriter[T]) begin(rows int) {
+	w.data = unsafe.Slice((*T)(mapping.VectorGetData(w.vec)), rows)
+	w.valid = writableValidity(w.vec)
+}
+func (w *primitiveWriter[T]) write(row int, v any) {
+	x, ok := v.(T)
+	if !ok {
+		w.null(row)
+		return
+	}
+	w.data[row] = x
+	w.valid.set(uint64(row), true)
+}
+func (w *primitiveWriter[T]) null(row int) { w.valid.set(uint64(row), false) }
+
+type textWriter struct {
+	vec   mapping.Vector
+	valid validity
+}
+
+func (w *textWriter) accepts(v any) bool {
+	_, ok := v.(string)
+	return ok || v == nil
+}
+func (w *textWriter) count(any)      {}
+func (w *textWriter) begin(rows int) { w.valid = writableValidity(w.vec) }
+func (w *textWriter) write(row int, v any) {
+	s, ok := v.(string)
+	if !ok {
+		w.null(row)
+		return
+	}
+	mapping.VectorAssignStringElement(w.vec, mapping.IdxT(row), s)
+	w.valid.set(uint64(row), true)
+}
+func (w *textWriter) null(row int) { w.valid.set(uint64(row), false) }
+
+// doubleListWriter reserves the child vector once for the whole chunk.
+type doubleListWriter struct {
+	vec            mapping.Vector
+	total, at      uint64
+	entries        []listEntry
+	data           []float64
+	valid, element validity
+}
+
+func (w *doubleListWriter) accepts(v any) bool {
+	_, ok := v.(doubleList)
+	return ok || v == nil
+}
+func (w *doubleListWriter) count(v any) {
+	if l, ok := v.(doubleList); ok {
+		w.total += uint64(len(l))
+	}
+}
+func (w *doubleListWriter) begin(rows int) {
+	w.at = uint64(mapping.ListVectorGetSize(w.vec))
+	size := w.at + w.total
+	mapping.ListVectorReserve(w.vec, mapping.IdxT(size))
+	mapping.ListVectorSetSize(w.vec, mapping.IdxT(size))
+	child := mapping.ListVectorGetChild(w.vec)
+	if size > 0 {
+		w.data = unsafe.Slice((*float64)(mapping.VectorGetData(child)), size)
+	}
+	w.element = writableValidity(child)
+	w.valid = writableValidity(w.vec)
+	w.entries = unsafe.Slice((*listEntry)(mapping.VectorGetData(w.vec)), rows)
+}
+func (w *doubleListWriter) write(row int, v any) {
+	l, ok := v.(doubleList)
+	if !ok {
+		w.null(row)
+		return
+	}
+	w.entries[row] = listEntry{offset: w.at, length: uint64(len(l))}
+	copy(w.data[w.at:], l)
+	for j, x := range l {
+		w.element.set(w.at+uint64(j), !math.IsNaN(x))
+	}
+	w.at += uint64(len(l))
+	w.valid.set(uint64(row), true)
+}
+func (w *doubleListWriter) null(row int) {
+	w.entries[row] = listEntry{offset: w.at}
+	w.valid.set(uint64(row), false)
+}
+
+// textListWriter writes a LIST(VARCHAR) given as a []any of strings (the
+// violations of a verdict).
+type textListWriter struct {
+	vec       mapping.Vector
+	child     mapping.Vector
+	total, at uint64
+	entries   []listEntry
+	valid     validity
+	element   validity
+}
+
+func (w *textListWriter) accepts(v any) bool {
+	if v == nil {
+		return true
+	}
+	l, ok := v.([]any)
+	if !ok {
+		return false
+	}
+	for _, e := range l {
+		if _, ok := e.(string); !ok {
+			return false
+		}
+	}
+	return true
+}
+func (w *textListWriter) count(v any) {
+	if l, ok := v.([]any); ok {
+		w.total += uint64(len(l))
+	}
+}
+func (w *textListWriter) begin(rows int) {
+	w.at = uint64(mapping.ListVectorGetSize(w.vec))
+	size := w.at + w.total
+	mapping.ListVectorReserve(w.vec, mapping.IdxT(size))
+	mapping.ListVectorSetSize(w.vec, mapping.IdxT(size))
+	w.child = mapping.ListVectorGetChild(w.vec)
+	w.element = writableValidity(w.child)
+	w.valid = writableValidity(w.vec)
+	w.entries = unsafe.Slice((*listEntry)(mapping.VectorGetData(w.vec)), rows)
+}
+func (w *textListWriter) write(row int, v any) {
+	l, ok := v.([]any)
+	if !ok {
+		w.null(row)
+		return
+	}
+	w.entries[row] = listEntry{offset: w.at, length: uint64(len(l))}
+	for _, e := range l {
+		mapping.VectorAssignStringElement(w.child, mapping.IdxT(w.at), e.(string))
+		w.element.set(w.at, true)
+		w.at++
+	}
+	w.valid.set(uint64(row), true)
+}
+func (w *textListWriter) null(row int) {
+	w.entries[row] = listEntry{offset: w.at}
+	w.valid.set(uint64(row), false)
+}
+
+// structWriter writes a map[string]any member by member; a NULL struct has
+// NULL members too, as duckdb-go writes it.
+type structWriter struct {
+	vec    mapping.Vector
+	names  []string
+	fields []columnWriter
+	valid  validity
+}
+
+func (w *structWriter) accepts(v any) bool {
+	if v == nil {
+		return true
+	}
+	m, ok := v.(map[string]any)
+	if !ok {
+		return false
+	}
+	for i, name := range w.names {
+		x, ok := m[name]
+		if !ok || !w.fields[i].accepts(x) {
+			return false
+		}
+	}
+	return true
+}
+func (w *structWriter) count(v any) {
+	if m, ok := v.(map[string]any); ok {
+		for i, name := range w.names {
+			w.fields[i].count(m[name])
+		}
+	}
+}
+func (w *structWriter) begin(rows int) {
+	w.valid = writableValidity(w.vec)
+	for _, f := range w.fields {
+		f.begin(rows)
+	}
+}
+func (w *structWriter) write(row int, v any) {
+	m, ok := v.(map[string]any)
+	if !ok {
+		w.null(row)
+		return
+	}
+	for i, name := range w.names {
+		w.fields[i].write(row, m[name])
+	}
+	w.valid.set(uint64(row), true)
+}
+func (w *structWriter) null(row int) {
+	for _, f := range w.fields {
+		f.null(row)
+	}
+	w.valid.set(uint64(row), false)
+}
