@@ -71,7 +71,8 @@ func newColumnWriter(vec mapping.Vector, lt mapping.LogicalType) (columnWriter, 
 }
 
 // writeResults writes results into out unless a type does not fit; rows
-// to skip are left to duckdb-go, which marks them NULL afterwards.
+// to skip (a NULL argument of a function without special NULL handling)
+// are written NULL.
 func writeResults(out mapping.Vector, results []any, skip []bool) bool {
 	lt := mapping.VectorGetColumnType(out)
 	w, ok := newColumnWriter(out, lt)
@@ -91,9 +92,11 @@ func writeResults(out mapping.Vector, results []any, skip []bool) bool {
 	}
 	w.begin(len(results))
 	for i, r := range results {
-		if !skip[i] {
-			w.write(i, r)
+		if skip[i] {
+			w.null(i) // duckdb-go marks it NULL too; this leaves no stale list entry
+			continue
 		}
+		w.write(i, r)
 	}
 	return true
 }
