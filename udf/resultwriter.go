@@ -48,9 +48,9 @@ func newColumnWriter(vec mapping.Vector, lt mapping.LogicalType) (columnWriter, 
 		defer mapping.DestroyLogicalType(&ct)
 		switch mapping.GetTypeId(ct) {
 		case mapping.TypeDouble:
-			return &doubleListWriter{vec: vec}, true
+			return &doubleListWriter{listRows: listRows{vec: vec}}, true
 		case mapping.TypeVarchar:
-			return &textListWriter{vec: vec}, true
+			return &textListWriter{listRows: listRows{vec: vec}}, true
 		}
 		return nil, false
 	case mapping.TypeStruct:
@@ -167,13 +167,46 @@ func (w *textWriter) write(row int, v any) {
 }
 func (w *textWriter) null(row int) { w.valid.set(uint64(row), false) }
 
-// doubleListWriter reserves the child vector once for the whole chunk.
+// listRows is what the list writers share: the rows' entries and validity,
+// and the child vector, reserved once for the whole chunk.
+type listRows struct {
+	vec       mapping.Vector
+	total, at uint64
+	entries   []listEntry
+	valid     validity
+}
+
+// reserve makes room for total elements after those already in the child
+// vector and returns the child vector.
+func (w *listRows) reserve(rows int) mapping.Vector {
+	w.at = uint64(mapping.ListVectorGetSize(w.vec))
+	size := w.at + w.total
+	mapping.ListVectorReserve(w.vec, mapping.IdxT(size))
+	mapping.ListVectorSetSize(w.vec, mapping.IdxT(size))
+	w.valid = writableValidity(w.vec)
+	w.entries = unsafe.Slice((*listEntry)(mapping.VectorGetData(w.vec)), rows)
+	return mapping.ListVectorGetChild(w.vec)
+}
+
+// take gives row the next n elements and returns the first one's index.
+func (w *listRows) take(row, n int) uint64 {
+	first := w.at
+	w.entries[row] = listEntry{offset: first, length: uint64(n)}
+	w.valid.set(uint64(row), true)
+	w.at += uint64(n)
+	return first
+}
+
+func (w *listRows) null(row int) {
+	w.entries[row] = listEntry{offset: w.at}
+	w.valid.set(uint64(row), false)
+}
+
+// doubleListWriter writes a LIST(DOUBLE) given as a doubleList.
 type doubleListWriter struct {
-	vec            mapping.Vector
-	total, at      uint64
-	entries        []listEntry
-	data           []float64
-	valid, element validity
+	listRows
+	data    []float64
+	element validity
 }
 
 func (w *doubleListWriter) accepts(v any) bool {
@@ -186,17 +219,11 @@ func (w *doubleListWriter) count(v any) {
 	}
 }
 func (w *doubleListWriter) begin(rows int) {
-	w.at = uint64(mapping.ListVectorGetSize(w.vec))
-	size := w.at + w.total
-	mapping.ListVectorReserve(w.vec, mapping.IdxT(size))
-	mapping.ListVectorSetSize(w.vec, mapping.IdxT(size))
-	child := mapping.ListVectorGetChild(w.vec)
-	if size > 0 {
+	child := w.reserve(rows)
+	if size := w.at + w.total; size > 0 {
 		w.data = unsafe.Slice((*float64)(mapping.VectorGetData(child)), size)
 	}
 	w.element = writableValidity(child)
-	w.valid = writableValidity(w.vec)
-	w.entries = unsafe.Slice((*listEntry)(mapping.VectorGetData(w.vec)), rows)
 }
 func (w *doubleListWriter) write(row int, v any) {
 	l, ok := v.(doubleList)
@@ -204,28 +231,19 @@ func (w *doubleListWriter) write(row int, v any) {
 		w.null(row)
 		return
 	}
-	w.entries[row] = listEntry{offset: w.at, length: uint64(len(l))}
-	copy(w.data[w.at:], l)
+	first := w.take(row, len(l))
+	copy(w.data[first:], l)
 	for j, x := range l {
-		w.element.set(w.at+uint64(j), !math.IsNaN(x))
+		w.element.set(first+uint64(j), !math.IsNaN(x))
 	}
-	w.at += uint64(len(l))
-	w.valid.set(uint64(row), true)
-}
-func (w *doubleListWriter) null(row int) {
-	w.entries[row] = listEntry{offset: w.at}
-	w.valid.set(uint64(row), false)
 }
 
 // textListWriter writes a LIST(VARCHAR) given as a []any of strings (the
 // violations of a verdict).
 type textListWriter struct {
-	vec       mapping.Vector
-	child     mapping.Vector
-	total, at uint64
-	entries   []listEntry
-	valid     validity
-	element   validity
+	listRows
+	child   mapping.Vector
+	element validity
 }
 
 func (w *textListWriter) accepts(v any) bool {
@@ -249,14 +267,8 @@ func (w *textListWriter) count(v any) {
 	}
 }
 func (w *textListWriter) begin(rows int) {
-	w.at = uint64(mapping.ListVectorGetSize(w.vec))
-	size := w.at + w.total
-	mapping.ListVectorReserve(w.vec, mapping.IdxT(size))
-	mapping.ListVectorSetSize(w.vec, mapping.IdxT(size))
-	w.child = mapping.ListVectorGetChild(w.vec)
+	w.child = w.reserve(rows)
 	w.element = writableValidity(w.child)
-	w.valid = writableValidity(w.vec)
-	w.entries = unsafe.Slice((*listEntry)(mapping.VectorGetData(w.vec)), rows)
 }
 func (w *textListWriter) write(row int, v any) {
 	l, ok := v.([]any)
@@ -264,17 +276,11 @@ func (w *textListWriter) write(row int, v any) {
 		w.null(row)
 		return
 	}
-	w.entries[row] = listEntry{offset: w.at, length: uint64(len(l))}
-	for _, e := range l {
-		mapping.VectorAssignStringElement(w.child, mapping.IdxT(w.at), e.(string))
-		w.element.set(w.at, true)
-		w.at++
+	first := w.take(row, len(l))
+	for j, e := range l {
+		mapping.VectorAssignStringElement(w.child, mapping.IdxT(first+uint64(j)), e.(string))
+		w.element.set(first+uint64(j), true)
 	}
-	w.valid.set(uint64(row), true)
-}
-func (w *textListWriter) null(row int) {
-	w.entries[row] = listEntry{offset: w.at}
-	w.valid.set(uint64(row), false)
 }
 
 // structWriter writes a map[string]any member by member; a NULL struct has
