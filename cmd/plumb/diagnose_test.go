@@ -14,17 +14,9 @@ import (
 // demoFiles writes the demo Parquet files to a temporary folder.
 func demoFiles(t *testing.T) string {
 	t.Helper()
-	sets, err := demodata.Generate(1, demodata.Sizes{Shops: 3, Products: 4, Days: 200, Containers: 2, Hours: 200})
-	if err != nil {
-		t.Fatal(err)
-	}
-	db, err := udf.Open(context.Background(), udf.Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer db.Close()
 	dir := t.TempDir()
-	if _, err := demodata.Write(context.Background(), db, dir, sets); err != nil {
+	sizes := demodata.Sizes{Shops: 3, Products: 4, Days: 200, Containers: 2, Hours: 200}
+	if _, err := demodata.WriteFiles(context.Background(), dir, 1, sizes); err != nil {
 		t.Fatal(err)
 	}
 	return dir

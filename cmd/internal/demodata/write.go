@@ -10,6 +10,8 @@ import (
 	"time"
 
 	"github.com/duckdb/duckdb-go/v2"
+
+	"github.com/plumb-sql/plumb/udf"
 )
 
 // Files are the Parquet files written for one dataset.
@@ -121,4 +123,20 @@ func appendAll(ds Dataset, whole bool, data, truth *duckdb.Appender) error {
 		}
 	}
 	return nil
+}
+
+// WriteFiles generates the demo scenario for seed and sizes and writes its
+// Parquet files to dir through a database of its own, for callers that
+// need only the files.
+func WriteFiles(ctx context.Context, dir string, seed uint64, sizes Sizes) (map[string]Files, error) {
+	sets, err := Generate(seed, sizes)
+	if err != nil {
+		return nil, err
+	}
+	db, err := udf.Open(ctx, udf.Options{})
+	if err != nil {
+		return nil, err
+	}
+	defer db.Close()
+	return Write(ctx, db, dir, sets)
 }

@@ -30,16 +30,7 @@ func needTool(t *testing.T, name, pkg string) string {
 // of its shop Parquet file (3 shops × 4 product lines × 200 days).
 func writeDemoShops(t *testing.T, dir string) string {
 	t.Helper()
-	sets, err := demodata.Generate(1, demodata.Sizes{Shops: 3, Products: 4, Days: 200})
-	if err != nil {
-		t.Fatal(err)
-	}
-	db, err := udf.Open(context.Background(), udf.Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer db.Close()
-	files, err := demodata.Write(context.Background(), db, dir, sets)
+	files, err := demodata.WriteFiles(context.Background(), dir, 1, demodata.Sizes{Shops: 3, Products: 4, Days: 200})
 	if err != nil {
 		t.Fatal(err)
 	}
