@@ -145,10 +145,19 @@ type StationarityResult struct {
 	// extremes counts values the outlier rule flags when they are too
 	// many (more than max(5, n/50)) to set aside as isolated outliers.
 	extremes int
+	// clean is the series the verdict judged: the input with its isolated
+	// outliers replaced (the input itself when there are none).
+	clean []float64
 	// fixedFailed: OCSB called the pattern fixed, but subtracting fixed
 	// means did not cure the series and a seasonal difference did.
 	fixedFailed bool
 }
+
+// Judged returns the series the verdict judged: the input with its
+// isolated outliers replaced by their robust fit (the input itself when it
+// has none; nil when the verdict could not judge it). A model is best
+// fitted to it, while the recipe is applied to the series as it came.
+func (r StationarityResult) Judged() []float64 { return r.clean }
 
 // Recipe returns the recommended transform (without anchors: Apply it).
 func (r StationarityResult) Recipe() Recipe {
@@ -281,6 +290,7 @@ func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, er
 		v.checkCure(clean, j, alpha, opts.Segments)
 		return v
 	}
+	base.clean = clean
 	r = finish(j)
 	// A fixed pattern whose means leave the output failing while a seasonal
 	// difference cures it was drifting after all.

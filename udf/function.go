@@ -245,10 +245,29 @@ func (f *function) executeParallel(chunk *duckdb.ChunkIteratorState) error {
 // register registers every function on the database behind conn. Scalar
 // functions live in DuckDB's catalog, so one registration serves every
 // connection of the database.
+//
+// Functions that share a name are registered as one overloaded set, DuckDB
+// choosing the one whose parameter types fit (plumb_advance has one per
+// type of time column).
 func register(conn *sql.Conn, functions []*function) error {
+	var names []string
+	byName := map[string][]duckdb.ScalarFunc{}
 	for _, f := range functions {
-		if err := duckdb.RegisterScalarUDF(conn, f.name, f); err != nil {
-			return fmt.Errorf("udf: register %s: %w", f.name, err)
+		if _, ok := byName[f.name]; !ok {
+			names = append(names, f.name)
+		}
+		byName[f.name] = append(byName[f.name], f)
+	}
+	for _, name := range names {
+		set := byName[name]
+		var err error
+		if len(set) == 1 {
+			err = duckdb.RegisterScalarUDF(conn, name, set[0])
+		} else {
+			err = duckdb.RegisterScalarUDFSet(conn, name, set...)
+		}
+		if err != nil {
+			return fmt.Errorf("udf: register %s: %w", name, err)
 		}
 	}
 	return nil

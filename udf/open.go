@@ -111,6 +111,7 @@ func allFunctions() ([]*function, error) {
 		diagnoseFunctions(t),
 		rollingDispersionFunctions(t),
 		stationarizeFunctions(t),
+		forecastFunctions(t),
 	} {
 		all = append(all, group...)
 	}
@@ -127,6 +128,7 @@ var macros = strings.Join([]string{
 	diagnoseMacro,
 	rollingDispersionMacro,
 	stationarizeMacros,
+	forecastMacros,
 }, "\n")
 
 // createMacros creates plumb's TEMP macros on one connection.

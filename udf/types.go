@@ -23,6 +23,10 @@ func (t *types) bigint() duckdb.TypeInfo  { return t.of(duckdb.TYPE_BIGINT) }
 func (t *types) varchar() duckdb.TypeInfo { return t.of(duckdb.TYPE_VARCHAR) }
 func (t *types) boolean() duckdb.TypeInfo { return t.of(duckdb.TYPE_BOOLEAN) }
 func (t *types) anyType() duckdb.TypeInfo { return t.of(duckdb.TYPE_ANY) }
+func (t *types) date() duckdb.TypeInfo    { return t.of(duckdb.TYPE_DATE) }
+func (t *types) timestamp() duckdb.TypeInfo {
+	return t.of(duckdb.TYPE_TIMESTAMP)
+}
 
 func (t *types) list(child duckdb.TypeInfo) duckdb.TypeInfo {
 	info, err := duckdb.NewListInfo(child)

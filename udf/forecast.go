@@ -1,0 +1,362 @@
+package udf
+
+import (
+	"database/sql/driver"
+	"fmt"
+	"math"
+	"time"
+
+	"github.com/duckdb/duckdb-go/v2"
+
+	"github.com/plumb-sql/plumb/stats"
+)
+
+// forecastFunctions provides two table functions that forecast every group
+// through its own recipe (stats.ForecastByRecipe):
+//
+//	forecast(source, by, at, value, horizon := 14, coverage := 0.95, period := NULL,
+//	         alpha := 0.05, fill := 'none', holdout := 0, bias_adjust := false)
+//	    one row per group and step: the group columns, at (continuing each
+//	    group's own step, in the at column's type), step (1..horizon),
+//	    forecast, lower, upper (the central prediction interval of the given
+//	    coverage) and status. With holdout := k the last k values of each
+//	    group are held out: the recipe and the model come from the rest, the
+//	    rows forecast the held-out stretch, and actual holds its values.
+//	forecast_models(same arguments)
+//	    one row per group: the recipe and the autoregression behind the
+//	    forecasts (order, constant, coefficients, residual variance, the
+//	    Ljung-Box p-value of its residuals), and with holdout := k the mean
+//	    absolute scaled error and the share of held-out values inside the
+//	    intervals.
+func forecastFunctions(t *types) []*function {
+	d := t.double()
+	fields := []field{
+		{"status", t.varchar()}, {"reason", t.varchar()},
+		{"offsets", t.doubles()}, {"forecast", t.doubles()}, {"lower", t.doubles()}, {"upper", t.doubles()},
+		{"actual", t.doubles()},
+		{"mean_cause", t.varchar()}, {"seasonal_kind", t.varchar()}, {"period", t.bigint()},
+		{"box_cox_lambda", d}, {"seasonal_differences", t.bigint()}, {"differences", t.bigint()},
+		{"ar_order", t.bigint()}, {"ar_constant", d}, {"ar_coefficients", t.doubles()},
+		{"residual_variance", d}, {"nobs", t.bigint()}, {"aic", d}, {"ljung_box_p_value", d},
+		{"mase", d}, {"interval_coverage", d},
+	}
+	funcs := []*function{{
+		name:     "plumb_forecast",
+		parallel: true,
+		params: []duckdb.TypeInfo{t.anyType(), t.bigint(), d, t.bigint(), d, t.varchar(), t.bigint(),
+			t.boolean()},
+		result:   t.structOf(fields...),
+		nullable: true,
+		eval: func(args []driver.Value) (any, error) {
+			if args[0] == nil {
+				return nil, nil
+			}
+			p, err := pointsOf(args[0])
+			if err != nil {
+				return nil, err
+			}
+			o, err := readForecastOptions(args[1:])
+			if err != nil {
+				return nil, err
+			}
+			p.sortByTime()
+			return forecastGroup(p.at, p.values, o)
+		},
+	}, {
+		name:     "plumb_forecast_sql",
+		params:   []duckdb.TypeInfo{t.varchar(), t.anyType(), t.varchar(), t.varchar(), t.bigint(), d, t.bigint(), d, t.varchar(), t.bigint(), t.boolean(), t.boolean()},
+		result:   t.varchar(),
+		nullable: true,
+		eval: func(args []driver.Value) (any, error) {
+			q, err := readSeriesQuery("forecast", args[:4])
+			if err != nil {
+				return nil, err
+			}
+			q.points = true
+			if _, err := readForecastOptions(args[4:11]); err != nil {
+				return nil, err
+			}
+			literals := make([]string, 7)
+			for i, a := range args[4:11] {
+				literals[i] = forecastLiteral(a)
+			}
+			models, _ := args[11].(bool)
+			return forecastSQL(q, literals, models), nil
+		},
+	}}
+	// plumb_advance(at, offset, k) = at + k·offset, offset in plumb's
+	// internal units (microseconds for a DATE or TIMESTAMP, the number for
+	// an integer): one overload per kind of time column, so that the
+	// forecasts' at has the source's own type.
+	advance := func(at duckdb.TypeInfo, f func(at driver.Value, delta int64) (any, error)) *function {
+		return &function{name: "plumb_advance", params: []duckdb.TypeInfo{at, t.bigint(), t.bigint()}, result: at,
+			eval: func(args []driver.Value) (any, error) {
+				off, err := integer(args[1], "offset")
+				if err != nil {
+					return nil, err
+				}
+				k, err := integer(args[2], "k")
+				if err != nil {
+					return nil, err
+				}
+				return f(args[0], int64(off)*int64(k))
+			}}
+	}
+	funcs = append(funcs,
+		advance(t.date(), func(at driver.Value, delta int64) (any, error) {
+			a, ok := at.(time.Time)
+			if !ok {
+				return nil, fmt.Errorf("expected a DATE, got %T", at)
+			}
+			return a.AddDate(0, 0, int(delta/86_400_000_000)), nil
+		}),
+		advance(t.timestamp(), func(at driver.Value, delta int64) (any, error) {
+			a, ok := at.(time.Time)
+			if !ok {
+				return nil, fmt.Errorf("expected a TIMESTAMP, got %T", at)
+			}
+			return a.Add(time.Duration(delta) * time.Microsecond), nil
+		}),
+		advance(t.bigint(), func(at driver.Value, delta int64) (any, error) {
+			a, err := integer(at, "at")
+			if err != nil {
+				return nil, err
+			}
+			return int64(a) + delta, nil
+		}),
+	)
+	return funcs
+}
+
+// forecastOptions are forecast's per-group settings.
+type forecastOptions struct {
+	verdict          stats.StationarityOptions
+	horizon, holdout int
+	coverage         float64
+	fill             stats.FillMethod
+	biasAdjust       bool
+}
+
+// readForecastOptions reads (horizon, coverage, period, alpha, fill,
+// holdout, bias_adjust) and checks them.
+func readForecastOptions(args []driver.Value) (forecastOptions, error) {
+	var o forecastOptions
+	var err error
+	if o.horizon, err = intOr(args[0], "horizon", stats.DefaultHorizon); err != nil {
+		return o, err
+	}
+	if o.coverage, err = floatOr(args[1], "coverage", stats.DefaultCoverage); err != nil {
+		return o, err
+	}
+	if o.verdict, err = stationarityOptions(args[2], args[3]); err != nil {
+		return o, err
+	}
+	o.fill = stats.FillNone
+	if args[4] != nil {
+		s, err := text(args[4], "fill")
+		if err != nil {
+			return o, err
+		}
+		o.fill = stats.FillMethod(s)
+		if _, err := stats.Regularize(nil, nil, o.fill); err != nil {
+			return o, err
+		}
+	}
+	if o.holdout, err = intOr(args[5], "holdout", 0); err != nil {
+		return o, err
+	}
+	o.biasAdjust, _ = args[6].(bool)
+	switch {
+	case o.holdout < 0:
+		return o, fmt.Errorf("holdout must be 0 (none) or a positive number of values, got %d", o.holdout)
+	case o.holdout == 0 && (o.horizon < 1 || o.horizon > stats.MaxHorizon):
+		return o, fmt.Errorf("horizon must be between 1 and %d, got %d", stats.MaxHorizon, o.horizon)
+	case !(o.coverage > 0 && o.coverage < 1):
+		return o, fmt.Errorf("coverage must be between 0 and 1, got %v", o.coverage)
+	}
+	if o.holdout > 0 {
+		o.horizon = min(o.holdout, stats.MaxHorizon)
+	}
+	return o, nil
+}
+
+// forecastLiteral renders an option back as SQL.
+func forecastLiteral(v driver.Value) string {
+	switch x := v.(type) {
+	case string:
+		return quoteLiteral(x)
+	case bool:
+		if x {
+			return "true"
+		}
+		return "false"
+	}
+	return sqlLiteral(v)
+}
+
+// forecastGroup judges one group (on all but the held-out values), fits the
+// recipe's model and forecasts.
+func forecastGroup(at []int64, x []float64, o forecastOptions) (any, error) {
+	out := map[string]any{"status": nil, "reason": nil, "offsets": nil, "forecast": nil, "lower": nil, "upper": nil,
+		"actual": nil, "mean_cause": nil, "seasonal_kind": nil, "period": nil, "box_cox_lambda": nil,
+		"seasonal_differences": nil, "differences": nil, "ar_order": nil, "ar_constant": nil, "ar_coefficients": nil,
+		"residual_variance": nil, "nobs": nil, "aic": nil, "ljung_box_p_value": nil, "mase": nil, "interval_coverage": nil}
+	for i := 1; i < len(at); i++ {
+		if at[i] == at[i-1] {
+			out["status"] = duplicateAt
+			return out, nil
+		}
+	}
+	reg, err := stats.Regularize(at, x, o.fill)
+	if err != nil {
+		return nil, err
+	}
+	y := reg.Values
+	// The forecasts' times: after the last value used, on the usual step;
+	// held-out values at their own times.
+	n := len(y) - o.holdout
+	offsets := make(doubleList, o.horizon)
+	nan := make(doubleList, o.horizon)
+	for h := range offsets {
+		offsets[h], nan[h] = math.NaN(), math.NaN()
+	}
+	if n >= 1 && len(at) >= 2 {
+		for h := range offsets {
+			offsets[h] = float64(timeAt(at, reg, n-1+h+1) - at[0])
+		}
+	}
+	out["offsets"], out["forecast"], out["lower"], out["upper"] = offsets, nan, nan, nan
+	if o.holdout > 0 {
+		actual := make(doubleList, o.horizon)
+		for h := range actual {
+			actual[h] = math.NaN()
+			if n+h >= 0 && n+h < len(y) {
+				actual[h] = y[n+h]
+			}
+		}
+		out["actual"] = actual
+	}
+	if n < 2 {
+		out["status"] = string(stats.StatusTooShort)
+		out["reason"] = stats.StatusReason(stats.StatusTooShort)
+		return out, nil
+	}
+	train := y[:n]
+	v, err := stats.Stationarity(train, o.verdict)
+	if err != nil {
+		return nil, err
+	}
+	out["status"], out["reason"] = string(v.Status), v.Reason
+	if v.Status != stats.StatusOK && v.Status != stats.StatusSeasonUnknown {
+		return out, nil
+	}
+	rec := v.Recipe()
+	out["mean_cause"], out["seasonal_kind"] = textOrNull(string(v.MeanCause)), textOrNull(string(v.SeasonalKind))
+	if rec.Period > 0 {
+		out["period"] = int64(rec.Period)
+	}
+	if rec.BoxCox {
+		out["box_cox_lambda"] = rec.Lambda
+	}
+	out["seasonal_differences"], out["differences"] = int64(rec.SeasonalDifferences), int64(rec.Differences)
+	f, err := stats.ForecastByRecipe(v.Judged(), rec, stats.RecipeForecastOptions{
+		Horizon: o.horizon, Coverage: o.coverage, AR: stats.AROptions{Period: rec.Period}, BiasAdjust: o.biasAdjust})
+	if err != nil {
+		return nil, err
+	}
+	if f.Status != stats.StatusOK {
+		out["status"] = string(f.Status)
+		return out, nil
+	}
+	out["forecast"], out["lower"], out["upper"] = doubleList(f.Mean), doubleList(f.Lower), doubleList(f.Upper)
+	m := f.Model
+	out["ar_order"], out["ar_constant"], out["ar_coefficients"] = int64(m.Order), orNull(m.Constant), doubleList(m.Coefficients)
+	out["residual_variance"], out["nobs"], out["aic"] = orNull(m.Variance), int64(m.NObs), orNull(m.AIC)
+	if f.WhiteNoise.Status == stats.StatusOK {
+		out["ljung_box_p_value"] = orNull(f.WhiteNoise.PValue)
+	}
+	if o.holdout > 0 {
+		actual := []float64(out["actual"].(doubleList))
+		lag := 1
+		if v.Seasonal && rec.Period > 1 {
+			lag = rec.Period
+		}
+		if e, err := stats.MeanAbsoluteScaledError(actual, f.Mean, train, lag); err == nil && e.Status == stats.StatusOK {
+			out["mase"] = orNull(e.MASE)
+		}
+		if share, used, err := stats.IntervalCoverage(actual, f.Lower, f.Upper); err == nil && used > 0 {
+			out["interval_coverage"] = share
+		}
+	}
+	return out, nil
+}
+
+// timeAt is the time of position i of the judged series (on the regular
+// grid when Regularize filled it, the i-th observation otherwise), and
+// beyond its end, the last time plus whole steps.
+func timeAt(at []int64, reg stats.Regular, i int) int64 {
+	if len(reg.Values) != len(at) {
+		return at[0] + int64(i)*reg.Step
+	}
+	if i < len(at) {
+		return at[i]
+	}
+	return at[len(at)-1] + int64(i-len(at)+1)*reg.Step
+}
+
+// forecastSQL is the query behind forecast (models false) and
+// forecast_models (models true); literals are the options as SQL, in
+// plumb_forecast's order.
+func forecastSQL(q seriesQuery, literals []string, models bool) string {
+	by := q.byList("")
+	base := fmt.Sprintf(`WITH %[1]s, plumb_fc AS MATERIALIZED (
+    SELECT %[2]s, plumb_first_at, plumb_forecast(plumb_points, %[3]s) AS plumb_f FROM plumb_series
+)
+`, q.groupsCTE(), by, joinLiterals(literals))
+	status := q.duplicateAtCheck("plumb_f.status")
+	if models {
+		return base + fmt.Sprintf(`SELECT %[1]s, %[2]s AS status, plumb_f.reason AS reason,
+       plumb_f.mean_cause AS mean_cause, plumb_f.seasonal_kind AS seasonal_kind, plumb_f.period AS period,
+       plumb_f.box_cox_lambda AS box_cox_lambda, plumb_f.seasonal_differences AS seasonal_differences,
+       plumb_f.differences AS differences, plumb_f.ar_order AS ar_order, plumb_f.ar_constant AS ar_constant,
+       plumb_f.ar_coefficients AS ar_coefficients, plumb_f.residual_variance AS residual_variance,
+       plumb_f.nobs AS nobs, plumb_f.aic AS aic, plumb_f.ljung_box_p_value AS ljung_box_p_value,
+       plumb_f.mase AS mase, plumb_f.interval_coverage AS interval_coverage
+FROM plumb_fc
+ORDER BY %[1]s`, by, status)
+	}
+	actual := ""
+	if literals[5] != "NULL" && literals[5] != "0" {
+		actual = ", unnest(plumb_f.actual) AS actual"
+	}
+	return base + fmt.Sprintf(`SELECT %[1]s, plumb_advance(plumb_first_at, plumb_offset::BIGINT, 1) AS %[2]s, step, forecast, lower, upper%[3]s, status
+FROM (
+    SELECT %[1]s, plumb_first_at, %[4]s AS status,
+           unnest(plumb_f.offsets) AS plumb_offset, unnest(range(1, len(plumb_f.forecast) + 1)) AS step,
+           unnest(plumb_f.forecast) AS forecast, unnest(plumb_f.lower) AS lower, unnest(plumb_f.upper) AS upper%[5]s
+    FROM plumb_fc
+)
+ORDER BY %[1]s, step`, by, quoteIdent(q.at), map[bool]string{true: ", actual", false: ""}[actual != ""], status, actual)
+}
+
+func joinLiterals(l []string) string {
+	out := ""
+	for i, s := range l {
+		if i > 0 {
+			out += ", "
+		}
+		out += s
+	}
+	return out
+}
+
+const forecastMacros = `
+CREATE OR REPLACE TEMP MACRO forecast(source, "by", "at", value, horizon := 14, coverage := 0.95, period := NULL,
+                                      alpha := 0.05, fill := 'none', holdout := 0, bias_adjust := false) AS TABLE
+    FROM query(plumb_forecast_sql(source, "by", "at", value, horizon::BIGINT, coverage::DOUBLE, period::BIGINT,
+                                  alpha::DOUBLE, fill, holdout::BIGINT, bias_adjust::BOOLEAN, false));
+CREATE OR REPLACE TEMP MACRO forecast_models(source, "by", "at", value, horizon := 14, coverage := 0.95, period := NULL,
+                                             alpha := 0.05, fill := 'none', holdout := 0, bias_adjust := false) AS TABLE
+    FROM query(plumb_forecast_sql(source, "by", "at", value, horizon::BIGINT, coverage::DOUBLE, period::BIGINT,
+                                  alpha::DOUBLE, fill, holdout::BIGINT, bias_adjust::BOOLEAN, true));
+`
