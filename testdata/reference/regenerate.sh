@@ -2,10 +2,11 @@
 # Regenerates every reference value in this folder from Debian's packages:
 #   r-base-core 4.2.2 (datasets), r-cran-urca 1.3-3, r-cran-tseries 0.10-53,
 #   r-cran-forecast 8.20,
-#   python3-statsmodels 0.13.5 (run with /usr/bin/python3).
+#   python3-statsmodels 0.13.5 (run with /usr/bin/python3; break_statsmodels.py
+#   reads what export_datasets.R and unit_root_statsmodels.py wrote).
 # Usage: regenerate.sh [OUT_DIR]   (default: this folder)
-# .ci/run writes into a temporary folder and fails if anything differs from
-# the committed files.
+# .ci/run writes into a temporary folder and compares it with the committed
+# files value by value (compare.py).
 set -euo pipefail
 here=$(cd "$(dirname "$0")" && pwd)
 out=${1:-$here}
@@ -16,3 +17,4 @@ Rscript "$here/unit_root_r.R" "$out"
 /usr/bin/python3 "$here/conditions_statsmodels.py" "$out"
 Rscript "$here/conditions_r.R" "$out"
 /usr/bin/python3 "$here/forecast_statsmodels.py" "$out"
+/usr/bin/python3 "$here/break_statsmodels.py" "$out"
