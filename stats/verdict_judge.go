@@ -194,8 +194,8 @@ func seasonalBySeason(s SeasonalityResult) bool {
 //     significant at α by its Newey-West t), and a level shift in a
 //     stationary series (the break test, MeanBreak, significant at α, the
 //     Zivot-Andrews test rejects a unit root against a one-time break in
-//     the intercept at α, and KPSS does not reject stationarity of the
-//     series with the shift removed). If both hold, the one with the lower
+//     the intercept at α, with the lag ADF chose, and KPSS does not reject
+//     stationarity of the series with the shift removed). If both hold, the one with the lower
 //     BIC (the line: 2 parameters; the shift: 3, its date counted) wins.
 //     Otherwise the cause is a unit root, and d follows the differencing
 //     sequence (up to 2).
@@ -245,10 +245,19 @@ func (j *judgement) meanDecision(z []float64, o judgeOptions, stabilityPeriod in
 				trendOK = err == nil && kpss.Status == StatusOK && !(kpss.PValue < alpha)
 			}
 		}
-		if shiftP < alpha && zaProxyRejects(z, j.brk.Index, j.adf.Lags) {
-			resid := withoutShift(z, j.brk.Index, j.brk.Size)
-			kpss, err := KPSS(resid, KPSSOptions{})
-			shiftOK = err == nil && kpss.Status == StatusOK && !(kpss.PValue < alpha)
+		if shiftP < alpha {
+			// The lag ADF chose for the differencing sequence, fixed: one
+			// scan over the break dates instead of a lag search.
+			lags := j.adf.Lags
+			za, err := ZivotAndrews(z, ZivotAndrewsOptions{Break: BreakIntercept, LagRule: LagFixed, MaxLag: &lags})
+			if err != nil {
+				return nil, err
+			}
+			if za.Status == StatusOK && za.PValue < alpha {
+				resid := withoutShift(z, j.brk.Index, j.brk.Size)
+				kpss, err := KPSS(resid, KPSSOptions{})
+				shiftOK = err == nil && kpss.Status == StatusOK && !(kpss.PValue < alpha)
+			}
 		}
 	case !unitRoot && deterministic && j.stability.MeanPValue < each:
 		trendOK, shiftOK = line.p < alpha, shiftP < alpha
