@@ -73,42 +73,57 @@ func OCSB(x []float64, s int) (OCSBResult, error) {
 // observations of the final fit.
 func ocsbStatistic(y []float64, s, maxLag int) (float64, int, int, bool) {
 	T := len(y)
-	// z_t = ΔΔ_s y_t for t ≥ s+1; a_t = Δ_s y_{t-1}; b_t = Δ y_{t-s}.
-	z := func(t int) float64 { return y[t] - y[t-1] - y[t-s] + y[t-s-1] }
-	a := func(t int) float64 { return y[t-1] - y[t-1-s] }
-	b := func(t int) float64 { return y[t-s] - y[t-s-1] }
+	// Index t of each array is time t: dz_t = ΔΔ_s y_t (t ≥ s+1),
+	// a_t = Δ_s y_{t-1} (t ≥ s+1), b_t = Δ y_{t-s} (t ≥ s+1). Columns are
+	// copies of their windows (factor overwrites them).
+	buf := getScratch(3 * T)
+	defer putScratch(buf)
+	dz, a, b := buf[:T], buf[T:2*T], buf[2*T:]
+	for t := s + 1; t < T; t++ {
+		dz[t] = y[t] - y[t-1] - y[t-s] + y[t-s-1]
+		a[t] = y[t-1] - y[t-1-s]
+		b[t] = y[t-s] - y[t-s-1]
+	}
+	var store []float64
 	build := func(start, lags int, bLast bool) ([][]float64, []float64) {
 		n := T - start
+		if store != nil {
+			putScratch(store)
+		}
+		store = getScratch((lags + 3) * n)
 		cols := make([][]float64, 0, lags+2)
-		col := func(f func(t int) float64) {
-			c := make([]float64, n)
-			for i := range c {
-				c[i] = f(start + i)
-			}
+		next := func(src []float64) {
+			c := store[len(cols)*n : (len(cols)+1)*n : (len(cols)+1)*n]
+			copy(c, src)
 			cols = append(cols, c)
 		}
-		col(a)
+		next(a[start:])
 		if !bLast {
-			col(b)
+			next(b[start:])
 		}
 		for i := 1; i <= lags; i++ {
-			i := i
-			col(func(t int) float64 { return z(t - i) })
+			next(dz[start-i : T-i])
 		}
 		if bLast {
-			col(b)
+			next(b[start:])
 		}
-		dep := make([]float64, n)
-		for i := range dep {
-			dep[i] = z(start + i)
-		}
+		dep := store[(lags+2)*n : (lags+3)*n]
+		copy(dep, dz[start:])
 		return cols, dep
 	}
+	defer func() { putScratch(store) }()
 	// AIC over p = 0..maxLag on the common sample.
 	start := s + 1 + maxLag
 	cols, dep := build(start, maxLag, false)
+	// The search only compares nested models: the cross products' Cholesky
+	// factor gives every SSR (factorGram); a nearly dependent design goes
+	// to Householder QR (the final fit always does).
 	var ls nestedLS
-	ls.factor(cols, dep)
+	ls.factorGram(cols, dep)
+	if ls.rank < len(cols) {
+		cols, dep = build(start, maxLag, false)
+		ls.factor(cols, dep)
+	}
 	if ls.rank < 2 {
 		return 0, 0, 0, false
 	}

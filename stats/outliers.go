@@ -108,10 +108,25 @@ func Outliers(x []float64, opts OutlierOptions) OutlierResult {
 	for t := range w {
 		w[t] = x[t] - season[t]
 	}
-	left := windowMedians(getScratch(n), w, -k, -1, false)
+	// The k points before t and the k points after t are both windows of
+	// k consecutive points: one pass of medians serves both sides.
+	block := windowMedians(getScratch(n), w, -(k - 1), 0, false) // block[e] = median of w[e-k+1..e]
+	defer putScratch(block)
+	left, right := getScratch(n), getScratch(n)
 	defer putScratch(left)
-	right := windowMedians(getScratch(n), w, 1, k, false)
 	defer putScratch(right)
+	for t := range w {
+		left[t], right[t] = math.NaN(), math.NaN()
+		if t >= 1 {
+			left[t] = block[t-1]
+		}
+		switch {
+		case t+k < n:
+			right[t] = block[t+k]
+		case t+1 < n:
+			right[t] = medianOfFew(w[t+1:])
+		}
+	}
 	r := getZeroed(n)
 	defer putScratch(r)
 	for t := range r {
@@ -202,6 +217,24 @@ func Outliers(x []float64, opts OutlierOptions) OutlierResult {
 // constants.
 func windowMedians(out, x []float64, from, to int, leaveOut bool) []float64 {
 	n := len(x)
+	if to-from < 16 {
+		// Small windows: sort a copy of each one (faster than keeping one
+		// window sorted for a handful of values).
+		var buf [16]float64
+		for t := 0; t < n; t++ {
+			a, b := max(0, t+from), min(n-1, t+to)
+			m := 0
+			for i := a; i <= b; i++ {
+				if leaveOut && i == t {
+					continue
+				}
+				buf[m] = x[i]
+				m++
+			}
+			out[t] = medianOfFew(buf[:m])
+		}
+		return out
+	}
 	win := getScratch(to - from + 1)[:0]
 	defer putScratch(win[:cap(win)])
 	insert := func(v float64) {
@@ -274,4 +307,37 @@ func blockScale(center, scale, u []float64, m int) {
 		}
 		a = b
 	}
+}
+
+// medianOfFew returns the median of a few values (NaN for none), sorting
+// a copy by insertion.
+func medianOfFew(v []float64) float64 {
+	var buf [16]float64
+	m := len(v)
+	if m == 0 {
+		return math.NaN()
+	}
+	if m > len(buf) {
+		return median(v)
+	}
+	switch m {
+	case 1:
+		return v[0]
+	case 3:
+		a, b, c := v[0], v[1], v[2]
+		return math.Max(math.Min(a, b), math.Min(math.Max(a, b), c))
+	}
+	s := buf[:m]
+	for i, x := range v {
+		j := i
+		for j > 0 && s[j-1] > x {
+			s[j] = s[j-1]
+			j--
+		}
+		s[j] = x
+	}
+	if m%2 == 1 {
+		return s[m/2]
+	}
+	return (s[m/2-1] + s[m/2]) / 2
 }

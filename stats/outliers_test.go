@@ -3,6 +3,8 @@ package stats
 import (
 	"fmt"
 	"math"
+	"math/rand/v2"
+	"sort"
 	"testing"
 )
 
@@ -86,6 +88,32 @@ func TestOutliersEdges(t *testing.T) {
 	} {
 		if got := fmt.Sprint(Outliers(test.x, OutlierOptions{}).Positions); got != test.want {
 			t.Errorf("%s: outliers at %s, want %s", test.name, got, test.want)
+		}
+	}
+}
+
+// TestMedianOfFew checks the small-window median against sorting, for
+// every length up to 17 and with ties.
+func TestMedianOfFew(t *testing.T) {
+	rng := rand.New(rand.NewPCG(41, 42))
+	for n := 0; n <= 17; n++ {
+		for rep := 0; rep < 50; rep++ {
+			v := make([]float64, n)
+			for i := range v {
+				v[i] = math.Round(rng.NormFloat64() * 2)
+			}
+			s := append([]float64(nil), v...)
+			sort.Float64s(s)
+			want := math.NaN()
+			if n > 0 {
+				want = s[n/2]
+				if n%2 == 0 {
+					want = (s[n/2-1] + s[n/2]) / 2
+				}
+			}
+			if got := medianOfFew(v); got != want && !(math.IsNaN(got) && math.IsNaN(want)) {
+				t.Fatalf("median of %v = %v, want %v", v, got, want)
+			}
 		}
 	}
 }

@@ -137,7 +137,8 @@ type StationarityResult struct {
 	// detrended or shift removed).
 	SpreadPValue float64
 	// Differenced is the series after the whole recipe, applied to the
-	// series with its outliers replaced.
+	// series with its outliers replaced (as judge computed it: equal to
+	// Recipe().Apply(Judged()) up to rounding).
 	Differenced []float64
 	Status      Status
 
@@ -280,18 +281,19 @@ func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, er
 		}
 	}
 	base := r
-	finish := func(j judgement) StationarityResult {
+	finish := func(j judgement) (StationarityResult, error) {
 		v := base
 		v.fill(j, first, detected)
 		v.BoxCoxLambda = lambda
 		if !math.IsNaN(lambda) {
 			v.recipe.BoxCox, v.recipe.Lambda = true, lambda
 		}
-		v.checkCure(clean, j, alpha, opts.Segments)
-		return v
+		return v, v.checkCure(j, alpha)
 	}
 	base.clean = clean
-	r = finish(j)
+	if r, err = finish(j); err != nil {
+		return r, err
+	}
 	// A fixed pattern whose means leave the output failing while a seasonal
 	// difference cures it was drifting after all.
 	if !r.Cured && j.kind == SeasonalFixed {
@@ -302,7 +304,11 @@ func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, er
 		}
 		if alt.status == StatusOK {
 			alt.period, alt.secondPeriod, alt.secondHandled = j.period, j.secondPeriod, j.secondHandled
-			if v := finish(alt); v.Cured {
+			v, err := finish(alt)
+			if err != nil {
+				return r, err
+			}
+			if v.Cured {
 				r = v
 				r.fixedFailed = true
 			}
@@ -365,18 +371,18 @@ func (r *StationarityResult) fill(j, first judgement, detected bool) {
 	r.Stationary = len(r.Violations) == 0
 }
 
-// checkCure applies the recipe to the cleaned series and judges its output
-// with the verdict's own tests.
-func (r *StationarityResult) checkCure(clean []float64, j judgement, alpha float64, segments int) {
+// checkCure judges the recipe's output (j.m: the cleaned series after the
+// whole recipe, on the scale judge worked on) with the verdict's own tests,
+// and checks it for over-differencing.
+func (r *StationarityResult) checkCure(j judgement, alpha float64) error {
 	rec := r.recipe
-	y, s, err := rec.Apply(clean)
-	if err != nil || s != StatusOK {
-		r.LeftViolations = append([]Violation(nil), r.Violations...)
-		r.Cured = len(r.LeftViolations) == 0
-		return
-	}
+	y := j.m
 	r.Differenced = y
-	r.LeftViolations = leftViolations(y, j, alpha, segments)
+	left, err := leftViolations(j, alpha)
+	if err != nil {
+		return err
+	}
+	r.LeftViolations = left
 	r.Cured = len(r.LeftViolations) == 0
 	if rec.Differences > 0 {
 		if a := autocorrelationAt(y, []int{1}); a != nil && a[0] < -0.4 {
@@ -388,24 +394,45 @@ func (r *StationarityResult) checkCure(clean []float64, j judgement, alpha float
 			r.OverDifferenced = true
 		}
 	}
+	return nil
 }
 
-// leftViolations judges y, the output of the recipe, by the tests the
-// verdict uses: a unit root (ADF and KPSS as in the differencing sequence)
-// or unequal segment means; unequal segment spreads; a seasonal pattern at
-// the period (or periods) judged.
-func leftViolations(y []float64, j judgement, alpha float64, segments int) []Violation {
+// leftViolations judges j.m, the output of the recipe, by the tests the
+// verdict uses, reusing those judge already ran on it: a unit root (ADF and
+// KPSS as in the differencing sequence) or unequal segment means; unequal
+// segment spreads; a seasonal pattern at the period (or periods) judged.
+func leftViolations(j judgement, alpha float64) ([]Violation, error) {
+	y := j.m
 	var out []Violation
 	each := alpha / 4
 	if len(y) < 16 || isConstant(y) {
-		return nil
+		return nil, nil
 	}
-	adf, err1 := ADF(y, ADFOptions{})
-	kpss, err2 := KPSS(y, KPSSOptions{})
-	meanBad := err1 == nil && err2 == nil && adf.Status == StatusOK && kpss.Status == StatusOK &&
-		needsDifference(kpss.PValue, adf.PValue, alpha)
-	st, err := stability(y, StabilityOptions{Segments: segments}, false)
-	if err == nil && st.Status == StatusOK {
+	adf := j.mADF
+	if adf.Status == "" {
+		var err error
+		if adf, err = ADF(y, ADFOptions{}); err != nil {
+			return nil, err
+		}
+	}
+	meanBad := false
+	if adf.Status == StatusOK {
+		// KPSS decides only between α/4 and α (needsDifference).
+		switch {
+		case !(adf.PValue < alpha):
+			meanBad = true
+		case adf.PValue >= each:
+			kpss := j.mKPSS
+			if kpss.Status == "" {
+				var err error
+				if kpss, err = KPSS(y, KPSSOptions{}); err != nil {
+					return nil, err
+				}
+			}
+			meanBad = kpss.Status == StatusOK && kpss.PValue < alpha
+		}
+	}
+	if st := j.mStability; st.Status == StatusOK {
 		if st.MeanPValue < each {
 			meanBad = true
 		}
@@ -420,13 +447,19 @@ func leftViolations(y []float64, j judgement, alpha float64, segments int) []Vio
 		if p < 2 || len(y) < 2*p {
 			continue
 		}
-		season, err := Seasonality(y, SeasonalityOptions{Period: p})
-		if err == nil && season.Status == StatusOK && seasonalBySeason(season) {
+		season := j.mSeason
+		if p != j.period || season.Status == "" || season.Period != p {
+			var err error
+			if season, err = Seasonality(y, SeasonalityOptions{Period: p}); err != nil {
+				return nil, err
+			}
+		}
+		if season.Status == StatusOK && seasonalBySeason(season) {
 			out = append(out, ViolationSeasonal)
 			break
 		}
 	}
-	return out
+	return out, nil
 }
 
 // minimum returns the smallest value of x.

@@ -42,6 +42,18 @@ type judgement struct {
 	// trend is the STL trend at the period, while judge runs (a scratch
 	// slice; nil after).
 	trend []float64
+	// m is the series after the whole recipe on this scale (the seasonal
+	// step, then the mean dealt with): what the recipe outputs. The tests
+	// the cure check needs are kept where judge computed them on m already
+	// (Status "" when not).
+	m          []float64
+	mADF       UnitRootResult
+	mKPSS      UnitRootResult
+	mStability StabilityResult
+	mSeason    SeasonalityResult
+	// zSeason is the seasonality of the series after fixed seasonal means
+	// were removed (Status "" when that check did not run).
+	zSeason SeasonalityResult
 }
 
 // judge decides, for a series y (outliers already replaced):
@@ -107,6 +119,7 @@ func judge(y []float64, o judgeOptions) (judgement, error) {
 					} else {
 						j.kind = SeasonalFixed
 						j.recipe.SeasonalMeans = effects
+						j.zSeason = rest
 					}
 				}
 			}
@@ -147,7 +160,17 @@ func (j *judgement) rest(y, z []float64, o judgeOptions, stabilityPeriod int) (j
 	if err != nil || j.status != StatusOK {
 		return *j, err
 	}
-	j.spreadP = spreadPValue(m, o.segments)
+	j.m = m
+	if j.meanCause == "" {
+		// Nothing was done to the mean: the output is z itself.
+		j.mADF, j.mKPSS, j.mSeason = j.adf, j.kpss, j.zSeason
+	}
+	// The segment tests on the output: its spread test is the verdict's,
+	// its mean test the cure check's.
+	if j.mStability, err = stability(m, StabilityOptions{Segments: o.segments}, false); err != nil {
+		return *j, err
+	}
+	j.spreadP = j.mStability.SpreadPValue
 	switch {
 	case j.spreadP < o.alpha/4:
 		j.spreadCause = SpreadTime
@@ -301,6 +324,7 @@ func (j *judgement) differences(z []float64, alpha float64) ([]float64, error) {
 	if err != nil {
 		return nil, err
 	}
+	j.mADF = adf
 	if adf.Status != StatusOK || adf.PValue < alpha/4 {
 		return w, nil
 	}
@@ -310,10 +334,12 @@ func (j *judgement) differences(z []float64, alpha float64) ([]float64, error) {
 		if kpss, err = KPSS(w, KPSSOptions{}); err != nil {
 			return nil, err
 		}
+		j.mKPSS = kpss
 	}
 	if kpss.Status == StatusOK && needsDifference(kpss.PValue, adf.PValue, alpha) {
 		w, _ = Difference(w, 1, 1)
 		j.recipe.Differences = 2
+		j.mADF, j.mKPSS = UnitRootResult{}, UnitRootResult{}
 	}
 	return w, nil
 }

@@ -87,6 +87,7 @@ func TestOpenRegistersEverything(t *testing.T) {
 		"rolling_mean": "macro", "box_cox": "macro", "inverse_box_cox": "macro", "box_cox_lambda": "macro",
 		"stationarity": "macro", "outlier_positions": "macro", "demand_profile": "macro", "diagnose": "table_macro", "rolling_dispersion": "table_macro",
 		"stationarize": "table_macro", "stationarize_recipes": "table_macro", "restore": "table_macro",
+		"forecast": "table_macro", "forecast_models": "table_macro",
 	} {
 		if got[name] != kind {
 			t.Errorf("%s: registered as %q, want %q", name, got[name], kind)

@@ -51,6 +51,7 @@ const (
 	PhaseFloor    Phase = "floor"     // DuckDB: list(v ORDER BY t) per group
 	PhaseUnitRoot Phase = "unit_root" // plumb: ADF (AIC) and KPSS per group, the reference loop's tests
 	PhaseDiagnose Phase = "diagnose"  // plumb: diagnose with default options
+	PhaseForecast Phase = "forecast"  // plumb: forecast, 14 steps, default options
 )
 
 // Result is one measured phase.
@@ -120,6 +121,8 @@ func PhaseSQL(p Phase, file string) (string, error) {
 			FROM (SELECT g, list(v ORDER BY t) AS x FROM '%s' GROUP BY g))`, src), nil
 	case PhaseDiagnose:
 		return fmt.Sprintf(`SELECT count(*), sum(n) FROM diagnose('%s', by := 'g', at := 't', value := 'v')`, src), nil
+	case PhaseForecast:
+		return fmt.Sprintf(`SELECT count(DISTINCT g), count(forecast) FROM forecast('%s', by := 'g', at := 't', value := 'v')`, src), nil
 	}
 	return "", fmt.Errorf("unknown phase %q", p)
 }
@@ -175,7 +178,7 @@ func Run(ctx context.Context, cfg Config, self string, w io.Writer) ([]Result, e
 	file := strings.TrimSpace(out)
 	var results []Result
 	repeats := max(cfg.Repeats, 1)
-	for _, p := range []Phase{PhaseFloor, PhaseUnitRoot, PhaseDiagnose} {
+	for _, p := range []Phase{PhaseFloor, PhaseUnitRoot, PhaseDiagnose, PhaseForecast} {
 		var runs []Result
 		for range repeats {
 			wall, rss, out, err := Measure(ctx, []string{self, "bench", "--phase", string(p), "--file", file})
