@@ -3,19 +3,44 @@ package stats
 import "math"
 
 // Recipe is a transform that makes a series stationary, with what is needed
-// to undo it: an optional Box-Cox transform, then SeasonalDifferences
-// differences at lag Period, then Differences plain differences:
+// to undo it. Its steps, in the order applied:
 //
-//	y = (1 - B)^d (1 - B^s)^D g_λ(x).
+//  1. a Box-Cox transform g_λ (when BoxCox);
 //
-// Apply fills Head and Tail; Restore and RestoreForecast use them.
+//  2. deterministic parts subtracted: a fixed seasonal pattern
+//     (SeasonalMeans), a straight line (Trend) and a level shift (Shift),
+//     each a known function of the position t (0 at the first observation);
+//
+//  3. D seasonal differences at lag Period, then d plain differences:
+//
+//     y_t = (1 - B)^d (1 - B^s)^D [g_λ(x_t) - m_t],
+//     m_t = S[t mod s] + (a + b·t) + δ·1[t ≥ τ].
+//
+// Every step is exactly invertible: Apply records the anchors of the
+// differencing (Head, Tail) and the series length; Restore and
+// RestoreForecast undo the steps in reverse order, adding m_t back at each
+// value's own position, so that a restored forecast continues the trend,
+// keeps the shifted level and repeats the seasonal pattern.
 type Recipe struct {
 	// BoxCox says whether to apply the Box-Cox transform with Lambda.
 	BoxCox bool
 	Lambda float64
-	// Period is the seasonal lag s; SeasonalDifferences is D (0 or more).
-	Period              int
+	// Period is the seasonal period s used by SeasonalMeans and by the
+	// seasonal differences.
+	Period int
+	// SeasonalMeans, when not nil, holds Period effects (summing to zero)
+	// of a fixed seasonal pattern: SeasonalMeans[t mod Period] is
+	// subtracted at position t.
+	SeasonalMeans []float64
+	// SeasonalDifferences is D (0 or more).
 	SeasonalDifferences int
+	// Trend, when set, subtracts TrendIntercept + TrendSlope·t.
+	Trend                      bool
+	TrendIntercept, TrendSlope float64
+	// Shift, when set, subtracts ShiftSize from position ShiftIndex on.
+	Shift      bool
+	ShiftIndex int
+	ShiftSize  float64
 	// Differences is d, the number of plain differences.
 	Differences int
 	// Head holds, for each differencing pass in the order applied, the
@@ -23,6 +48,15 @@ type Recipe struct {
 	// restore the transformed series itself. Tail holds the last lag values
 	// of each, the anchors that continue it into forecasts.
 	Head, Tail [][]float64
+	// Length is the number of observations the recipe was applied to; a
+	// forecast's first value sits at position Length.
+	Length int
+}
+
+// Identity reports whether the recipe changes nothing.
+func (r *Recipe) Identity() bool {
+	return !r.BoxCox && r.SeasonalMeans == nil && r.SeasonalDifferences == 0 &&
+		!r.Trend && !r.Shift && r.Differences == 0
 }
 
 // lags returns the lag of each differencing pass in the order applied.
@@ -47,34 +81,64 @@ func (r *Recipe) check() error {
 	if r.SeasonalDifferences < 0 || r.Differences < 0 {
 		return errorf("recipe: difference counts must not be negative")
 	}
-	if r.SeasonalDifferences > 0 && r.Period < 2 {
-		return errorf("recipe: seasonal differencing needs a period of at least 2, got %d", r.Period)
+	if (r.SeasonalDifferences > 0 || r.SeasonalMeans != nil) && r.Period < 2 {
+		return errorf("recipe: a seasonal step needs a period of at least 2, got %d", r.Period)
 	}
-	if r.BoxCox && (math.IsNaN(r.Lambda) || math.IsInf(r.Lambda, 0)) {
+	if r.SeasonalMeans != nil && len(r.SeasonalMeans) != r.Period {
+		return errorf("recipe: %d seasonal means for period %d", len(r.SeasonalMeans), r.Period)
+	}
+	if r.BoxCox && !finite(r.Lambda) {
 		return errorf("recipe: the Box-Cox lambda must be finite")
+	}
+	for _, v := range r.SeasonalMeans {
+		if !finite(v) {
+			return errorf("recipe: the seasonal means must be finite")
+		}
+	}
+	if r.Trend && !(finite(r.TrendIntercept) && finite(r.TrendSlope)) {
+		return errorf("recipe: the trend's intercept and slope must be finite")
+	}
+	if r.Shift && (!finite(r.ShiftSize) || r.ShiftIndex < 0) {
+		return errorf("recipe: the level shift needs a finite size and a position of at least 0")
 	}
 	return nil
 }
 
-// Apply transforms x, recording the anchors in r. The result is Lost()
-// values shorter than x. Status too_short when nothing would be left;
-// non_positive when Box-Cox meets a value ≤ 0; non_finite for NaN or ±Inf.
-func (r *Recipe) Apply(x []float64) ([]float64, Status, error) {
-	if err := r.check(); err != nil {
-		return nil, "", err
-	}
-	if s := checkFinite(x); s != StatusOK {
-		return nil, s, nil
-	}
-	if len(x) <= r.Lost() {
-		return nil, StatusTooShort, nil
-	}
-	y := append([]float64(nil), x...)
-	if r.BoxCox {
-		var s Status
-		if y, s = BoxCox(y, r.Lambda); s != StatusOK {
-			return nil, s, nil
+func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
+
+// Deterministic returns m_t, the deterministic part the recipe subtracts,
+// at position t (0 at the first observation).
+func (r *Recipe) Deterministic(t int) float64 {
+	m := 0.0
+	if r.SeasonalMeans != nil {
+		j := t % r.Period
+		if j < 0 {
+			j += r.Period
 		}
+		m += r.SeasonalMeans[j]
+	}
+	if r.Trend {
+		m += r.TrendIntercept + r.TrendSlope*float64(t)
+	}
+	if r.Shift && t >= r.ShiftIndex {
+		m += r.ShiftSize
+	}
+	return m
+}
+
+// hasDeterministic reports whether the recipe subtracts anything.
+func (r *Recipe) hasDeterministic() bool {
+	return r.SeasonalMeans != nil || r.Trend || r.Shift
+}
+
+// Apply transforms x, recording the anchors and the length in r. The
+// result is Lost() values shorter than x. Status too_short when nothing
+// would be left; non_positive when Box-Cox meets a value ≤ 0; non_finite
+// for NaN or ±Inf.
+func (r *Recipe) Apply(x []float64) ([]float64, Status, error) {
+	y, s, err := r.Level(x)
+	if err != nil || s != StatusOK {
+		return nil, s, err
 	}
 	r.Head, r.Tail = nil, nil
 	for _, lag := range r.lags() {
@@ -85,34 +149,93 @@ func (r *Recipe) Apply(x []float64) ([]float64, Status, error) {
 	return y, StatusOK, nil
 }
 
-// Restore undoes Apply on the transformed series y (which must have the
-// length Apply returned), giving back the original series.
-func (r *Recipe) Restore(y []float64) ([]float64, Status, error) {
-	return r.undo(y, r.Head, true)
-}
-
-// RestoreForecast turns values f on the transformed scale that continue the
-// series after its last observation (forecasts) into original units,
-// anchored on the series' last observations at every differencing level.
-// Status non_positive when a value falls outside the Box-Cox range (it
-// becomes NaN).
-func (r *Recipe) RestoreForecast(f []float64) ([]float64, Status, error) {
-	return r.undo(f, r.Tail, false)
-}
-
-func (r *Recipe) undo(y []float64, anchors [][]float64, prepend bool) ([]float64, Status, error) {
+// Level applies the recipe's steps before differencing (Box-Cox and the
+// deterministic parts) to x and records its length: the series whose
+// differences Apply returns, the scale on which forecast errors accumulate
+// through the differencing. It returns a new slice.
+func (r *Recipe) Level(x []float64) ([]float64, Status, error) {
 	if err := r.check(); err != nil {
 		return nil, "", err
 	}
+	if s := checkFinite(x); s != StatusOK {
+		return nil, s, nil
+	}
+	if len(x) <= r.Lost() {
+		return nil, StatusTooShort, nil
+	}
+	if r.Shift && r.ShiftIndex > len(x) {
+		return nil, "", errorf("recipe: the level shift at position %d lies beyond the series' %d values", r.ShiftIndex, len(x))
+	}
+	y := append([]float64(nil), x...)
+	if r.BoxCox {
+		var s Status
+		if y, s = BoxCox(y, r.Lambda); s != StatusOK {
+			return nil, s, nil
+		}
+	}
+	if r.hasDeterministic() {
+		for t := range y {
+			y[t] -= r.Deterministic(t)
+		}
+	}
+	r.Length = len(x)
+	return y, StatusOK, nil
+}
+
+// Restore undoes Apply on the transformed series y (which must have the
+// length Apply returned), giving back the original series.
+func (r *Recipe) Restore(y []float64) ([]float64, Status, error) {
+	return r.undo(y, r.Head, true, 0)
+}
+
+// RestoreForecast turns values f on the transformed scale that continue the
+// series after its last observation (forecasts, at positions Length,
+// Length+1, ...) into original units, anchored on the series' last
+// observations at every differencing level. Status non_positive when a
+// value falls outside the Box-Cox range (it becomes NaN).
+func (r *Recipe) RestoreForecast(f []float64) ([]float64, Status, error) {
+	return r.undo(f, r.Tail, false, r.Length)
+}
+
+// Integrate undoes only the differencing of forecasts f (positions Length,
+// Length+1, ...), anchored on the series' last values: the forecasts on the
+// scale Level returns.
+func (r *Recipe) Integrate(f []float64) ([]float64, error) {
+	if err := r.check(); err != nil {
+		return nil, err
+	}
+	return r.integrate(f, r.Tail, false)
+}
+
+// Finish adds the deterministic part back to values z on the Level scale
+// at positions start, start+1, ... and undoes the Box-Cox transform: the
+// last steps of RestoreForecast, for forecasts and their interval bounds
+// alike (the Box-Cox transform is monotone, so it maps quantiles to
+// quantiles). Values outside the Box-Cox range become NaN with status
+// non_positive.
+func (r *Recipe) Finish(z []float64, start int) ([]float64, Status) {
+	out := append([]float64(nil), z...)
+	if r.hasDeterministic() {
+		for i := range out {
+			out[i] += r.Deterministic(start + i)
+		}
+	}
+	if r.BoxCox {
+		return InverseBoxCox(out, r.Lambda)
+	}
+	return out, StatusOK
+}
+
+func (r *Recipe) integrate(y []float64, anchors [][]float64, prepend bool) ([]float64, error) {
 	lags := r.lags()
 	if len(anchors) != len(lags) {
-		return nil, "", errorf("recipe: %d anchor sets for %d differencing passes: apply the recipe first", len(anchors), len(lags))
+		return nil, errorf("recipe: %d anchor sets for %d differencing passes: apply the recipe first", len(anchors), len(lags))
 	}
 	out := append([]float64(nil), y...)
 	for i := len(lags) - 1; i >= 0; i-- {
 		restored, err := Undifference(out, anchors[i], lags[i])
 		if err != nil {
-			return nil, "", err
+			return nil, err
 		}
 		if prepend {
 			out = append(append([]float64(nil), anchors[i]...), restored...)
@@ -120,12 +243,17 @@ func (r *Recipe) undo(y []float64, anchors [][]float64, prepend bool) ([]float64
 			out = restored
 		}
 	}
-	if r.BoxCox {
-		var s Status
-		out, s = InverseBoxCox(out, r.Lambda)
-		if s != StatusOK {
-			return out, s, nil
-		}
+	return out, nil
+}
+
+func (r *Recipe) undo(y []float64, anchors [][]float64, prepend bool, start int) ([]float64, Status, error) {
+	if err := r.check(); err != nil {
+		return nil, "", err
 	}
-	return out, StatusOK, nil
+	out, err := r.integrate(y, anchors, prepend)
+	if err != nil {
+		return nil, "", err
+	}
+	out, s := r.Finish(out, start)
+	return out, s, nil
 }

@@ -19,9 +19,9 @@ type SeasonalityOptions struct {
 	// Candidates are the periods tried when Period is 0; nil means
 	// DefaultPeriods.
 	Candidates []int
-	// skipOCSBWhenSeasonal leaves out the OCSB test when the strength alone
-	// already makes the series seasonal (the verdict does not need it then).
-	skipOCSBWhenSeasonal bool
+	// keepTrend hands the STL trend back in the result's trend field (a
+	// scratch slice the caller puts back) instead of releasing it.
+	keepTrend bool
 }
 
 // SeasonalityResult describes a series' seasonal pattern.
@@ -42,6 +42,8 @@ type SeasonalityResult struct {
 	// when not).
 	OCSB   OCSBResult
 	Status Status
+
+	trend []float64 // the STL trend, with keepTrend only
 }
 
 // ModerateSeasonalStrength is the strength from which the OCSB test is run:
@@ -107,10 +109,13 @@ func Seasonality(x []float64, opts SeasonalityOptions) (r SeasonalityResult, err
 	}
 	r.SeasonalStrength = SeasonalStrength(dec)
 	r.TrendStrength = TrendStrength(dec)
+	if opts.keepTrend {
+		r.trend, dec.Trend = dec.Trend, nil
+	}
 	dec.release()
 	r.Seasonal = r.SeasonalStrength >= SeasonalStrengthThreshold
 	r.OCSB = OCSBResult{Status: StatusSeasonUnknown, Statistic: math.NaN(), Critical5: math.NaN()}
-	if r.SeasonalStrength >= ModerateSeasonalStrength && !(opts.skipOCSBWhenSeasonal && r.Seasonal) {
+	if r.SeasonalStrength >= ModerateSeasonalStrength {
 		if r.OCSB, err = OCSB(x, period); err != nil {
 			return r, err
 		}

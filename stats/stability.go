@@ -160,7 +160,11 @@ func spreadPValue(x []float64, segments int) float64 {
 	if checkFinite(x) != StatusOK || len(x) < 10 || isConstant(x) {
 		return math.NaN()
 	}
-	bounds := segmentBounds(len(x), segments, 0)
+	return segmentSpreadPValue(x, segmentBounds(len(x), segments, 0))
+}
+
+// segmentSpreadPValue is spreadPValue with the segments given.
+func segmentSpreadPValue(x []float64, bounds []int) float64 {
 	if bounds == nil {
 		return math.NaN()
 	}

@@ -29,6 +29,10 @@ const (
 	StatusSeasonUnknown Status = "season_unknown"
 )
 
+// CheckFinite reports StatusNonFinite if x holds NaN or ±Inf (SQL NULLs
+// arrive as NaN), StatusOK otherwise.
+func CheckFinite(x []float64) Status { return checkFinite(x) }
+
 // checkFinite reports StatusNonFinite if x holds NaN or ±Inf, StatusOK otherwise.
 func checkFinite(x []float64) Status {
 	for _, v := range x {

@@ -122,7 +122,9 @@ func STL(x []float64, p int, opts STLOptions) (STLResult, Status) {
 // d must not be used again.
 func (d STLResult) release() {
 	putScratch(d.Seasonal)
-	putScratch(d.Trend)
+	if d.Trend != nil {
+		putScratch(d.Trend)
+	}
 	putScratch(d.Remainder)
 }
 

@@ -25,93 +25,178 @@ const (
 	ViolationSeasonal Violation = "seasonal"
 )
 
+// MeanCause says why the mean of a series moves.
+type MeanCause string
+
+const (
+	// MeanUnitRoot: the level wanders (a unit root); differencing cures it.
+	MeanUnitRoot MeanCause = "unit_root"
+	// MeanTrend: the mean follows a straight line around which the series
+	// is stationary (trend-stationary); removing the line cures it, and
+	// differencing would over-difference.
+	MeanTrend MeanCause = "trend"
+	// MeanLevelShift: the mean jumps once in an otherwise stationary
+	// series; removing the jump cures it.
+	MeanLevelShift MeanCause = "level_shift"
+)
+
+// SpreadCause says why the spread of a series changes.
+type SpreadCause string
+
+const (
+	// SpreadLevel: the spread follows the level; a power (Box-Cox)
+	// transform stabilises it.
+	SpreadLevel SpreadCause = "level"
+	// SpreadTime: the spread changes over time while the level does not
+	// explain it; no power transform fixes that.
+	SpreadTime SpreadCause = "time"
+)
+
+// SeasonalKind says what kind of seasonal pattern a series has.
+type SeasonalKind string
+
+const (
+	// SeasonalFixed: a deterministic pattern that repeats unchanged;
+	// subtracting its seasonal means removes it.
+	SeasonalFixed SeasonalKind = "fixed"
+	// SeasonalDrifting: a pattern that drifts (a seasonal unit root);
+	// seasonal differencing removes it.
+	SeasonalDrifting SeasonalKind = "drifting"
+)
+
 // StationarityResult is the verdict on one series.
 type StationarityResult struct {
 	// The three conditions and their conjunction.
 	MeanStable, SpreadStable, Seasonal, Stationary bool
 	Violations                                     []Violation
-	// The recommended recipe: D seasonal differences at Period, then d
+	// MeanCause is why the mean moves ("" when it is stable).
+	MeanCause MeanCause
+	// ShiftIndex is the 0-based index of the first observation after a
+	// level shift (-1 when MeanCause is not level_shift); ShiftSize is the
+	// jump on the scale the recipe works on (after Box-Cox).
+	ShiftIndex int
+	ShiftSize  float64
+	// TrendIntercept and TrendSlope are the line a + b·t (t from 0) that a
+	// trend-stationary series follows, on the recipe's scale (NaN
+	// otherwise); the slope is per observation.
+	TrendIntercept, TrendSlope float64
+	// SpreadCause is why the spread changes ("" when it is stable).
+	SpreadCause SpreadCause
+	// SeasonalKind is fixed or drifting for a seasonal series ("" when not
+	// seasonal).
+	SeasonalKind SeasonalKind
+	// SecondPeriod is a second seasonal period found beyond Period (0 when
+	// none); SecondPeriodHandled says whether the recipe removes it too
+	// (it does when SecondPeriod is a multiple of Period: the recipe then
+	// works at SecondPeriod, which removes both patterns).
+	SecondPeriod        int
+	SecondPeriodHandled bool
+	// Demand is the share of zeros and the demand class.
+	Demand DemandProfile
+	// Outliers are the 0-based positions of isolated outliers; the tests
+	// judge the series with each replaced by its robust fit, so that an
+	// outlier neither makes a series non-stationary nor picks its
+	// transform.
+	Outliers []int
+	// The recommended recipe: D seasonal differences at the recipe's
+	// period (or fixed seasonal means), a trend or level shift removed, d
 	// plain differences, after a Box-Cox transform with BoxCoxLambda when
-	// it is not NaN.
+	// it is not NaN. Recipe() returns it whole.
 	SeasonalDifferences, Differences int
 	BoxCoxLambda                     float64
-	Period                           int
+	// Period is the seasonal period judged (given or detected).
+	Period int
+	// Cured reports whether the series after the recipe passes the same
+	// tests; LeftViolations are those it still fails.
+	Cured          bool
+	LeftViolations []Violation
+	// OverDifferenced is set when the differenced series looks
+	// over-differenced (lag-1 autocorrelation, or lag-s after seasonal
+	// differencing, below -0.4).
+	OverDifferenced bool
+	// Reason explains the verdict in one to three plain sentences.
+	Reason string
 	// Score ranks series by how far they are from stationary (see
-	// Stationarity); 0 for a series with no evidence against.
+	// VerdictScore); it runs from 0 to 3.
 	Score float64
+	// MeanShare, SpreadShare and SeasonalShare are the score's three parts.
+	MeanShare, SpreadShare, SeasonalShare float64
 	// The tests behind the verdict. ADF and KPSS are the first step of the
-	// differencing sequence: on the original series, or, for a seasonal
-	// series, on its seasonal differences (the tests that chose d; on the
-	// levels a seasonal pattern would mislead both). Stability holds the
-	// segment tests on the original series only (its ARCH, trend and
-	// Mann-Kendall fields are NaN; call Stability for those).
+	// differencing sequence: on the series after its seasonal step (seasonal
+	// means removed, or seasonal differences), the tests that chose d.
+	// Stability holds the segment tests on the same series (its ARCH,
+	// trend and Mann-Kendall fields are NaN; call Stability for those).
 	ADF, KPSS   UnitRootResult
 	Stability   StabilityResult
 	Seasonality SeasonalityResult
-	// SpreadPValue is the spread test after the recommended differencing.
+	// Break is the test for one break in the mean of the series after its
+	// seasonal step (status too_short or season_unknown when not run).
+	Break MeanBreakResult
+	// SpreadPValue is the spread test on the series as it came (before any
+	// Box-Cox transform) after its mean has been dealt with (differenced,
+	// detrended or shift removed).
 	SpreadPValue float64
-	// Differenced is the series after the recommended seasonal and plain
-	// differences, without the Box-Cox transform (so Recipe().Apply gives
-	// the same values when BoxCoxLambda is NaN). It may be the input itself.
+	// Differenced is the series after the whole recipe, applied to the
+	// series with its outliers replaced.
 	Differenced []float64
 	Status      Status
+
+	recipe Recipe
+	// extremes counts values the outlier rule flags when they are too
+	// many (more than max(5, n/50)) to set aside as isolated outliers.
+	extremes int
+	// fixedFailed: OCSB called the pattern fixed, but subtracting fixed
+	// means did not cure the series and a seasonal difference did.
+	fixedFailed bool
 }
 
-// Recipe returns the recommended transform as a Recipe.
+// Recipe returns the recommended transform (without anchors: Apply it).
 func (r StationarityResult) Recipe() Recipe {
-	rec := Recipe{Period: r.Period, SeasonalDifferences: r.SeasonalDifferences, Differences: r.Differences}
-	if !math.IsNaN(r.BoxCoxLambda) {
-		rec.BoxCox, rec.Lambda = true, r.BoxCoxLambda
-	}
+	rec := r.recipe
+	rec.Head, rec.Tail, rec.Length = nil, nil, 0
 	return rec
 }
 
 // ViolationList returns the violations joined by commas ("" when stationary).
 func (r StationarityResult) ViolationList() string {
-	parts := make([]string, len(r.Violations))
-	for i, v := range r.Violations {
-		parts[i] = string(v)
+	return joinViolations(r.Violations)
+}
+
+func joinViolations(v []Violation) string {
+	parts := make([]string, len(v))
+	for i, x := range v {
+		parts[i] = string(x)
 	}
 	return strings.Join(parts, ",")
 }
 
-// Stationarity judges the three conditions of stationarity for x and
-// recommends a transform:
+// Stationarity judges the three conditions of stationarity for x, says
+// why each broken one is broken, and recommends a recipe that cures what
+// it diagnoses:
 //
-//  1. Seasonality: the period (given or detected) and the STL seasonal
-//     strength. The series is seasonal, and gets D = 1 seasonal difference,
-//     when the strength is at least SeasonalStrengthThreshold, or when it is
-//     at least ModerateSeasonalStrength and the OCSB test (Osborn et al.
-//  1988. does not reject a seasonal unit root at 5%: a stochastic
-//     seasonal pattern that only seasonal differencing removes.
-//  2. Differences d (0 to 2) on the seasonally differenced series, by a
-//     sequence of KPSS tests (level, automatic bandwidth) cross-checked with
-//     ADF (constant, AIC); see needsDifference.
-//  3. Mean stable: d = 0 and the segment-means test (Stability) does not
-//     reject.
-//  4. Spread stable: the segment-spread test does not reject on the series
-//     after the recommended differencing (so that a wandering mean does not
-//     pass for a changing spread).
-//  5. Box-Cox λ (Guerrero 1993), recommended when the data are positive,
-//     the spread is unstable on the original series, and the segment
-//     standard deviations rise with the segment means (correlation > 0.5):
-//     the spread grows with the level. NaN otherwise.
+//  1. Demand profile (Demand): the share of zeros and, for series that are
+//     never negative, the demand class. Intermittent or lumpy demand gets
+//     no outlier screening and no power transform.
+//  2. Period: given, or detected from the autocorrelation of the first
+//     differences (Seasonality).
+//  3. Outliers (Outliers): isolated outliers are replaced by their robust
+//     fit before any test, and listed.
+//  4. The series is judged (judge): seasonality and its kind, the cause of
+//     a moving mean, the spread after the mean is dealt with and the cause
+//     of its change, a second seasonal period.
+//  5. When the spread follows the level and the data are positive, a
+//     Box-Cox λ is chosen by Guerrero's (1993) criterion on the series'
+//     changes (LambdaOfChanges) and the transformed series is judged
+//     again: the recipe is decided on that scale.
+//  6. The recipe is applied and its output judged by the same tests
+//     (Cured, LeftViolations), and checked for over-differencing.
+//  7. Reason and Score.
 //
-// The segment tests of means and spreads run at α/4 each (Bonferroni over
-// the tests of one series); with ADF's firm rejection at α/4 needed to keep
-// a series undifferenced, a stationary series is flagged on anything with a
-// probability of about α (measured on the demo: see the test in
-// cmd/internal/demodata).
-//
-// The score adds the evidence against each condition:
-//
-//	score = min(10, -log10 p_mean) + min(10, -log10 p_spread) + 10·F_s·[seasonal],
-//
-// with p_mean the smaller of the segment-means p-value and the KPSS p-value
-// of the differencing sequence's first step (after the seasonal
-// differences, so that a seasonal pattern counts once, through F_s), p_spread the spread test after the recommended
-// differencing (SpreadPValue), and F_s the seasonal strength. It runs from 0
-// to 30.
+// See judge for the decisions and VerdictScore for the score. The level α
+// applies to each decision; the segment tests of means and spreads and the
+// break and trend tests that can flag a stationary series run at α/4 each,
+// so that a stationary series is flagged on anything with a probability of
+// a few times α/4 (measured in TestVerdictPatterns).
 func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, error) {
 	alpha := opts.Alpha
 	if alpha == 0 {
@@ -120,77 +205,143 @@ func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, er
 	if !(alpha > 0 && alpha < 1) {
 		return StationarityResult{}, errorf("stationarity: alpha must be between 0 and 1, got %v", opts.Alpha)
 	}
-	r := StationarityResult{BoxCoxLambda: math.NaN(), SpreadPValue: math.NaN()}
-	season, err := Seasonality(x, SeasonalityOptions{Period: opts.Period, Candidates: opts.Candidates, skipOCSBWhenSeasonal: true})
+	if opts.Period < 0 || opts.Period == 1 {
+		return StationarityResult{}, errorf("seasonality: the period must be 0 (detect) or at least 2, got %d", opts.Period)
+	}
+	r := emptyVerdict()
+	unjudged := func(s Status) (StationarityResult, error) {
+		r.Status, r.Reason = s, StatusReason(s)
+		return r, nil
+	}
+	if s := checkFinite(x); s != StatusOK {
+		return unjudged(s)
+	}
+	if len(x) >= 2 && isConstant(x) {
+		return unjudged(StatusConstant)
+	}
+	if len(x) < 16 {
+		return unjudged(StatusTooShort)
+	}
+	r.Demand = Demand(x)
+	period, detected := opts.Period, false
+	if period == 0 {
+		candidates := opts.Candidates
+		if candidates == nil {
+			candidates = DefaultPeriods
+		}
+		period = findPeriod(x, candidates)
+		detected = period > 0
+	}
+	clean := x
+	if !r.Demand.Intermittent() {
+		out := Outliers(x, OutlierOptions{Period: period})
+		if n := len(out.Positions); n > max(5, len(x)/50) {
+			// Too many to be isolated outliers: heavy tails or skew, which
+			// the tests should see.
+			r.extremes = n
+		} else {
+			clean, r.Outliers = out.Cleaned, out.Positions
+		}
+	}
+	j, err := judge(clean, judgeOptions{period: period, alpha: alpha, segments: opts.Segments, secondPeriods: true})
 	if err != nil {
 		return r, err
 	}
-	r.Seasonality = season
-	if season.Status != StatusOK && season.Status != StatusSeasonUnknown {
-		r.Status = season.Status
-		return r, nil
+	if j.status != StatusOK {
+		return unjudged(j.status)
 	}
-	if len(x) < 16 {
-		r.Status = StatusTooShort
-		return r, nil
+	first := j
+	lambda := math.NaN()
+	scale := clean // the series on the scale the recipe's later steps work on
+	if first.spreadCause == SpreadLevel && !r.Demand.Intermittent() && minimum(clean) > 0 {
+		lambdaPeriod := 0
+		if j.seasonal {
+			lambdaPeriod = j.recipe.Period
+		}
+		if l, s := LambdaOfChanges(clean, lambdaPeriod); s == StatusOK {
+			if y, s := BoxCox(clean, l); s == StatusOK {
+				j2, err := judge(y, judgeOptions{period: period, alpha: alpha, segments: opts.Segments, secondPeriods: true})
+				if err != nil {
+					return r, err
+				}
+				if j2.status == StatusOK {
+					j, lambda, scale = j2, l, y
+				}
+			}
+		}
 	}
-	each := alpha / 4
-	r.Period = season.Period
-	y := x
-	stochastic := season.OCSB.Status == StatusOK && season.OCSB.SeasonalUnitRoot
-	if season.Seasonal || stochastic {
-		r.Seasonal = true
-		r.SeasonalDifferences = 1
-		y, _ = Difference(x, season.Period, 1)
+	base := r
+	finish := func(j judgement) StationarityResult {
+		v := base
+		v.fill(j, first, detected)
+		v.BoxCoxLambda = lambda
+		if !math.IsNaN(lambda) {
+			v.recipe.BoxCox, v.recipe.Lambda = true, lambda
+		}
+		v.checkCure(clean, j, alpha, opts.Segments)
+		return v
 	}
-	stabilityPeriod := 0
-	if season.Status == StatusOK {
-		stabilityPeriod = season.Period
-	}
-	for r.Differences < 2 {
-		adf, err := ADF(y, ADFOptions{})
+	r = finish(j)
+	// A fixed pattern whose means leave the output failing while a seasonal
+	// difference cures it was drifting after all.
+	if !r.Cured && j.kind == SeasonalFixed {
+		alt, err := judge(scale, judgeOptions{alpha: alpha, segments: opts.Segments,
+			step: &seasonalStep{period: j.recipe.Period, season: j.season}})
 		if err != nil {
 			return r, err
 		}
-		// KPSS is reported for the first step; after that it is computed
-		// only when it decides (ADF's p-value between α/4 and α).
-		kpss := UnitRootResult{Status: StatusOK, PValue: math.NaN()}
-		if r.Differences == 0 || (adf.PValue >= alpha/4 && adf.PValue < alpha) {
-			if kpss, err = KPSS(y, KPSSOptions{}); err != nil {
-				return r, err
+		if alt.status == StatusOK {
+			alt.period, alt.secondPeriod, alt.secondHandled = j.period, j.secondPeriod, j.secondHandled
+			if v := finish(alt); v.Cured {
+				r = v
+				r.fixedFailed = true
 			}
 		}
-		if r.Differences == 0 {
-			r.ADF, r.KPSS = adf, kpss
-		}
-		if adf.Status != StatusOK || kpss.Status != StatusOK {
-			break
-		}
-		if !needsDifference(kpss.PValue, adf.PValue, alpha) {
-			break
-		}
-		y, _ = Difference(y, 1, 1)
-		r.Differences++
 	}
-	r.Stability, err = stability(x, StabilityOptions{Segments: opts.Segments, Period: stabilityPeriod}, false)
-	if err != nil {
-		return r, err
+	r.Score = r.MeanShare + r.SpreadShare + r.SeasonalShare
+	r.Reason = reason(&r)
+	r.Status = StatusOK
+	if r.Seasonality.Status == StatusSeasonUnknown {
+		r.Status = StatusSeasonUnknown
+		r.Reason += " No seasonal period was given or found, so seasonality was not judged."
 	}
-	if r.Stability.Status != StatusOK {
-		r.Status = r.Stability.Status
-		return r, nil
+	return r, nil
+}
+
+// emptyVerdict is a result with every number NaN.
+func emptyVerdict() StationarityResult {
+	n := math.NaN()
+	return StationarityResult{BoxCoxLambda: n, SpreadPValue: n, ShiftIndex: -1, ShiftSize: n,
+		TrendIntercept: n, TrendSlope: n, Score: n, MeanShare: n, SpreadShare: n, SeasonalShare: n,
+		Demand: DemandProfile{ZeroShare: n, AverageInterval: n, SizeVariation: n},
+		Break:  MeanBreakResult{Statistic: n, PValue: n, Before: n, After: n, Size: n, SizeSD: n, SSR: n, Index: -1, Status: StatusTooShort}}
+}
+
+// fill copies a judgement into the result: j decided the recipe (on the
+// Box-Cox scale when a λ was chosen), first is the judgement of the series
+// as it came, which says whether its spread is stable and why not.
+func (r *StationarityResult) fill(j, first judgement, detected bool) {
+	r.Seasonality = j.season
+	r.Seasonality.Detected = detected
+	r.Period = j.period
+	r.Seasonal, r.SeasonalKind = j.seasonal, j.kind
+	r.SecondPeriod, r.SecondPeriodHandled = j.secondPeriod, j.secondHandled
+	r.SeasonalDifferences, r.Differences = j.recipe.SeasonalDifferences, j.recipe.Differences
+	r.MeanCause = j.meanCause
+	if j.recipe.Shift {
+		r.ShiftIndex, r.ShiftSize = j.recipe.ShiftIndex, j.recipe.ShiftSize
 	}
-	r.MeanStable = r.Differences == 0 && !(r.Stability.MeanPValue < each)
-	r.SpreadPValue = r.Stability.SpreadPValue
-	if r.Differences > 0 || r.SeasonalDifferences > 0 {
-		r.SpreadPValue = spreadPValue(y, opts.Segments)
+	if j.recipe.Trend {
+		r.TrendIntercept, r.TrendSlope = j.recipe.TrendIntercept, j.recipe.TrendSlope
 	}
-	r.SpreadStable = !(r.SpreadPValue < each)
-	r.Differenced = y
-	if !(r.Stability.SpreadPValue >= each) && r.Stability.MeanSpreadCorrelation > 0.5 {
-		if lambda, s := GuerreroLambda(x, stabilityPeriod); s == StatusOK {
-			r.BoxCoxLambda = lambda
-		}
+	r.ADF, r.KPSS, r.Stability, r.Break = j.adf, j.kpss, j.stability, j.brk
+	r.SpreadPValue, r.SpreadCause = first.spreadP, first.spreadCause
+	r.MeanStable = j.meanCause == ""
+	r.SpreadStable = first.spreadCause == ""
+	r.recipe = j.recipe
+	r.MeanShare, r.SpreadShare, r.SeasonalShare = j.meanShare, j.spreadShare, 0
+	if r.Seasonal {
+		r.SeasonalShare = j.season.SeasonalStrength
 	}
 	if !r.MeanStable {
 		r.Violations = append(r.Violations, ViolationMean)
@@ -202,28 +353,79 @@ func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, er
 		r.Violations = append(r.Violations, ViolationSeasonal)
 	}
 	r.Stationary = len(r.Violations) == 0
-	pMean := r.Stability.MeanPValue
-	if r.KPSS.Status == StatusOK {
-		pMean = math.Min(pMean, r.KPSS.PValue)
-	}
-	r.Score = evidence(pMean) + evidence(r.SpreadPValue)
-	if r.Seasonal {
-		r.Score += 10 * season.SeasonalStrength
-	}
-	if r.Seasonality.Status == StatusSeasonUnknown {
-		r.Status = StatusSeasonUnknown
-	} else {
-		r.Status = StatusOK
-	}
-	return r, nil
 }
 
-// evidence is -log10 p capped at 10; NaN counts as no evidence.
-func evidence(p float64) float64 {
-	if math.IsNaN(p) {
-		return 0
+// checkCure applies the recipe to the cleaned series and judges its output
+// with the verdict's own tests.
+func (r *StationarityResult) checkCure(clean []float64, j judgement, alpha float64, segments int) {
+	rec := r.recipe
+	y, s, err := rec.Apply(clean)
+	if err != nil || s != StatusOK {
+		r.LeftViolations = append([]Violation(nil), r.Violations...)
+		r.Cured = len(r.LeftViolations) == 0
+		return
 	}
-	return math.Min(10, -math.Log10(math.Max(p, 1e-300)))
+	r.Differenced = y
+	r.LeftViolations = leftViolations(y, j, alpha, segments)
+	r.Cured = len(r.LeftViolations) == 0
+	if rec.Differences > 0 {
+		if a := autocorrelationAt(y, []int{1}); a != nil && a[0] < -0.4 {
+			r.OverDifferenced = true
+		}
+	}
+	if rec.SeasonalDifferences > 0 && rec.Period < len(y) {
+		if a := autocorrelationAt(y, []int{rec.Period}); a != nil && a[0] < -0.4 {
+			r.OverDifferenced = true
+		}
+	}
+}
+
+// leftViolations judges y, the output of the recipe, by the tests the
+// verdict uses: a unit root (ADF and KPSS as in the differencing sequence)
+// or unequal segment means; unequal segment spreads; a seasonal pattern at
+// the period (or periods) judged.
+func leftViolations(y []float64, j judgement, alpha float64, segments int) []Violation {
+	var out []Violation
+	each := alpha / 4
+	if len(y) < 16 || isConstant(y) {
+		return nil
+	}
+	adf, err1 := ADF(y, ADFOptions{})
+	kpss, err2 := KPSS(y, KPSSOptions{})
+	meanBad := err1 == nil && err2 == nil && adf.Status == StatusOK && kpss.Status == StatusOK &&
+		needsDifference(kpss.PValue, adf.PValue, alpha)
+	st, err := stability(y, StabilityOptions{Segments: segments}, false)
+	if err == nil && st.Status == StatusOK {
+		if st.MeanPValue < each {
+			meanBad = true
+		}
+		if st.SpreadPValue < each {
+			out = append(out, ViolationSpread)
+		}
+	}
+	if meanBad {
+		out = append([]Violation{ViolationMean}, out...)
+	}
+	for _, p := range []int{j.period, j.secondPeriod} {
+		if p < 2 || len(y) < 2*p {
+			continue
+		}
+		season, err := Seasonality(y, SeasonalityOptions{Period: p})
+		if err == nil && season.Status == StatusOK && seasonalBySeason(season) {
+			out = append(out, ViolationSeasonal)
+			break
+		}
+	}
+	return out
+}
+
+// minimum returns the smallest value of x.
+func minimum(x []float64) float64 {
+	m := math.Inf(1)
+	for _, v := range x {
+		m = math.Min(m, v)
+	}
+	return m
 }
 
 // needsDifference decides one step of the differencing sequence from the

@@ -97,13 +97,6 @@ func TestZivotAndrewsSizeAndPower(t *testing.T) {
 	}
 }
 
-func abs(v int) int {
-	if v < 0 {
-		return -v
-	}
-	return v
-}
-
 // TestZivotAndrewsPValueCalibrated: under the null hypothesis the p-value
 // is uniform, so at each level l the share of random walks with p < l is l
 // within 3.5 binomial standard deviations. Random walks of length 60, 100

@@ -269,15 +269,21 @@ func stationarityFunctions(t *types) []*function {
 	}}
 }
 
-// verdictFields is the layout of the stationarity STRUCT, shared by diagnose.
+// verdictFields is the layout of the stationarity STRUCT, shared by
+// diagnose (which reports shift_at as a time, see diagnoseFields).
 func verdictFields(t *types) []field {
 	d := t.double()
 	return []field{
 		{"mean_stable", t.boolean()}, {"spread_stable", t.boolean()},
 		{"seasonal", t.boolean()}, {"stationary", t.boolean()},
 		{"violations", t.list(t.varchar())},
+		{"mean_cause", t.varchar()}, {"shift_at", t.bigint()}, {"shift_size", d}, {"trend_slope", d},
+		{"spread_cause", t.varchar()}, {"seasonal_kind", t.varchar()}, {"second_period", t.bigint()},
+		{"zero_share", d}, {"demand_class", t.varchar()}, {"outliers", t.bigint()},
 		{"differences", t.bigint()}, {"seasonal_differences", t.bigint()},
-		{"box_cox_lambda", d}, {"period", t.bigint()}, {"score", d},
+		{"box_cox_lambda", d}, {"period", t.bigint()},
+		{"cured", t.boolean()}, {"left_violations", t.list(t.varchar())}, {"over_differenced", t.boolean()},
+		{"reason", t.varchar()}, {"score", d},
 		{"adf_statistic", d}, {"adf_p_value", d}, {"adf_lags", t.bigint()},
 		{"kpss_statistic", d}, {"kpss_p_value", d}, {"kpss_lags", t.bigint()},
 		{"mean_p_value", d}, {"spread_p_value", d}, {"seasonal_strength", d},
@@ -305,10 +311,6 @@ func stationarityOptions(period, alpha driver.Value) (stats.StationarityOptions,
 
 func stationarityStruct(r stats.StationarityResult) map[string]any {
 	ok := r.Status == stats.StatusOK || r.Status == stats.StatusSeasonUnknown
-	violations := make([]any, len(r.Violations))
-	for i, v := range r.Violations {
-		violations[i] = string(v)
-	}
 	var period any
 	if r.Period > 0 {
 		period = int64(r.Period)
@@ -321,20 +323,55 @@ func stationarityStruct(r stats.StationarityResult) map[string]any {
 	kpssOK := ok && r.KPSS.Status == stats.StatusOK
 	out := map[string]any{
 		"mean_stable": nil, "spread_stable": nil, "seasonal": nil, "stationary": nil, "violations": nil,
+		"mean_cause": nil, "shift_at": nil, "shift_size": nil, "trend_slope": nil,
+		"spread_cause": nil, "seasonal_kind": nil, "second_period": nil,
+		"zero_share": orNull(r.Demand.ZeroShare), "demand_class": textOrNull(string(r.Demand.Class)), "outliers": nil,
 		"differences": nil, "seasonal_differences": nil,
-		"box_cox_lambda": lambda, "period": period, "score": value(r.Score, ok),
+		"box_cox_lambda": lambda, "period": period,
+		"cured": nil, "left_violations": nil, "over_differenced": nil,
+		"reason": r.Reason, "score": value(r.Score, ok),
 		"adf_statistic": value(r.ADF.Statistic, adfOK), "adf_p_value": value(r.ADF.PValue, adfOK), "adf_lags": count(r.ADF.Lags, adfOK),
 		"kpss_statistic": value(r.KPSS.Statistic, kpssOK), "kpss_p_value": value(r.KPSS.PValue, kpssOK), "kpss_lags": count(r.KPSS.Lags, kpssOK),
 		"mean_p_value": value(r.Stability.MeanPValue, ok), "spread_p_value": value(r.SpreadPValue, ok),
 		"seasonal_strength": orNull(r.Seasonality.SeasonalStrength),
 		"status":            string(r.Status),
 	}
-	if ok {
-		out["mean_stable"], out["spread_stable"], out["seasonal"], out["stationary"] = r.MeanStable, r.SpreadStable, r.Seasonal, r.Stationary
-		out["violations"] = violations
-		out["differences"], out["seasonal_differences"] = int64(r.Differences), int64(r.SeasonalDifferences)
+	if !ok {
+		return out
+	}
+	out["mean_stable"], out["spread_stable"], out["seasonal"], out["stationary"] = r.MeanStable, r.SpreadStable, r.Seasonal, r.Stationary
+	out["violations"] = textList(r.Violations)
+	out["mean_cause"] = textOrNull(string(r.MeanCause))
+	if r.ShiftIndex >= 0 {
+		out["shift_at"], out["shift_size"] = int64(r.ShiftIndex+1), orNull(r.ShiftSize)
+	}
+	out["trend_slope"] = orNull(r.TrendSlope)
+	out["spread_cause"] = textOrNull(string(r.SpreadCause))
+	out["seasonal_kind"] = textOrNull(string(r.SeasonalKind))
+	if r.SecondPeriod > 0 {
+		out["second_period"] = int64(r.SecondPeriod)
+	}
+	out["outliers"] = int64(len(r.Outliers))
+	out["differences"], out["seasonal_differences"] = int64(r.Differences), int64(r.SeasonalDifferences)
+	out["cured"], out["left_violations"], out["over_differenced"] = r.Cured, textList(r.LeftViolations), r.OverDifferenced
+	return out
+}
+
+// textList is a LIST(VARCHAR) value of violations.
+func textList(v []stats.Violation) []any {
+	out := make([]any, len(v))
+	for i, x := range v {
+		out[i] = string(x)
 	}
 	return out
+}
+
+// textOrNull returns s, or SQL NULL for the empty string.
+func textOrNull(s string) any {
+	if s == "" {
+		return nil
+	}
+	return s
 }
 
 const conditionMacros = `

@@ -52,7 +52,17 @@ func TestConditionsSQL(t *testing.T) {
 		{"SELECT seasonality(x).detected FROM series WHERE dataset = 'nottem'", "true"},
 		// nottem's monthly temperatures repeat a fixed yearly shape: no seasonal unit root.
 		{"SELECT seasonality(x).seasonal_unit_root FROM series WHERE dataset = 'nottem'", "false"},
-		{"SELECT stationarity(x, period := 12).seasonal_differences FROM series WHERE dataset = 'co2'", "1"},
+		// co2's yearly cycle is a fixed shape on a rising level: OCSB rejects a
+		// seasonal unit root, so its seasonal means are removed instead of
+		// taking a seasonal difference.
+		{"SELECT stationarity(x, period := 12).seasonal_kind FROM series WHERE dataset = 'co2'", "fixed"},
+		{"SELECT stationarity(x, period := 12).seasonal_differences FROM series WHERE dataset = 'co2'", "0"},
+		// The Nile's flow fell around 1898-99 (Cobb 1978, from memory): one
+		// level shift, first observation after it the 29th (1899).
+		{"SELECT stationarity(x).mean_cause FROM series WHERE dataset = 'nile'", "level_shift"},
+		{"SELECT stationarity(x).shift_at FROM series WHERE dataset = 'nile'", "29"},
+		{"SELECT stationarity(x).differences FROM series WHERE dataset = 'nile'", "0"},
+		{"SELECT stationarity(x).cured FROM series WHERE dataset = 'nile'", "true"},
 		{"SELECT stationarity(x).status FROM series WHERE dataset = 'nile'", "season_unknown"},
 		{"SELECT stationarity(x).violations FROM series WHERE dataset = 'nile'", "[mean]"},
 		{"SELECT stability(x).segments FROM series WHERE dataset = 'nile'", "4"},
@@ -65,6 +75,13 @@ func TestConditionsSQL(t *testing.T) {
 		{"SELECT white_noise([1, 2]).status", "too_short"},
 		{"SELECT seasonality(range(20)::DOUBLE[], period := 12).status", "season_unknown"},
 		{"SELECT stationarity(NULL::DOUBLE[])", "NULL"},
+		// One spike of 50 among values 1 to 4: position 7 (1-based).
+		{"SELECT outlier_positions([1, 2, 3, 4, 1, 2, 50, 4, 1, 2, 3, 4, 1, 2, 3, 4])", "[7]"},
+		{"SELECT outlier_positions([1, 2, NULL, 4, 1, 2, 50, 4, 1, 2, 3, 4])", "NULL"},
+		// Syntetos, Boylan & Croston (2005) cut-offs: 2 demands in 6 days
+		// (interval 3), sizes 5 and 5 (CV² 0): intermittent.
+		{"SELECT demand_profile([0, 0, 5, 0, 0, 5]).demand_class", "intermittent"},
+		{"SELECT round(demand_profile([0, 0, 5, 0, 0, 5]).zero_share, 4)", "0.6667"},
 	} {
 		if got := queryString(t, db, test.query); got != test.want {
 			t.Errorf("%s = %s, want %s", test.query, got, test.want)
@@ -76,6 +93,7 @@ func TestConditionsSQL(t *testing.T) {
 		{"SELECT rolling_spread([1, 2, 3], 1)", "width must be at least 2"},
 		{"SELECT stability([1, 2, 3], segments := 1)", "segments must be 0"},
 		{"SELECT white_noise([1, 2, 3], lags := -1)", "must not be negative"},
+		{"SELECT outlier_positions([1, 2, 3], period := 1)", "period must be NULL"},
 	} {
 		if msg := queryError(t, db, test.query); !strings.Contains(msg, test.want) {
 			t.Errorf("%s: error %q does not say %q", test.query, msg, test.want)

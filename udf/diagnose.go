@@ -4,6 +4,7 @@ import (
 	"database/sql/driver"
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 	"sync/atomic"
 
@@ -26,7 +27,7 @@ func diagnoseFunctions(t *types) []*function {
 	fields := append(verdictFields(t),
 		field{"n_used", t.bigint()}, field{"step", t.bigint()},
 		field{"gaps", t.bigint()}, field{"missing", t.bigint()},
-		field{"ljung_box_p_value", t.double()},
+		field{"ljung_box_p_value", t.double()}, field{"shift_point", t.bigint()},
 	)
 	return []*function{{
 		name:     "plumb_diagnose",
@@ -55,8 +56,8 @@ func diagnoseFunctions(t *types) []*function {
 				}
 				fill = stats.FillMethod(s)
 			}
-			p.sortByTime()
-			return diagnoseGroup(p.at, p.values, opts, fill)
+			order := p.sortByTime()
+			return diagnoseGroup(p.at, p.values, order, opts, fill)
 		},
 	}, {
 		// plumb_q_values(p DOUBLE[]) -> DOUBLE[]: Benjamini-Hochberg
@@ -104,13 +105,14 @@ var groupsDone atomic.Int64
 // so far; a command polls it to show progress on a long scan.
 func GroupsDone() int64 { return groupsDone.Load() }
 
-// diagnoseGroup judges one group.
-func diagnoseGroup(at []int64, x []float64, opts stats.StationarityOptions, fill stats.FillMethod) (any, error) {
+// diagnoseGroup judges one group: its points sorted by time, with order
+// saying where each stood in the list as aggregated (nil: in order).
+func diagnoseGroup(at []int64, x []float64, order []int, opts stats.StationarityOptions, fill stats.FillMethod) (any, error) {
 	for i := 1; i < len(at); i++ {
 		if at[i] == at[i-1] {
-			out := stationarityStruct(stats.StationarityResult{Status: duplicateAt, BoxCoxLambda: math.NaN()})
-			out["seasonal_strength"] = nil
-			for _, k := range []string{"n_used", "step", "gaps", "missing", "ljung_box_p_value"} {
+			out := stationarityStruct(stats.StationarityResult{Status: duplicateAt, BoxCoxLambda: math.NaN(), ShiftIndex: -1})
+			out["seasonal_strength"], out["reason"] = nil, nil
+			for _, k := range []string{"n_used", "step", "gaps", "missing", "ljung_box_p_value", "shift_point"} {
 				out[k] = nil
 			}
 			return out, nil
@@ -130,22 +132,18 @@ func diagnoseGroup(at []int64, x []float64, opts stats.StationarityOptions, fill
 	out["step"] = int64(reg.Step)
 	out["gaps"] = int64(reg.Gaps)
 	out["missing"] = int64(reg.Missing)
-	out["ljung_box_p_value"] = nil
+	out["ljung_box_p_value"], out["shift_point"] = nil, nil
 	failed := v.Status != stats.StatusOK && v.Status != stats.StatusSeasonUnknown
 	if !failed {
-		// The series after its recommended transform: the verdict's own
-		// differences unless a Box-Cox transform comes first.
-		y, s := v.Differenced, stats.StatusOK
-		if !math.IsNaN(v.BoxCoxLambda) {
-			recipe := v.Recipe()
-			if y, s, err = recipe.Apply(reg.Values); err != nil {
-				s = stats.StatusTooShort
-			}
-		}
-		if s == stats.StatusOK {
-			if lb, err := stats.LjungBox(y, 0, 0); err == nil && lb.Status == stats.StatusOK {
+		// The series after its recommended transform (the verdict's own,
+		// applied to the series with its outliers set aside).
+		if v.Differenced != nil {
+			if lb, err := stats.LjungBox(v.Differenced, 0, 0); err == nil && lb.Status == stats.StatusOK {
 				out["ljung_box_p_value"] = lb.PValue
 			}
+		}
+		if v.ShiftIndex >= 0 {
+			out["shift_point"] = int64(observationAt(at, reg, v.ShiftIndex, order))
 		}
 	}
 	switch {
@@ -156,6 +154,23 @@ func diagnoseGroup(at []int64, x []float64, opts stats.StationarityOptions, fill
 		out["status"] = "gaps_ignored"
 	}
 	return out, nil
+}
+
+// observationAt returns where, in the list of points as aggregated, the
+// first observation at or after position i of the judged series stands:
+// position i is an observation's own index when nothing was filled, and a
+// point of the regular grid from at[0] in steps of reg.Step otherwise.
+func observationAt(at []int64, reg stats.Regular, i int, order []int) int {
+	k := i
+	if len(reg.Values) != len(at) {
+		t := at[0] + int64(i)*reg.Step
+		k, _ = slices.BinarySearch(at, t)
+		k = min(k, len(at)-1)
+	}
+	if order != nil {
+		return order[k]
+	}
+	return k
 }
 
 // sqlLiteral renders a NULL, integer or float argument back as SQL.
@@ -173,16 +188,25 @@ func sqlLiteral(v driver.Value) string {
 // diagnoseTests are the p-value columns that get Benjamini-Hochberg q-values.
 var diagnoseTests = []string{"adf", "kpss", "mean", "spread", "ljung_box"}
 
+// diagnoseColumns are the per-group columns of diagnose after the group
+// columns, n, first_at and last_at, in order; status must come first.
+var diagnoseColumns = []string{"status", "reason", "gaps", "missing", "n_used",
+	"mean_stable", "spread_stable", "seasonal", "stationary", "violations",
+	"mean_cause", "shift_at", "shift_size", "trend_slope", "spread_cause", "seasonal_kind", "second_period",
+	"zero_share", "demand_class", "outliers",
+	"differences", "seasonal_differences", "box_cox_lambda", "period", "seasonal_strength",
+	"cured", "left_violations", "over_differenced", "score",
+	"adf_statistic", "adf_p_value", "adf_lags", "kpss_statistic", "kpss_p_value", "kpss_lags",
+	"mean_p_value", "spread_p_value", "ljung_box_p_value"}
+
 func diagnoseSQL(q seriesQuery, period, alpha, fill string) string {
 	by := q.byList("")
-	fields := []string{"status", "gaps", "missing", "n_used",
-		"mean_stable", "spread_stable", "seasonal", "stationary", "violations",
-		"differences", "seasonal_differences", "box_cox_lambda", "period", "seasonal_strength", "score",
-		"adf_statistic", "adf_p_value", "adf_lags", "kpss_statistic", "kpss_p_value", "kpss_lags",
-		"mean_p_value", "spread_p_value", "ljung_box_p_value"}
-	picks := make([]string, len(fields))
-	for i, f := range fields {
+	picks := make([]string, len(diagnoseColumns))
+	for i, f := range diagnoseColumns {
 		picks[i] = fmt.Sprintf("plumb_d.%s AS %s", f, f)
+		if f == "shift_at" {
+			picks[i] = "plumb_shift_at AS shift_at"
+		}
 	}
 	picks[0] = q.duplicateAtCheck("plumb_d.status") + " AS status"
 	// The q-values come from one list per test, in the groups' row order,
@@ -195,9 +219,11 @@ func diagnoseSQL(q seriesQuery, period, alpha, fill string) string {
 		qs = append(qs, fmt.Sprintf("unnest(%[1]s) AS %[1]s_q_value", test))
 	}
 	return fmt.Sprintf(`WITH %[1]s, plumb_judged AS MATERIALIZED (
-    SELECT %[2]s, plumb_rows AS n, plumb_first_at AS first_at, plumb_last_at AS last_at,
-           plumb_diagnose(plumb_points, %[3]s, %[4]s, %[5]s) AS plumb_d
-    FROM plumb_series
+    SELECT %[2]s, n, first_at, last_at, plumb_d,
+           CASE WHEN plumb_d.shift_point IS NOT NULL THEN plumb_points[plumb_d.shift_point + 1].t END AS plumb_shift_at
+    FROM (SELECT %[2]s, plumb_points, plumb_rows AS n, plumb_first_at AS first_at, plumb_last_at AS last_at,
+                 plumb_diagnose(plumb_points, %[3]s, %[4]s, %[5]s) AS plumb_d
+          FROM plumb_series)
 ), plumb_flat AS MATERIALIZED (
     SELECT %[2]s, n, first_at, last_at, %[6]s, row_number() OVER () AS plumb_row
     FROM plumb_judged

@@ -46,23 +46,28 @@ func pointsOf(v driver.Value) (points, error) {
 	return points{at: ts, values: xs}, nil
 }
 
-// sortByTime orders the points by time, keeping each value with its time.
-// A list already in order (the common case: DuckDB's aggregate keeps the
-// order of a file sorted by group and time) costs one pass.
-func (p points) sortByTime() {
+// sortByTime orders the points by time, keeping each value with its time,
+// and returns where each sorted point stood in the list as it came (nil
+// when it was in order already). A list already in order (the common case:
+// DuckDB's aggregate keeps the order of a file sorted by group and time)
+// costs one pass.
+func (p points) sortByTime() []int {
 	if slices.IsSorted(p.at) {
-		return
+		return nil
 	}
 	type point struct {
 		at    int64
 		value float64
+		index int
 	}
 	ps := make([]point, len(p.at))
 	for i := range ps {
-		ps[i] = point{p.at[i], p.values[i]}
+		ps[i] = point{p.at[i], p.values[i], i}
 	}
 	slices.SortStableFunc(ps, func(a, b point) int { return cmp.Compare(a.at, b.at) })
+	order := make([]int, len(ps))
 	for i, q := range ps {
-		p.at[i], p.values[i] = q.at, q.value
+		p.at[i], p.values[i], order[i] = q.at, q.value, q.index
 	}
+	return order
 }

@@ -45,9 +45,15 @@ func (q seriesQuery) byList(prefix string) string {
 // groupLabel is an SQL expression naming the current group in messages,
 // such as store=3, product=milk.
 func (q seriesQuery) groupLabel() string {
+	return q.groupLabelOf("")
+}
+
+// groupLabelOf is groupLabel with the group columns taken from a table
+// alias (prefix "t." reads t."store").
+func (q seriesQuery) groupLabelOf(prefix string) string {
 	parts := make([]string, len(q.by))
 	for i, b := range q.by {
-		parts[i] = fmt.Sprintf("%s || coalesce(%s::VARCHAR, 'NULL')", quoteLiteral(b+"="), quoteIdent(b))
+		parts[i] = fmt.Sprintf("%s || coalesce(%s%s::VARCHAR, 'NULL')", quoteLiteral(b+"="), prefix, quoteIdent(b))
 	}
 	return "concat_ws(', ', " + strings.Join(parts, ", ") + ")"
 }

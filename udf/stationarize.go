@@ -2,8 +2,10 @@ package udf
 
 import (
 	"database/sql/driver"
+	"errors"
 	"fmt"
 	"math"
+	"strings"
 
 	"github.com/duckdb/duckdb-go/v2"
 
@@ -18,23 +20,30 @@ import (
 //	    stationary_value, the value after the group's recipe; each group's
 //	    first D·period + d rows have none (NULL).
 //	stationarize_recipes(source, by, at, value, period := NULL, alpha := 0.05)
-//	    one row per group: the group columns, last_at, status, and the
-//	    recipe: box_cox_lambda (NULL for none), period, seasonal_differences,
-//	    differences, head and tail (the anchors, see stats.Recipe: for each
-//	    differencing pass in order, its lag's worth of values). Store it.
+//	    one row per group: the group columns, n, last_at, step, status, and
+//	    the recipe (see stats.Recipe): box_cox_lambda (NULL for none),
+//	    period, seasonal_means (NULL for none), seasonal_differences,
+//	    trend_intercept and trend_slope (NULL for none), shift_position,
+//	    shift_at and shift_size (NULL for none), differences, and the
+//	    anchors head and tail. Store it.
 //	restore(source, recipes, by, at, value, anchor := 'last')
 //	    source holds values on the transformed scale. With anchor 'last'
-//	    they are forecasts continuing after each group's last_at; with
-//	    'first' they are the stationarized series itself (as stationarize
-//	    returns it, NULLs first). Returns the group columns, at and value in
-//	    original units (NULL for a group with no recipe).
+//	    they are forecasts continuing after each group's last_at on its
+//	    step (a forecast that starts anywhere else is an error naming the
+//	    group); with 'first' they are the stationarized series itself (as
+//	    stationarize returns it, NULLs first). Returns the group columns, at
+//	    and value in original units (NULL for a group with no recipe).
 //
 // stationarize and stationarize_recipes judge each group with the same
 // rules as diagnose (without filling gaps), so they agree with it.
 func stationarizeFunctions(t *types) []*function {
+	d := t.double()
 	recipeFields := []field{
-		{"box_cox_lambda", t.double()}, {"period", t.bigint()},
-		{"seasonal_differences", t.bigint()}, {"differences", t.bigint()},
+		{"box_cox_lambda", d}, {"period", t.bigint()},
+		{"seasonal_means", t.doubles()}, {"seasonal_differences", t.bigint()},
+		{"trend_intercept", d}, {"trend_slope", d},
+		{"shift_position", t.bigint()}, {"shift_size", d},
+		{"differences", t.bigint()},
 		{"head", t.doubles()}, {"tail", t.doubles()},
 	}
 	return []*function{{
@@ -51,12 +60,16 @@ func stationarizeFunctions(t *types) []*function {
 			return stationarizeGroup(x, opts)
 		}),
 	}, {
-		name:     "plumb_restore",
-		params:   []duckdb.TypeInfo{t.doubles(), t.double(), t.bigint(), t.bigint(), t.bigint(), t.doubles(), t.doubles(), t.varchar()},
+		// plumb_restore(values, box_cox_lambda, period, seasonal_means,
+		// seasonal_differences, trend_intercept, trend_slope,
+		// shift_position, shift_size, differences, head, tail, n, anchor)
+		name: "plumb_restore",
+		params: []duckdb.TypeInfo{t.doubles(), d, t.bigint(), t.doubles(), t.bigint(), d, d,
+			t.bigint(), d, t.bigint(), t.doubles(), t.doubles(), t.bigint(), t.varchar()},
 		result:   t.doubles(),
 		nullable: true,
 		eval: func(args []driver.Value) (any, error) {
-			if args[0] == nil || args[4] == nil {
+			if args[0] == nil || args[9] == nil {
 				return nil, nil // no values, or no recipe for the group
 			}
 			return restoreGroup(args)
@@ -109,7 +122,8 @@ func stationarizeFunctions(t *types) []*function {
 // stationarizeGroup judges x, applies its recipe and lays out the result.
 func stationarizeGroup(x []float64, opts stats.StationarityOptions) (any, error) {
 	out := map[string]any{"values": nil, "status": nil, "box_cox_lambda": nil, "period": nil,
-		"seasonal_differences": nil, "differences": nil, "head": nil, "tail": nil}
+		"seasonal_means": nil, "seasonal_differences": nil, "trend_intercept": nil, "trend_slope": nil,
+		"shift_position": nil, "shift_size": nil, "differences": nil, "head": nil, "tail": nil}
 	v, err := stats.Stationarity(x, opts)
 	if err != nil {
 		return nil, err
@@ -132,17 +146,35 @@ func stationarizeGroup(x []float64, opts stats.StationarityOptions) (any, error)
 		padded = append(padded, math.NaN())
 	}
 	out["values"] = doubleList(append(padded, y...))
-	if recipe.BoxCox {
-		out["box_cox_lambda"] = recipe.Lambda
+	for k, v := range recipeColumns(recipe) {
+		out[k] = v
 	}
-	if recipe.Period > 0 {
-		out["period"] = int64(recipe.Period)
-	}
-	out["seasonal_differences"] = int64(recipe.SeasonalDifferences)
-	out["differences"] = int64(recipe.Differences)
-	out["head"] = flatten(recipe.Head)
-	out["tail"] = flatten(recipe.Tail)
 	return out, nil
+}
+
+// recipeColumns lays out a recipe's steps as stationarize_recipes stores
+// them (without the anchors).
+func recipeColumns(r stats.Recipe) map[string]any {
+	out := map[string]any{"box_cox_lambda": nil, "period": nil, "seasonal_means": nil,
+		"trend_intercept": nil, "trend_slope": nil, "shift_position": nil, "shift_size": nil,
+		"seasonal_differences": int64(r.SeasonalDifferences), "differences": int64(r.Differences),
+		"head": flatten(r.Head), "tail": flatten(r.Tail)}
+	if r.BoxCox {
+		out["box_cox_lambda"] = r.Lambda
+	}
+	if r.Period > 0 {
+		out["period"] = int64(r.Period)
+	}
+	if r.SeasonalMeans != nil {
+		out["seasonal_means"] = doubleList(r.SeasonalMeans)
+	}
+	if r.Trend {
+		out["trend_intercept"], out["trend_slope"] = r.TrendIntercept, r.TrendSlope
+	}
+	if r.Shift {
+		out["shift_position"], out["shift_size"] = int64(r.ShiftIndex+1), r.ShiftSize
+	}
+	return out
 }
 
 // flatten joins the recipe's anchors, one slice per pass, into one list.
@@ -170,25 +202,44 @@ func unflatten(flat []float64, lags []int) ([][]float64, error) {
 	return out, nil
 }
 
-// restoreGroup rebuilds a stats.Recipe from its stored columns and restores
-// one group's values.
-func restoreGroup(args []driver.Value) (any, error) {
-	y, err := floats(args[0])
-	if err != nil {
-		return nil, err
-	}
+// recipeFromColumns rebuilds a stats.Recipe from its stored columns, in
+// plumb_restore's argument order from box_cox_lambda (args[0]) to n
+// (args[11]).
+func recipeFromColumns(args []driver.Value) (stats.Recipe, error) {
 	r := stats.Recipe{}
-	if args[1] != nil {
-		r.BoxCox, r.Lambda = true, args[1].(float64)
+	var err error
+	if args[0] != nil {
+		r.BoxCox, r.Lambda = true, args[0].(float64)
 	}
-	if r.Period, err = intOr(args[2], "period", 0); err != nil {
-		return nil, err
+	if r.Period, err = intOr(args[1], "period", 0); err != nil {
+		return r, err
+	}
+	if args[2] != nil {
+		if r.SeasonalMeans, err = floats(args[2]); err != nil {
+			return r, err
+		}
 	}
 	if r.SeasonalDifferences, err = intOr(args[3], "seasonal_differences", 0); err != nil {
-		return nil, err
+		return r, err
 	}
-	if r.Differences, err = intOr(args[4], "differences", 0); err != nil {
-		return nil, err
+	if args[4] != nil || args[5] != nil {
+		a, err1 := floatOr(args[4], "trend_intercept", math.NaN())
+		b, err2 := floatOr(args[5], "trend_slope", math.NaN())
+		if err := errors.Join(err1, err2); err != nil {
+			return r, err
+		}
+		r.Trend, r.TrendIntercept, r.TrendSlope = true, a, b
+	}
+	if args[6] != nil || args[7] != nil {
+		pos, err1 := intOr(args[6], "shift_position", 0)
+		size, err2 := floatOr(args[7], "shift_size", math.NaN())
+		if err := errors.Join(err1, err2); err != nil {
+			return r, err
+		}
+		r.Shift, r.ShiftIndex, r.ShiftSize = true, pos-1, size
+	}
+	if r.Differences, err = intOr(args[8], "differences", 0); err != nil {
+		return r, err
 	}
 	lags := make([]int, 0, r.SeasonalDifferences+r.Differences)
 	for i := 0; i < r.SeasonalDifferences; i++ {
@@ -198,23 +249,40 @@ func restoreGroup(args []driver.Value) (any, error) {
 		lags = append(lags, 1)
 	}
 	head, tail := []float64{}, []float64{}
-	if args[5] != nil {
-		if head, err = floats(args[5]); err != nil {
-			return nil, err
+	if args[9] != nil {
+		if head, err = floats(args[9]); err != nil {
+			return r, err
 		}
 	}
-	if args[6] != nil {
-		if tail, err = floats(args[6]); err != nil {
-			return nil, err
+	if args[10] != nil {
+		if tail, err = floats(args[10]); err != nil {
+			return r, err
 		}
 	}
 	if r.Head, err = unflatten(head, lags); err != nil {
-		return nil, err
+		return r, err
 	}
 	if r.Tail, err = unflatten(tail, lags); err != nil {
+		return r, err
+	}
+	if r.Length, err = intOr(args[11], "n", 0); err != nil {
+		return r, err
+	}
+	return r, nil
+}
+
+// restoreGroup rebuilds a stats.Recipe from its stored columns and restores
+// one group's values.
+func restoreGroup(args []driver.Value) (any, error) {
+	y, err := floats(args[0])
+	if err != nil {
 		return nil, err
 	}
-	anchor, _ := args[7].(string)
+	r, err := recipeFromColumns(args[1:13])
+	if err != nil {
+		return nil, err
+	}
+	anchor, _ := args[13].(string)
 	var out []float64
 	if anchor == "first" {
 		lost := r.Lost()
@@ -242,10 +310,18 @@ func stationarizeSQL(q seriesQuery, period, alpha string, recipes bool) string {
 )
 `, q.groupsCTE(), period, alpha)
 	if recipes {
-		return base + fmt.Sprintf(`SELECT %[1]s, plumb_at[len(plumb_at)] AS last_at, plumb_s.status AS status,
+		// step is the usual step between consecutive times, in the at
+		// column's own arithmetic (days for a DATE, an INTERVAL for a
+		// TIMESTAMP, a number for a number): restore checks forecasts with it.
+		return base + fmt.Sprintf(`SELECT %[1]s, len(plumb_at) AS n, plumb_at[len(plumb_at)] AS last_at,
+       list_mode([plumb_at[i + 1] - plumb_at[i] FOR i IN range(1, len(plumb_at))]) AS step,
+       plumb_s.status AS status,
        plumb_s.box_cox_lambda AS box_cox_lambda, plumb_s.period AS period,
-       plumb_s.seasonal_differences AS seasonal_differences, plumb_s.differences AS differences,
-       plumb_s.head AS head, plumb_s.tail AS tail
+       plumb_s.seasonal_means AS seasonal_means, plumb_s.seasonal_differences AS seasonal_differences,
+       plumb_s.trend_intercept AS trend_intercept, plumb_s.trend_slope AS trend_slope,
+       plumb_s.shift_position AS shift_position, plumb_at[plumb_s.shift_position] AS shift_at,
+       plumb_s.shift_size AS shift_size,
+       plumb_s.differences AS differences, plumb_s.head AS head, plumb_s.tail AS tail
 FROM plumb_done`, q.byList(""))
 	}
 	return base + fmt.Sprintf(`SELECT %[1]s, unnest(plumb_at) AS %[2]s, unnest(plumb_raw) AS %[3]s,
@@ -253,22 +329,43 @@ FROM plumb_done`, q.byList(""))
 FROM plumb_done`, q.byList(""), quoteIdent(q.at), quoteIdent(q.value))
 }
 
+// restoreSQL joins each group's values to its stored recipe and restores
+// them. With anchor 'last' the values are forecasts: they must start one
+// step after the group's last_at and keep to its step, or the query fails
+// naming the group (a forecast that starts later or inside the history
+// would otherwise be restored as if it continued the series, silently
+// wrong). With anchor 'first' a group must have as many values as the
+// series its recipe came from.
 func restoreSQL(q seriesQuery, recipes, anchor string) string {
 	join := make([]string, len(q.by))
 	for i, b := range q.by {
 		join[i] = fmt.Sprintf("plumb_r.%[1]s IS NOT DISTINCT FROM plumb_series.%[1]s", quoteIdent(b))
 	}
-	on := join[0]
-	for _, j := range join[1:] {
-		on += " AND " + j
+	on := strings.Join(join, " AND ")
+	label := q.groupLabelOf("plumb_series.")
+	name := quoteLiteral("restore: ")
+	check := fmt.Sprintf(`WHEN len(plumb_at) <> plumb_r.n THEN
+               error(%[1]s || 'group ' || %[2]s || ' has ' || len(plumb_at) || ' values, but its recipe was made from a series of ' || plumb_r.n)`, name, label)
+	if anchor == "last" {
+		check = fmt.Sprintf(`WHEN plumb_at[1] - plumb_r.last_at <> plumb_r.step THEN
+               error(%[1]s || 'the forecasts of group ' || %[2]s || ' start at ' || plumb_at[1]::VARCHAR || ', but must start one step after the last observation (' || plumb_r.last_at::VARCHAR || ' + ' || plumb_r.step::VARCHAR || ')')
+           WHEN len(plumb_at) > 1 AND (list_min(plumb_steps) <> plumb_r.step OR list_max(plumb_steps) <> plumb_r.step) THEN
+               error(%[1]s || 'the forecasts of group ' || %[2]s || ' do not follow its step of ' || plumb_r.step::VARCHAR || ': restore needs one forecast per step, without gaps')`, name, label)
 	}
-	return fmt.Sprintf(`WITH %[1]s
+	return fmt.Sprintf(`WITH %[1]s, plumb_steps AS (
+    SELECT *, [plumb_at[i + 1] - plumb_at[i] FOR i IN range(1, len(plumb_at))] AS plumb_steps FROM plumb_series
+)
 SELECT %[2]s, unnest(plumb_at) AS %[3]s,
-       unnest(coalesce(plumb_restore(plumb_value, plumb_r.box_cox_lambda, plumb_r.period, plumb_r.seasonal_differences,
-                                     plumb_r.differences, plumb_r.head, plumb_r.tail, %[4]s),
-                       list_resize([]::DOUBLE[], len(plumb_at)))) AS %[5]s
-FROM plumb_series LEFT JOIN %[6]s AS plumb_r ON %[7]s`,
-		q.groupsCTE(), q.byList("plumb_series."), quoteIdent(q.at), quoteLiteral(anchor), quoteIdent(q.value), recipes, on)
+       unnest(CASE
+           WHEN plumb_r.differences IS NULL THEN list_resize([]::DOUBLE[], len(plumb_at))
+           %[8]s
+           ELSE plumb_restore(plumb_value, plumb_r.box_cox_lambda, plumb_r.period, plumb_r.seasonal_means,
+                              plumb_r.seasonal_differences, plumb_r.trend_intercept, plumb_r.trend_slope,
+                              plumb_r.shift_position, plumb_r.shift_size, plumb_r.differences,
+                              plumb_r.head, plumb_r.tail, plumb_r.n, %[4]s)
+       END) AS %[5]s
+FROM plumb_steps AS plumb_series LEFT JOIN %[6]s AS plumb_r ON %[7]s`,
+		q.groupsCTE(), q.byList("plumb_series."), quoteIdent(q.at), quoteLiteral(anchor), quoteIdent(q.value), recipes, on, check)
 }
 
 const stationarizeMacros = `

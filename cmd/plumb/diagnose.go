@@ -124,10 +124,10 @@ func printTop(ctx context.Context, conn *sql.Conn, table string, spec diagnosis.
 	for i, b := range spec.By {
 		by[i] = udf.QuoteIdent(b)
 	}
-	q := fmt.Sprintf(`SELECT rank, %s, n, status, array_to_string(violations, ',') AS violations,
-		differences AS d, seasonal_differences AS "D", round(box_cox_lambda, 2) AS lambda, round(score, 2) AS score,
-		round(adf_p_value, 4) AS adf_p, round(kpss_p_value, 3) AS kpss_p, round(mean_q_value, 4) AS mean_q, round(spread_q_value, 4) AS spread_q
-		FROM %s ORDER BY rank LIMIT %d`, strings.Join(by, ", "), udf.QuoteIdent(table), top)
+	q := fmt.Sprintf(`SELECT rank, %s, n, status, array_to_string(violations, ',') AS violations, %s AS causes,
+		differences AS d, seasonal_differences AS "D", round(box_cox_lambda, 2) AS lambda, cured, round(score, 3) AS score,
+		round(kpss_q_value, 4) AS kpss_q, round(mean_q_value, 4) AS mean_q, round(spread_q_value, 4) AS spread_q
+		FROM %s ORDER BY rank LIMIT %d`, strings.Join(by, ", "), diagnosis.CausesSQL, udf.QuoteIdent(table), top)
 	rows, err := conn.QueryContext(ctx, q)
 	if err != nil {
 		return err

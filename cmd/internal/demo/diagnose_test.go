@@ -24,7 +24,8 @@ func TestDiagnoseAgreesWithScalarFunctions(t *testing.T) {
 		byList := "['" + strings.ReplaceAll(test.by, ", ", "', '") + "']"
 		q := fmt.Sprintf(`
 			WITH d AS (FROM diagnose('%[1]s', by := %[2]s, at := '%[3]s', value := '%[4]s', period := %[5]s)),
-			s AS (SELECT %[6]s, stationarity(list(%[4]s ORDER BY %[3]s), period := %[5]s) AS v FROM %[1]s GROUP BY %[6]s)
+			s AS (SELECT %[6]s, stationarity(list(%[4]s ORDER BY %[3]s), period := %[5]s) AS v, list(%[3]s ORDER BY %[3]s) AS ats
+			      FROM %[1]s GROUP BY %[6]s)
 			SELECT count(*),
 			       count(*) FILTER (WHERE d.score IS NOT DISTINCT FROM s.v.score
 			           AND d.violations IS NOT DISTINCT FROM s.v.violations
@@ -38,14 +39,30 @@ func TestDiagnoseAgreesWithScalarFunctions(t *testing.T) {
 			           AND d.spread_p_value IS NOT DISTINCT FROM s.v.spread_p_value
 			           AND d.period IS NOT DISTINCT FROM s.v.period
 			           AND d.seasonal_strength IS NOT DISTINCT FROM s.v.seasonal_strength
-			           AND d.stationary IS NOT DISTINCT FROM s.v.stationary)
+			           AND d.stationary IS NOT DISTINCT FROM s.v.stationary
+			           AND d.mean_cause IS NOT DISTINCT FROM s.v.mean_cause
+			           AND d.shift_size IS NOT DISTINCT FROM s.v.shift_size
+			           AND d.trend_slope IS NOT DISTINCT FROM s.v.trend_slope
+			           AND d.spread_cause IS NOT DISTINCT FROM s.v.spread_cause
+			           AND d.seasonal_kind IS NOT DISTINCT FROM s.v.seasonal_kind
+			           AND d.second_period IS NOT DISTINCT FROM s.v.second_period
+			           AND d.zero_share IS NOT DISTINCT FROM s.v.zero_share
+			           AND d.demand_class IS NOT DISTINCT FROM s.v.demand_class
+			           AND d.outliers IS NOT DISTINCT FROM s.v.outliers
+			           AND d.cured IS NOT DISTINCT FROM s.v.cured
+			           AND d.left_violations IS NOT DISTINCT FROM s.v.left_violations
+			           AND d.over_differenced IS NOT DISTINCT FROM s.v.over_differenced
+			           AND d.reason IS NOT DISTINCT FROM s.v.reason
+			           -- shift_at: the at value in diagnose, the 1-based position in stationarity
+			           AND d.shift_at IS NOT DISTINCT FROM s.ats[s.v.shift_at])
+			       , count(*) FILTER (WHERE d.shift_at IS NOT NULL)
 			FROM d JOIN s USING (%[6]s)`, test.table, byList, test.at, test.value, test.period, test.by)
-		var n, same int
-		if err := db.QueryRow(q).Scan(&n, &same); err != nil {
+		var n, same, shifted int
+		if err := db.QueryRow(q).Scan(&n, &same, &shifted); err != nil {
 			t.Fatalf("%s: %v", test.table, err)
 		}
-		if n == 0 || same != n {
-			t.Errorf("%s period %s: %d of %d groups agree", test.table, test.period, same, n)
+		if n == 0 || same != n || shifted == 0 {
+			t.Errorf("%s period %s: %d of %d groups agree (%d with a level shift)", test.table, test.period, same, n, shifted)
 		}
 	}
 }

@@ -109,3 +109,10 @@ func (s Spec) Materialize(ctx context.Context, conn *sql.Conn, name string) (int
 	err := conn.QueryRowContext(ctx, "SELECT count(*) FROM "+udf.QuoteIdent(name)).Scan(&n)
 	return n, err
 }
+
+// CausesSQL is an SQL expression over a diagnose row that names its causes
+// in one short text: "mean: trend; spread: level; seasonal: fixed; 3
+// outliers". Commands show it beside the violations.
+const CausesSQL = `concat_ws('; ', 'mean: ' || replace(mean_cause, '_', ' '), 'spread: ' || spread_cause, 'seasonal: ' || seasonal_kind,
+	CASE WHEN demand_class IN ('intermittent', 'lumpy') THEN demand_class || ' demand' END,
+	CASE WHEN outliers > 0 THEN outliers || ' outlier' || CASE WHEN outliers > 1 THEN 's' ELSE '' END END)`

@@ -26,9 +26,14 @@ type Options struct {
 	Title string // page title; empty for a default
 }
 
-// Counts tallies the verdicts.
+// Counts tallies the verdicts and their causes.
 type Counts struct {
 	Groups, Stationary, Mean, Spread, Seasonal, Failed int
+	// Why the mean moves, the spread changes, the pattern repeats.
+	UnitRoot, Trend, Shift, SpreadLevel, SpreadTime, Fixed, Drifting int
+	// Groups with intermittent or lumpy demand, with outliers set aside,
+	// and whose recipe does not cure them.
+	Intermittent, Outliers, NotCured int
 }
 
 // Row is one ranked group as the table shows it.
@@ -39,7 +44,7 @@ type Row struct {
 }
 
 // Columns are the ranked table's columns after rank and group.
-var Columns = []string{"n", "status", "violations", "d", "D", "Box-Cox λ", "score", "ADF p", "KPSS p", "mean p", "spread p", "KPSS q"}
+var Columns = []string{"n", "status", "violations", "causes", "d", "D", "Box-Cox λ", "cured", "score", "ADF p", "KPSS p", "mean p", "spread p", "KPSS q"}
 
 // Panel is one group's three pictures.
 type Panel struct {
@@ -93,8 +98,16 @@ func counts(ctx context.Context, conn *sql.Conn, table string) (Counts, error) {
 		count(*) FILTER (WHERE list_contains(violations, 'mean')),
 		count(*) FILTER (WHERE list_contains(violations, 'spread')),
 		count(*) FILTER (WHERE list_contains(violations, 'seasonal')),
-		count(*) FILTER (WHERE stationary IS NULL)
-		FROM %s`, udf.QuoteIdent(table))).Scan(&c.Groups, &c.Stationary, &c.Mean, &c.Spread, &c.Seasonal, &c.Failed)
+		count(*) FILTER (WHERE stationary IS NULL),
+		count(*) FILTER (WHERE mean_cause = 'unit_root'), count(*) FILTER (WHERE mean_cause = 'trend'),
+		count(*) FILTER (WHERE mean_cause = 'level_shift'),
+		count(*) FILTER (WHERE spread_cause = 'level'), count(*) FILTER (WHERE spread_cause = 'time'),
+		count(*) FILTER (WHERE seasonal_kind = 'fixed'), count(*) FILTER (WHERE seasonal_kind = 'drifting'),
+		count(*) FILTER (WHERE demand_class IN ('intermittent', 'lumpy')), count(*) FILTER (WHERE outliers > 0),
+		count(*) FILTER (WHERE NOT cured)
+		FROM %s`, udf.QuoteIdent(table))).Scan(&c.Groups, &c.Stationary, &c.Mean, &c.Spread, &c.Seasonal, &c.Failed,
+		&c.UnitRoot, &c.Trend, &c.Shift, &c.SpreadLevel, &c.SpreadTime, &c.Fixed, &c.Drifting,
+		&c.Intermittent, &c.Outliers, &c.NotCured)
 	return c, err
 }
 
@@ -108,9 +121,9 @@ func groupExpr(spec diagnosis.Spec) string {
 }
 
 func ranked(ctx context.Context, conn *sql.Conn, table string, spec diagnosis.Spec, top int) ([]Row, error) {
-	q := fmt.Sprintf(`SELECT rank, %s, n, status, array_to_string(violations, ', '), differences, seasonal_differences,
-		box_cox_lambda, score, adf_p_value, kpss_p_value, mean_p_value, spread_p_value, kpss_q_value
-		FROM %s ORDER BY rank, 2 LIMIT %d`, groupExpr(spec), udf.QuoteIdent(table), top)
+	q := fmt.Sprintf(`SELECT rank, %s, n, status, array_to_string(violations, ', '), %s, differences, seasonal_differences,
+		box_cox_lambda, cured, score, adf_p_value, kpss_p_value, mean_p_value, spread_p_value, kpss_q_value
+		FROM %s ORDER BY rank, 2 LIMIT %d`, groupExpr(spec), diagnosis.CausesSQL, udf.QuoteIdent(table), top)
 	rows, err := conn.QueryContext(ctx, q)
 	if err != nil {
 		return nil, err
@@ -166,10 +179,10 @@ func panels(ctx context.Context, conn *sql.Conn, table string, spec diagnosis.Sp
 	}
 	byList := strings.Join(by, ", ")
 	at, value := udf.QuoteIdent(spec.At), udf.QuoteIdent(spec.Value)
-	q := fmt.Sprintf(`WITH top AS (SELECT %[1]s, rank, violations, differences, seasonal_differences, box_cox_lambda, period
+	q := fmt.Sprintf(`WITH top AS (SELECT %[1]s, rank, status, reason, period
 		FROM %[2]s ORDER BY rank, %[1]s LIMIT %[3]d)
-		SELECT top.rank, %[4]s, array_to_string(top.violations, ', '), top.differences, top.seasonal_differences,
-		       top.box_cox_lambda, top.period, list(src.%[5]s ORDER BY src.%[5]s), list(src.%[6]s::DOUBLE ORDER BY src.%[5]s)
+		SELECT top.rank, %[4]s, top.status, top.reason, top.period,
+		       list(src.%[5]s ORDER BY src.%[5]s), list(src.%[6]s::DOUBLE ORDER BY src.%[5]s)
 		FROM (SELECT * FROM %[7]s) AS src JOIN top USING (%[1]s)
 		GROUP BY ALL ORDER BY top.rank, 2`,
 		byList, udf.QuoteIdent(table), top, groupExpr(spec), at, value, from)
@@ -181,15 +194,17 @@ func panels(ctx context.Context, conn *sql.Conn, table string, spec diagnosis.Sp
 	var out []Panel
 	for rows.Next() {
 		var p Panel
-		var violations sql.NullString
-		var d, bigD, period sql.NullInt64
-		var lambda sql.NullFloat64
+		var status, reason sql.NullString
+		var period sql.NullInt64
 		var atList, valueList any
-		if err := rows.Scan(&p.Rank, &p.Group, &violations, &d, &bigD, &lambda, &period, &atList, &valueList); err != nil {
+		if err := rows.Scan(&p.Rank, &p.Group, &status, &reason, &period, &atList, &valueList); err != nil {
 			return nil, err
 		}
-		p.Verdict = verdictText(violations.String, d, bigD, lambda, period)
-		if err := drawPanel(&p, spec, atList, valueList, d, bigD, lambda, period); err != nil {
+		p.Verdict = reason.String
+		if p.Verdict == "" {
+			p.Verdict = "not judged: " + status.String
+		}
+		if err := drawPanel(&p, spec, atList, valueList, period); err != nil {
 			return nil, fmt.Errorf("plots for %s: %w", p.Group, err)
 		}
 		out = append(out, p)
@@ -197,31 +212,11 @@ func panels(ctx context.Context, conn *sql.Conn, table string, spec diagnosis.Sp
 	return out, rows.Err()
 }
 
-func verdictText(violations string, d, bigD sql.NullInt64, lambda sql.NullFloat64, period sql.NullInt64) string {
-	if !d.Valid {
-		return "not judged"
-	}
-	if violations == "" {
-		return "stationary: no transform needed"
-	}
-	var steps []string
-	if lambda.Valid {
-		steps = append(steps, fmt.Sprintf("Box-Cox λ = %.2f", lambda.Float64))
-	}
-	if bigD.Int64 > 0 {
-		steps = append(steps, fmt.Sprintf("seasonal difference at lag %d", period.Int64))
-	}
-	if d.Int64 > 0 {
-		steps = append(steps, fmt.Sprintf("%d difference(s)", d.Int64))
-	}
-	if len(steps) == 0 {
-		steps = append(steps, "no transform plumb can recommend")
-	}
-	return "broken: " + violations + "; recipe: " + strings.Join(steps, ", then ")
-}
-
-// drawPanel makes the three pictures of one group.
-func drawPanel(p *Panel, spec diagnosis.Spec, atList, valueList any, d, bigD sql.NullInt64, lambda sql.NullFloat64, period sql.NullInt64) error {
+// drawPanel makes the three pictures of one group. The transformed series
+// is the group's own recipe (stats.Stationarity with diagnose's period and
+// level) applied to its values; a group with missing values, which diagnose
+// may have filled, gets none.
+func drawPanel(p *Panel, spec diagnosis.Spec, atList, valueList any, period sql.NullInt64) error {
 	x, err := xAxis(atList, spec.At)
 	if err != nil {
 		return err
@@ -250,22 +245,29 @@ func drawPanel(p *Panel, spec diagnosis.Spec, atList, valueList any, d, bigD sql
 	}
 	p.Series = template.HTML(svg)
 
-	recipe := stats.Recipe{Period: int(period.Int64), SeasonalDifferences: int(bigD.Int64), Differences: int(d.Int64)}
-	if lambda.Valid {
-		recipe.BoxCox, recipe.Lambda = true, lambda.Float64
-	}
-	title := spec.Value + " after its recipe"
-	if recipe.Lost() == 0 && !recipe.BoxCox {
-		title = spec.Value + " (no transform recommended)"
-	}
-	if t, status, err := recipe.Apply(y); err == nil && status == stats.StatusOK {
+	missing := `<p class="missing">no transformed series: %s</p>`
+	v, err := stats.Stationarity(y, stats.StationarityOptions{Period: int(period.Int64), Alpha: spec.Alpha})
+	switch {
+	case err != nil:
+		return err
+	case v.Status != stats.StatusOK && v.Status != stats.StatusSeasonUnknown:
+		p.Transformed = template.HTML(fmt.Sprintf(missing, template.HTMLEscapeString(string(v.Status))))
+	default:
+		recipe := v.Recipe()
+		title := spec.Value + " after its recipe"
+		if recipe.Identity() {
+			title = spec.Value + " (no transform recommended)"
+		}
+		t, status, err := recipe.Apply(y)
+		if err != nil || status != stats.StatusOK {
+			p.Transformed = template.HTML(fmt.Sprintf(missing, template.HTMLEscapeString(string(status))))
+			break
+		}
 		tx := axis{x: x.x[recipe.Lost():], isTime: x.isTime, label: x.label}
 		if svg, err = lineSVG(title, tx, t, "transformed "+spec.Value); err != nil {
 			return err
 		}
 		p.Transformed = template.HTML(svg)
-	} else {
-		p.Transformed = template.HTML(`<p class="missing">no transformed series: ` + template.HTMLEscapeString(string(status)) + `</p>`)
 	}
 	lags := min(len(y)/4, 40)
 	if period.Valid && period.Int64 > 1 {

@@ -82,7 +82,7 @@ func TestReportStructure(t *testing.T) {
 	}
 	// The table against diagnose, queried here independently.
 	q := `SELECT rank, concat_ws(', ', 'shop=' || shop, 'product=' || product), n, status, array_to_string(violations, ', '),
-		differences, seasonal_differences, box_cox_lambda, score, adf_p_value, kpss_p_value, mean_p_value, spread_p_value, kpss_q_value
+		` + diagnosis.CausesSQL + `, differences, seasonal_differences, box_cox_lambda, cured, score, adf_p_value, kpss_p_value, mean_p_value, spread_p_value, kpss_q_value
 		FROM plumb_report_diagnosis ORDER BY rank, 2 LIMIT 8`
 	res, err := conn.QueryContext(context.Background(), q)
 	if err != nil {
@@ -111,6 +111,21 @@ func TestReportStructure(t *testing.T) {
 			if !strings.Contains(html, "<td>"+template_escape(cell)+"</td>") {
 				t.Errorf("row %d %s: %s is not in the HTML", i, Columns[j], cell)
 			}
+		}
+	}
+	// Each panel says the group's verdict in words: diagnose's reason.
+	reasons, err := conn.QueryContext(context.Background(), `SELECT reason FROM plumb_report_diagnosis ORDER BY rank, concat_ws(', ', 'shop=' || shop, 'product=' || product) LIMIT 8`)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer reasons.Close()
+	for i := 0; reasons.Next(); i++ {
+		var reason string
+		if err := reasons.Scan(&reason); err != nil {
+			t.Fatal(err)
+		}
+		if reason == "" || !strings.Contains(panels[i], `<p class="verdict">`+template_escape(reason)+`</p>`) {
+			t.Errorf("panel %d does not say its reason %q", i+1, reason)
 		}
 	}
 	for _, bad := range []string{"http:", "https:", "url(", "src=", "<script", "@import"} {

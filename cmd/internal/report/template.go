@@ -13,9 +13,11 @@ h1 { font-size: 1.4em; } h2 { font-size: 1.15em; margin-top: 2em; } h3 { font-si
 .counts { display: flex; gap: 1em; flex-wrap: wrap; }
 .count { border: 1px solid #ccc; border-radius: 4px; padding: 0.5em 1em; min-width: 7em; }
 .count b { display: block; font-size: 1.6em; }
+.count small { display: block; color: #555; }
 table { border-collapse: collapse; font-size: 0.85em; }
 th, td { border-bottom: 1px solid #ddd; padding: 0.25em 0.6em; text-align: right; }
 th.group, td.group, td.text { text-align: left; }
+td:nth-child(6) { text-align: left; }
 .panel { border-top: 1px solid #ccc; margin-top: 1.5em; padding-top: 0.5em; }
 .plots { display: flex; flex-wrap: wrap; gap: 0.5em; }
 .plots > div { flex: 0 0 auto; }
@@ -32,9 +34,12 @@ modelling decision, not proof; with many groups some are flagged by chance, so t
 <div class="counts">
 <div class="count"><b>{{.Counts.Groups}}</b>groups</div>
 <div class="count"><b>{{.Counts.Stationary}}</b>stationary</div>
-<div class="count"><b>{{.Counts.Mean}}</b>mean moves</div>
-<div class="count"><b>{{.Counts.Spread}}</b>spread moves</div>
-<div class="count"><b>{{.Counts.Seasonal}}</b>seasonal</div>
+<div class="count"><b>{{.Counts.Mean}}</b>mean moves<small>unit root {{.Counts.UnitRoot}}, trend {{.Counts.Trend}}, level shift {{.Counts.Shift}}</small></div>
+<div class="count"><b>{{.Counts.Spread}}</b>spread moves<small>with the level {{.Counts.SpreadLevel}}, over time {{.Counts.SpreadTime}}</small></div>
+<div class="count"><b>{{.Counts.Seasonal}}</b>seasonal<small>fixed {{.Counts.Fixed}}, drifting {{.Counts.Drifting}}</small></div>
+<div class="count"><b>{{.Counts.Intermittent}}</b>intermittent demand</div>
+<div class="count"><b>{{.Counts.Outliers}}</b>with outliers</div>
+<div class="count"><b>{{.Counts.NotCured}}</b>not cured by their recipe</div>
 <div class="count"><b>{{.Counts.Failed}}</b>not judged</div>
 </div>
 <h2>Groups furthest from stationary</h2>
