@@ -85,7 +85,7 @@ func TestOpenRegistersEverything(t *testing.T) {
 		"difference": "macro", "undifference": "macro", "differenced": "table_macro", "unit_root": "macro",
 		"stability": "macro", "seasonality": "macro", "white_noise": "macro", "rolling_spread": "macro",
 		"rolling_mean": "macro", "box_cox": "macro", "inverse_box_cox": "macro", "box_cox_lambda": "macro",
-		"stationarity": "macro", "outlier_positions": "macro", "demand_profile": "macro", "diagnose": "table_macro", "rolling_dispersion": "table_macro",
+		"stationarity": "macro", "outlier_positions": "macro", "demand_profile": "macro", "zivot_andrews": "macro", "mean_break": "macro", "diagnose": "table_macro", "rolling_dispersion": "table_macro",
 		"stationarize": "table_macro", "stationarize_recipes": "table_macro", "restore": "table_macro",
 		"forecast": "table_macro", "forecast_models": "table_macro",
 	} {
