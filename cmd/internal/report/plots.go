@@ -105,6 +105,49 @@ func lineSVG(title string, x axis, y []float64, yLabel string) (string, error) {
 	return render(p)
 }
 
+// forecastSVG draws the last stretch of a series and its forecasts with
+// their prediction interval as a band.
+func forecastSVG(title string, x axis, y []float64, fx axis, mean, lower, upper []float64, yLabel string) (string, error) {
+	p := newPlot(title, x, yLabel)
+	var band plotter.XYs
+	for i := range mean {
+		if !math.IsNaN(upper[i]) && !math.IsInf(upper[i], 0) {
+			band = append(band, plotter.XY{X: fx.x[i], Y: upper[i]})
+		}
+	}
+	for i := len(mean) - 1; i >= 0; i-- {
+		if !math.IsNaN(lower[i]) && !math.IsInf(lower[i], 0) {
+			band = append(band, plotter.XY{X: fx.x[i], Y: lower[i]})
+		}
+	}
+	if len(band) > 2 {
+		poly, err := plotter.NewPolygon(band)
+		if err != nil {
+			return "", err
+		}
+		poly.Color = bandColor
+		poly.LineStyle.Width = 0
+		p.Add(poly)
+	}
+	line, err := plotter.NewLine(points(x.x, y))
+	if err != nil {
+		return "", err
+	}
+	line.Color = seriesColor
+	line.Width = vg.Points(0.7)
+	p.Add(line)
+	f, err := plotter.NewLine(points(fx.x, mean))
+	if err != nil {
+		return "", err
+	}
+	f.Color = meanColor
+	f.Width = vg.Points(1.4)
+	p.Add(f)
+	p.Legend.Add("forecast", f)
+	p.Legend.Top = true
+	return render(p)
+}
+
 // acfSVG draws autocorrelations at lags 1..len(acf) as bars with the
 // ±1.96/√n bounds of white noise.
 func acfSVG(title string, acf []float64, n int) (string, error) {

@@ -1,7 +1,7 @@
 // Package report renders plumb's HTML report: counts by verdict, the ranked
 // table, and for each of the worst groups a panel with the series and its
-// rolling mean and spread, the series after its recommended transform, and
-// its autocorrelation. The file is self-contained: inline SVG and CSS,
+// rolling mean and spread, the series after its recommended transform, its
+// autocorrelation, and its forecasts with their intervals. The file is self-contained: inline SVG and CSS,
 // nothing fetched from anywhere.
 package report
 
@@ -48,9 +48,9 @@ var Columns = []string{"n", "status", "violations", "causes", "d", "D", "Box-Cox
 
 // Panel is one group's three pictures.
 type Panel struct {
-	Rank                          int64
-	Group, Verdict                string
-	Series, Transformed, Autocorr template.HTML
+	Rank                                    int64
+	Group, Verdict                          string
+	Series, Transformed, Autocorr, Forecast template.HTML
 }
 
 type page struct {
@@ -268,6 +268,10 @@ func drawPanel(p *Panel, spec diagnosis.Spec, atList, valueList any, period sql.
 			return err
 		}
 		p.Transformed = template.HTML(svg)
+		if svg, err = forecastPicture(spec, x, y, v); err != nil {
+			return err
+		}
+		p.Forecast = template.HTML(svg)
 	}
 	lags := min(len(y)/4, 40)
 	if period.Valid && period.Int64 > 1 {
@@ -288,6 +292,32 @@ func drawPanel(p *Panel, spec diagnosis.Spec, atList, valueList any, period sql.
 		p.Autocorr = template.HTML(`<p class="missing">no autocorrelation: the series is constant or too short</p>`)
 	}
 	return nil
+}
+
+// forecastPicture forecasts a group through its own recipe (as the
+// forecast table function does, 95% intervals) for a tenth of its length,
+// at most 60 steps, and draws the last three horizons of history before
+// the forecasts.
+func forecastPicture(spec diagnosis.Spec, x axis, y []float64, v stats.StationarityResult) (string, error) {
+	missing := `<p class="missing">no forecast: %s</p>`
+	h := max(1, min(60, len(y)/10))
+	rec := v.Recipe()
+	f, err := stats.ForecastByRecipe(v.Judged(), rec, stats.RecipeForecastOptions{Horizon: h, Coverage: 0.95, AR: stats.AROptions{Period: rec.Period}})
+	if err != nil {
+		return "", err
+	}
+	if f.Status != stats.StatusOK || len(x.x) < 2 {
+		return fmt.Sprintf(missing, template.HTMLEscapeString(string(f.Status))), nil
+	}
+	n := len(y)
+	step := x.x[n-1] - x.x[n-2]
+	fx := axis{x: make([]float64, h), isTime: x.isTime, label: x.label}
+	for i := range fx.x {
+		fx.x[i] = x.x[n-1] + float64(i+1)*step
+	}
+	from := max(0, n-3*h)
+	hist := axis{x: x.x[from:], isTime: x.isTime, label: x.label}
+	return forecastSVG(fmt.Sprintf("%s: the last values and %d forecasts, 95%% intervals", spec.Value, h), hist, y[from:], fx, f.Mean, f.Lower, f.Upper, spec.Value)
 }
 
 // xAxis turns the at values into plot coordinates.

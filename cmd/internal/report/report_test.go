@@ -51,7 +51,7 @@ func demoReport(t *testing.T) (string, []Row, *sql.Conn) {
 	return path, rows, conn
 }
 
-// TestReportStructure: every top group has its three plots, the ranked
+// TestReportStructure: every top group has its four plots, the ranked
 // table's numbers equal diagnose's, and the file names no external address.
 func TestReportStructure(t *testing.T) {
 	path, rows, conn := demoReport(t)
@@ -68,7 +68,7 @@ func TestReportStructure(t *testing.T) {
 		t.Fatalf("%d panels, want 8", len(panels))
 	}
 	for i, p := range panels {
-		for _, class := range []string{"plot series", "plot transformed", "plot acf"} {
+		for _, class := range []string{"plot series", "plot transformed", "plot acf", "plot forecast"} {
 			re := regexp.MustCompile(`<div class="` + class + `">\s*<svg`)
 			if !re.MatchString(p) {
 				t.Errorf("panel %d has no %q picture", i+1, class)

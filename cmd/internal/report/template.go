@@ -57,6 +57,7 @@ modelling decision, not proof; with many groups some are flagged by chance, so t
 <div class="plot series">{{.Series}}</div>
 <div class="plot transformed">{{.Transformed}}</div>
 <div class="plot acf">{{.Autocorr}}</div>
+{{if .Forecast}}<div class="plot forecast">{{.Forecast}}</div>{{end}}
 </div>
 </div>
 {{end}}
