@@ -45,7 +45,6 @@ var startupParameters = []string{"server_version", "server_encoding", "client_en
 var (
 	setStatement  = regexp.MustCompile(`(?is)^\s*SET\s+(?:SESSION\s+|LOCAL\s+)?([a-z_][a-z0-9_.]*)\s*(?:=|\s+TO\s+|\s)\s*(.*?)\s*;?\s*$`)
 	setTimeZone   = regexp.MustCompile(`(?is)^\s*SET\s+(?:SESSION\s+|LOCAL\s+)?TIME\s+ZONE\s+(.*?)\s*;?\s*$`)
-	showStatement = regexp.MustCompile(`(?is)^\s*SHOW\s+([a-z_][a-z0-9_.]*)\s*;?\s*$`)
 	resetStmt     = regexp.MustCompile(`(?is)^\s*(RESET\s+\w+|RESET\s+ALL|DISCARD\s+ALL|DEALLOCATE\s+(ALL|\w+))\s*;?\s*$`)
 	// psql's \dt (PostgreSQL 15 client): the list of tables.
 	psqlListTables = regexp.MustCompile(`(?is)FROM\s+pg_catalog\.pg_class\s+c.*relkind\s+IN\s+\('r','p'`)
@@ -70,13 +69,22 @@ func setParameter(sql string) (string, string, bool) {
 	return name, unquote(m[2]), true
 }
 
-// showParameter recognises SHOW of a client parameter.
+// showParameter recognises SHOW of a client parameter; the words of a
+// multi-word name (SHOW TRANSACTION ISOLATION LEVEL) are joined by _ and a
+// trailing LEVEL dropped, as PostgreSQL names the parameter.
 func showParameter(sql string) (string, bool) {
-	m := showStatement.FindStringSubmatch(sql)
-	if m == nil {
+	w := words(sql)
+	if len(w) < 2 || w[0] != "show" {
 		return "", false
 	}
-	name := strings.ToLower(m[1])
+	w = w[1:]
+	if w[len(w)-1] == ";" {
+		w = w[:len(w)-1]
+	}
+	if len(w) > 1 && w[len(w)-1] == "level" {
+		w = w[:len(w)-1]
+	}
+	name := strings.Join(w, "_")
 	_, ok := clientParameters[name]
 	return name, ok
 }
@@ -102,25 +110,3 @@ func rewrite(sql string) string {
 	return sql
 }
 
-// copyOptions reads the options of COPY ... TO STDOUT: CSV or text format,
-// a header line, and the delimiter.
-type copyOptions struct {
-	csv       bool
-	header    bool
-	delimiter string
-}
-
-func parseCopyOptions(s string) copyOptions {
-	u := strings.ToUpper(s)
-	o := copyOptions{delimiter: "\t"}
-	if strings.Contains(u, "CSV") {
-		o.csv, o.delimiter = true, ","
-	}
-	if strings.Contains(u, "HEADER") && !strings.Contains(u, "HEADER FALSE") && !strings.Contains(u, "HEADER 0") {
-		o.header = true
-	}
-	if m := regexp.MustCompile(`(?i)DELIMITER\s+'([^']*)'`).FindStringSubmatch(s); m != nil && m[1] != "" {
-		o.delimiter = m[1]
-	}
-	return o
-}

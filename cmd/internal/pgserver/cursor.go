@@ -33,16 +33,23 @@ type cursor struct {
 func (sess *session) fetch(pt *portal, limit int64) (err error) {
 	start := time.Now()
 	var n int64
-	defer func() {
-		attrs := []any{"sql", truncate(pt.stmt.sql, 300), "duration", time.Since(start).String(), "rows", n, "limit", limit}
-		if err != nil {
-			attrs = append(attrs, "error", firstLine(err.Error()))
-			if sess.txn == 'T' {
-				sess.txn = 'E'
-			}
-		}
-		sess.log.Info("statement", attrs...)
-	}()
+	defer func() { sess.logStatement("execute", pt.stmt.sql, start, n, err, "limit", limit) }()
+	n, err = sess.fetchRows(pt, limit, true)
+	if err != nil {
+		return err
+	}
+	if limit > 0 && n == limit {
+		sess.be.Send(&pgproto3.PortalSuspended{})
+		return nil
+	}
+	sess.closeCursor(pt)
+	sess.be.Send(&pgproto3.CommandComplete{CommandTag: []byte(fmt.Sprintf("SELECT %d", n))})
+	return nil
+}
+
+// fetchRows opens pt's result if it is not open yet and sends (send) or
+// skips up to limit rows of it (0: all).
+func (sess *session) fetchRows(pt *portal, limit int64, send bool) (int64, error) {
 	if pt.cursor == nil {
 		// The statement timeout bounds the query's run, not the time the
 		// client takes to fetch its rows: database/sql closes the rows when
@@ -53,7 +60,7 @@ func (sess *session) fetch(pt *portal, limit int64) (err error) {
 			timer = time.AfterFunc(t, cancel)
 		}
 		sess.markBusy(cancel)
-		rows, qerr := sess.db.QueryContext(ctx, normalize(pt.stmt.sql), pt.args...)
+		rows, qerr := sess.db.QueryContext(ctx, pt.sql)
 		sess.markIdle()
 		if timer != nil && !timer.Stop() {
 			qerr = context.DeadlineExceeded
@@ -64,24 +71,23 @@ func (sess *session) fetch(pt *portal, limit int64) (err error) {
 				rows.Close()
 			}
 			if qerr == context.DeadlineExceeded {
-				return pgError{stateQueryCanceled, "canceling statement due to statement timeout"}
+				return 0, pgError{stateQueryCanceled, "canceling statement due to statement timeout"}
 			}
-			return sess.wrap(ctx, qerr)
+			return 0, sess.wrap(ctx, qerr)
 		}
 		pt.cursor = &cursor{rows: rows, cancel: cancel}
 	}
-	n, err = sess.sendRows(pt.cursor.rows, pt.stmt.shape.columns, pt.formats, limit)
+	var n int64
+	var err error
+	if send {
+		n, err = sess.sendRows(pt.cursor.rows, pt.shape.columns, pt.formats, limit)
+	} else {
+		n, err = sess.eachRow(pt.cursor.rows, len(pt.shape.columns), limit, func([]any) {})
+	}
 	if err != nil {
 		sess.closeCursor(pt)
-		return err
 	}
-	if limit > 0 && n == limit {
-		sess.be.Send(&pgproto3.PortalSuspended{})
-		return nil
-	}
-	sess.closeCursor(pt)
-	sess.be.Send(&pgproto3.CommandComplete{CommandTag: []byte(fmt.Sprintf("SELECT %d", n))})
-	return nil
+	return n, err
 }
 
 // closeCursor closes pt's open result, if it has one.
@@ -94,9 +100,22 @@ func (sess *session) closeCursor(pt *portal) {
 	pt.cursor = nil
 }
 
-// dropPortals closes every portal's open result and forgets the portals.
+// dropPortals closes every portal's open result and forgets the portals,
+// at the end of the session.
 func (sess *session) dropPortals() {
 	for name, pt := range sess.portals {
+		sess.closeCursor(pt)
+		delete(sess.portals, name)
+	}
+}
+
+// endTransactionPortals closes the portals that end with a transaction:
+// all but cursors declared WITH HOLD.
+func (sess *session) endTransactionPortals() {
+	for name, pt := range sess.portals {
+		if pt.hold {
+			continue
+		}
 		sess.closeCursor(pt)
 		delete(sess.portals, name)
 	}
