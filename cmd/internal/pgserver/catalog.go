@@ -148,11 +148,17 @@ var compatObjects = []compatObject{
 	{"plumb_primary_keys", constant(`CREATE OR REPLACE TEMP VIEW plumb_primary_keys AS SELECT table_oid * 100 + constraint_index + 1 AS oid,
 	table_oid, schema_oid, table_name || '_pkey' AS name, list_transform(constraint_column_indexes, i -> (i + 1)::SMALLINT) AS keys
 	FROM duckdb_constraints() WHERE constraint_type = 'PRIMARY KEY'`)},
-	{"pg_class", constant(`CREATE OR REPLACE TEMP VIEW pg_class AS SELECT * REPLACE (relowner::BIGINT AS relowner, 
+	// DuckDB's pg_class without its internal objects and without this
+	// layer's own TEMP views.
+	{"pg_class", func(identity, catalogOIDs) string {
+		return `CREATE OR REPLACE TEMP VIEW pg_class AS SELECT * REPLACE (relowner::BIGINT AS relowner,
 	CASE WHEN relkind = 'r' THEN (SELECT count(*) > 0 FROM plumb_primary_keys k WHERE k.table_oid = c.oid) OR relhasindex ELSE relhasindex END AS relhasindex)
 	FROM system.pg_catalog.pg_class c
+	WHERE oid NOT IN (SELECT view_oid FROM duckdb_views() WHERE internal OR temporary AND view_name IN ` + compatNameSQL + `)
+	AND oid NOT IN (SELECT table_oid FROM duckdb_tables() WHERE internal)
 	UNION ALL BY NAME SELECT oid, name AS relname, schema_oid AS relnamespace, 'i' AS relkind, 16384::BIGINT AS relowner, 0 AS reltablespace,
-	'p' AS relpersistence, len(keys) AS relnatts, false AS relhasindex, 0::BIGINT AS relam FROM plumb_primary_keys`)},
+	'p' AS relpersistence, len(keys) AS relnatts, false AS relhasindex, 0::BIGINT AS relam FROM plumb_primary_keys`
+	}},
 	{"pg_index", constant(`CREATE OR REPLACE TEMP VIEW pg_index AS SELECT * REPLACE (CASE WHEN indkey IS NULL THEN [] ELSE indkey END::SMALLINT[] AS indkey)
 	FROM (SELECT indexrelid, indrelid, indnatts, indnkeyatts, indisunique, indisprimary, indisexclusion, indimmediate, indisclustered,
 	indisvalid, indcheckxmin, indisready, indislive, indisreplident, NULL::SMALLINT[] AS indkey, indexprs::VARCHAR AS indexprs, indpred::VARCHAR AS indpred FROM system.pg_catalog.pg_index
@@ -165,6 +171,18 @@ var compatObjects = []compatObject{
 	{"pg_get_function_identity_arguments", constant(`CREATE OR REPLACE TEMP MACRO pg_get_function_identity_arguments(o) AS pg_get_function_arguments(o)`)},
 	{"pg_settings", constant(`CREATE OR REPLACE TEMP VIEW pg_settings AS SELECT name, setting, NULL::VARCHAR AS unit, 'Client Connection Defaults' AS category,
 	'' AS short_desc, NULL::VARCHAR AS extra_desc, 'user' AS context, 'string' AS vartype, 'default' AS source FROM plumb_settings`)},
+}
+
+// compatNameSQL is the layer's object names as a SQL list, for pg_class
+// to leave them out.
+var compatNameSQL string
+
+func init() {
+	names := []string{sqlQuote("plumb_settings")}
+	for _, o := range compatObjects {
+		names = append(names, sqlQuote(o.name))
+	}
+	compatNameSQL = "(" + strings.Join(names, ", ") + ")"
 }
 
 func constant(sql string) func(identity, catalogOIDs) string {
@@ -191,7 +209,7 @@ func setupCompat(ctx context.Context, conn *sql.Conn, id identity, params map[st
 		return fmt.Errorf("compatibility layer: %w", err)
 	}
 	var stmts []string
-	stmts = append(stmts, "CREATE OR REPLACE TEMP TABLE plumb_settings (name VARCHAR, setting VARCHAR)", settingsInsert(params))
+	stmts = append(stmts, settingsView(params))
 	for _, t := range castTypes {
 		stmts = append(stmts, fmt.Sprintf("CREATE TEMP TYPE %s AS %s", quoteIdentifier(t.name), t.as))
 	}
@@ -206,7 +224,7 @@ func setupCompat(ctx context.Context, conn *sql.Conn, id identity, params map[st
 	return nil
 }
 
-func settingsInsert(params map[string]string) string {
+func settingsView(params map[string]string) string {
 	names := make([]string, 0, len(clientParameters))
 	for n := range clientParameters {
 		names = append(names, n)
@@ -220,7 +238,7 @@ func settingsInsert(params map[string]string) string {
 		}
 		rows = append(rows, fmt.Sprintf("(%s, %s)", sqlQuote(n), sqlQuote(v)))
 	}
-	return "INSERT INTO plumb_settings VALUES " + strings.Join(rows, ", ")
+	return "CREATE OR REPLACE TEMP VIEW plumb_settings AS SELECT * FROM (VALUES " + strings.Join(rows, ", ") + ") s(name, setting)"
 }
 
 // castType is a PostgreSQL type DuckDB lacks that catalogue queries cast

@@ -46,8 +46,6 @@ var (
 	setStatement  = regexp.MustCompile(`(?is)^\s*SET\s+(?:SESSION\s+|LOCAL\s+)?([a-z_][a-z0-9_.]*)\s*(?:=|\s+TO\s+|\s)\s*(.*?)\s*;?\s*$`)
 	setTimeZone   = regexp.MustCompile(`(?is)^\s*SET\s+(?:SESSION\s+|LOCAL\s+)?TIME\s+ZONE\s+(.*?)\s*;?\s*$`)
 	resetStmt     = regexp.MustCompile(`(?is)^\s*(RESET\s+\w+|RESET\s+ALL|DISCARD\s+ALL|DEALLOCATE\s+(ALL|\w+))\s*;?\s*$`)
-	// psql's \dt (PostgreSQL 15 client): the list of tables.
-	psqlListTables = regexp.MustCompile(`(?is)FROM\s+pg_catalog\.pg_class\s+c.*relkind\s+IN\s+\('r','p'`)
 	copyToStdout   = regexp.MustCompile(`(?is)^\s*COPY\s+(\(.*\)|[a-z_"][a-z0-9_."]*)\s+TO\s+STDOUT\s*(.*?)\s*;?\s*$`)
 	copyFromStdin  = regexp.MustCompile(`(?is)^\s*COPY\s+.*\s+FROM\s+STDIN`)
 )
@@ -102,10 +100,6 @@ func unquote(s string) string {
 func rewrite(sql string) string {
 	if r := rewritePsqlDescribe(sql); r != "" {
 		return r
-	}
-	if psqlListTables.MatchString(sql) {
-		return `SELECT schema_name AS "Schema", table_name AS "Name", 'table' AS "Type", 'plumb' AS "Owner"
-			FROM duckdb_tables() WHERE NOT internal ORDER BY 1, 2`
 	}
 	return sql
 }

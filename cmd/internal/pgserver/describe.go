@@ -138,6 +138,8 @@ func duckdbParamType(t duckdb.Type) string {
 		return "BLOB"
 	case duckdb.TYPE_UUID:
 		return "UUID"
+	case duckdb.TYPE_LIST:
+		return "LIST" // a list of what, the statement does not say
 	}
 	return ""
 }
@@ -181,9 +183,9 @@ func oidOfType(t duckdb.Type, info duckdb.TypeInfo) uint32 {
 				}
 			}
 		}
-		return oidJSON
+		return oidJSONText
 	case duckdb.TYPE_STRUCT, duckdb.TYPE_MAP, duckdb.TYPE_ARRAY, duckdb.TYPE_UNION:
-		return oidJSON
+		return oidJSONText
 	}
 	return oidText
 }

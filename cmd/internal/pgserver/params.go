@@ -22,7 +22,7 @@ import (
 // none).
 func paramLiteral(data []byte, format int16, oid uint32, duckType string) (string, error) {
 	cast := duckdbTypeName(oid)
-	if cast == "" {
+	if cast == "" && duckType != "LIST" {
 		cast = duckType
 	}
 	if data == nil {
@@ -31,7 +31,11 @@ func paramLiteral(data []byte, format int16, oid uint32, duckType string) (strin
 		}
 		return "NULL::" + cast, nil
 	}
-	if elem, ok := elementOf[oid]; ok || strings.HasSuffix(cast, "[]") {
+	elem, isArray := elementOf[oid]
+	if duckType == "LIST" && cast == "" && format == 0 && strings.HasPrefix(strings.TrimSpace(string(data)), "{") {
+		isArray = true // an untyped {...} where DuckDB expects a list
+	}
+	if isArray || strings.HasSuffix(cast, "[]") {
 		var items []string
 		var err error
 		if format == 1 {

@@ -128,7 +128,7 @@ func oidOfTypeSQL(col string) string {
 			fmt.Fprintf(&b, " WHEN '%s' THEN %d", n, typeOID(n))
 		}
 		fmt.Fprintf(&b, " ELSE CASE WHEN %[1]s LIKE 'DECIMAL%%' THEN %[2]d WHEN %[1]s LIKE 'STRUCT%%' OR %[1]s LIKE 'MAP%%' OR %[1]s LIKE 'UNION%%' THEN %[3]d ELSE %[4]d END END",
-			expr, oidNumeric, oidJSON, oidText)
+			expr, oidNumeric, oidJSONText, oidText)
 		return b.String()
 	}
 	element := "regexp_replace(" + col + ", '\\[\\]$', '')"
@@ -137,7 +137,7 @@ func oidOfTypeSQL(col string) string {
 	for e, a := range arrayOf {
 		fmt.Fprintf(&arrays, " WHEN %d THEN %d", e, a)
 	}
-	fmt.Fprintf(&arrays, " ELSE %d END", oidJSON)
+	fmt.Fprintf(&arrays, " ELSE %d END", oidJSONText)
 	return fmt.Sprintf("CASE WHEN %s LIKE '%%[]' AND %s NOT LIKE '%%[][]' THEN %s WHEN %s LIKE '%%]' THEN %d ELSE %s END",
-		col, col, arrays.String(), col, oidJSON, base(col))
+		col, col, arrays.String(), col, oidJSONText, base(col))
 }

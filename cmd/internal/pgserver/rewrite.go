@@ -32,7 +32,7 @@ type tokenRule struct {
 var tokenRules = []tokenRule{
 	{"PostgreSQL's OPERATOR(pg_catalog.op) syntax becomes the bare operator", operatorSyntax},
 	{"COLLATE pg_catalog.default and COLLATE \"C\" are dropped", dropCollate},
-	{"pg_catalog.x and information_schema.x reach the compatibility layer's x", qualifiedCompat},
+	{"pg_catalog.x becomes x, information_schema.x too where the layer has an x", qualifiedCompat},
 	{"'name'::regclass, ::regtype and ::regproc look the name up", regLiteral},
 	{"a select item that is one function call is named after the function", functionColumnName},
 	{"relative file paths resolve against --data", relativePaths},
@@ -141,12 +141,17 @@ func dropCollate(r *rewriter) {
 	}
 }
 
-// qualifiedCompat: pg_catalog.pg_type → pg_type when the compatibility
-// layer has a pg_type; other qualified names stay DuckDB's.
+// qualifiedCompat: pg_catalog.pg_type → pg_type, which DuckDB finds in
+// the compatibility layer or else in its own pg_catalog (both are on its
+// search path); information_schema.x only when the layer has an x, since
+// DuckDB's information_schema views must stay qualified.
 func qualifiedCompat(r *rewriter) {
 	for i, t := range r.toks {
 		schema := t.name()
 		if schema != "pg_catalog" && schema != "information_schema" {
+			continue
+		}
+		if p := r.prev(i); p >= 0 && r.toks[p].is(".") { // system.pg_catalog.x
 			continue
 		}
 		dot := r.next(i)
@@ -158,7 +163,7 @@ func qualifiedCompat(r *rewriter) {
 			continue
 		}
 		n := r.toks[name].name()
-		if compatNames[n] || isCastType(n) {
+		if schema == "pg_catalog" || compatNames[n] || isCastType(n) {
 			r.blank(i, dot)
 		}
 	}

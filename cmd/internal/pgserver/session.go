@@ -235,6 +235,9 @@ func (sess *session) loop() error {
 			}
 		case *pgproto3.Terminate:
 			return nil
+		case *pgproto3.CopyData, *pgproto3.CopyDone, *pgproto3.CopyFail:
+			// the rest of a COPY the server already ended with an error;
+			// PostgreSQL ignores these outside copy mode too
 		default:
 			sess.be.Send(&pgproto3.ErrorResponse{Severity: "ERROR", SeverityUnlocalized: "ERROR", Code: stateProtocolViolation,
 				Message: fmt.Sprintf("plumb does not support the %T message", msg)})

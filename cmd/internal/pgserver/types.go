@@ -42,6 +42,9 @@ const (
 	oidInterval    = 1186
 	oidNumeric     = 1700
 	oidUUID        = 2950
+	// oidJSONText is how STRUCTs, MAPs and lists without an array type are
+	// described: JSON in a text column.
+	oidJSONText = oidText
 )
 
 // arrayOf maps an element OID to its one-dimensional array OID.
@@ -65,20 +68,21 @@ var elementOf = func() map[uint32]uint32 {
 
 // typeOID maps a DuckDB type name to a PostgreSQL type OID. Lists of types
 // with a PostgreSQL array type become arrays; other lists, STRUCTs and MAPs
-// become json text.
+// are sent as JSON in a text column (oidJSONText), which every client reads
+// (RPostgreSQL warns on json columns).
 func typeOID(name string) uint32 {
 	name = strings.ToUpper(strings.TrimSpace(name))
 	if strings.HasSuffix(name, "[]") {
 		if a, ok := arrayOf[typeOID(strings.TrimSuffix(name, "[]"))]; ok {
 			return a
 		}
-		return oidJSON
+		return oidJSONText
 	}
 	switch {
 	case strings.HasPrefix(name, "DECIMAL"), name == "HUGEINT", name == "UHUGEINT", name == "UBIGINT", name == "BIGNUM", name == "VARINT":
 		return oidNumeric
 	case strings.HasPrefix(name, "STRUCT"), strings.HasPrefix(name, "MAP"), strings.HasPrefix(name, "UNION"), strings.HasSuffix(name, "]"), name == "JSON":
-		return oidJSON
+		return oidJSONText
 	case strings.HasPrefix(name, "TIMESTAMP WITH TIME ZONE"), name == "TIMESTAMPTZ":
 		return oidTimestampTZ
 	case strings.HasPrefix(name, "TIMESTAMP"):
@@ -150,6 +154,9 @@ func textOf(v any, oid uint32) string {
 	case string:
 		return x
 	case []byte:
+		if oid == oidUUID && len(x) == 16 {
+			return uuidText(x)
+		}
 		return `\x` + fmt.Sprintf("%x", x)
 	case time.Time:
 		switch oid {
@@ -286,6 +293,10 @@ func encodeBinary(v any, oid uint32) []byte {
 		return binary.BigEndian.AppendUint32(b, uint32(i.Months))
 	case oidUUID:
 		switch u := v.(type) {
+		case []byte:
+			if len(u) == 16 {
+				return u
+			}
 		case duckdb.UUID:
 			return u[:]
 		case *duckdb.UUID:
@@ -405,3 +416,8 @@ func numericBinary(s string) []byte {
 	return b
 }
 
+// uuidText writes 16 bytes in the canonical 8-4-4-4-12 form.
+func uuidText(b []byte) string {
+	h := fmt.Sprintf("%x", b)
+	return h[0:8] + "-" + h[8:12] + "-" + h[12:16] + "-" + h[16:20] + "-" + h[20:]
+}

@@ -35,7 +35,7 @@ public class JdbcClient {
         DatabaseMetaData md = c.getMetaData();
         check("getTables", () -> {
             List<String> got = new ArrayList<>();
-            try (ResultSet rs = md.getTables(null, null, "jdbc_%", null)) {
+            try (ResultSet rs = md.getTables(null, null, "jdbc_%", new String[]{"TABLE", "VIEW"})) {
                 while (rs.next()) got.add(rs.getString("TABLE_NAME") + ":" + rs.getString("TABLE_TYPE"));
             }
             return expect(got, List.of("jdbc_t:TABLE", "jdbc_v:VIEW"));

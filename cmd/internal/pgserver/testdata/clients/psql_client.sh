@@ -33,7 +33,7 @@ check '\ds' 'psql_seq' -c '\ds'
 check '\df difference' 'difference' -c '\df difference'
 check '\du' "$PLUMB_USER" -c '\du'
 check '\dx' 'List of installed extensions' -c '\dx'
-check '\gdesc' 'double precision' -c "SELECT 1::INTEGER AS a, 2.5::DOUBLE AS b \\gdesc"
+check '\gdesc' 'double precision' -f <(printf 'SELECT 1::INTEGER AS a, 2.5::DOUBLE AS b \\gdesc\n')
 check 'SELECT version()' 'plumb' -c 'SELECT version()'
 check 'diagnose on a relative path' '(12 rows)' -c "SELECT shop, product, rank FROM diagnose('$PLUMB_SHOPS', by := ['shop', 'product'], at := 'day', value := 'units') ORDER BY rank"
 printf '1,one,1.5\n2,"t,wo",\n' > "$work/in.csv"
