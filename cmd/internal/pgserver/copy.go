@@ -133,8 +133,8 @@ type copyOptions struct {
 }
 
 // parseCopyOptions reads COPY's options in either syntax: WITH (FORMAT
-// csv, HEADER true, DELIMITER ',', NULL '') or the older WITH CSV HEADER
-// DELIMITER ',' NULL ''.
+// csv, HEADER true, DELIMITER ',', NULL ”) or the older WITH CSV HEADER
+// DELIMITER ',' NULL ”.
 func parseCopyOptions(s string) copyOptions {
 	o := copyOptions{delimiter: "\t", null: `\N`, quote: '"'}
 	toks := lex(s)

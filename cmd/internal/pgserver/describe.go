@@ -189,4 +189,3 @@ func oidOfType(t duckdb.Type, info duckdb.TypeInfo) uint32 {
 	}
 	return oidText
 }
-

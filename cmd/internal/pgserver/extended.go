@@ -34,6 +34,13 @@ func (sess *session) parse(m *pgproto3.Parse) error {
 			return err
 		}
 		p.shape = sh
+		// A cast written beside a parameter ($1::DATE) says what the
+		// client should send where DuckDB infers no type.
+		for n, oid := range paramCastOIDs(p.toks) {
+			if n <= len(p.shape.params) && p.shape.params[n-1] == 0 {
+				p.shape.params[n-1] = oid
+			}
+		}
 	}
 	p.params = make([]uint32, len(p.shape.params))
 	for i := range p.params {
@@ -172,4 +179,52 @@ func maxParam(toks []token) int {
 		}
 	}
 	return n
+}
+
+// paramCastOIDs finds casts written on parameters ($3::DATE, $1::int8[])
+// and maps each parameter number to the cast type's OID.
+func paramCastOIDs(toks []token) map[int]uint32 {
+	out := map[int]uint32{}
+	idx := significant(toks)
+	for k := 0; k+2 < len(idx); k++ {
+		if toks[idx[k]].kind != tokParam || !toks[idx[k+1]].is("::") || toks[idx[k+2]].kind != tokWord {
+			continue
+		}
+		name := toks[idx[k+2]].name()
+		if k+4 < len(idx) && toks[idx[k+3]].is("[") && toks[idx[k+4]].is("]") {
+			name += "[]"
+		}
+		out[paramNumber(toks[idx[k]].text)] = castOID(name)
+	}
+	return out
+}
+
+// castOID maps a type name as written in a cast, PostgreSQL's or DuckDB's,
+// to an OID.
+func castOID(name string) uint32 {
+	base, array := strings.CutSuffix(strings.ToLower(name), "[]")
+	oid := uint32(0)
+	for _, t := range pgTypes {
+		if t.name == base || t.format == base {
+			oid = t.oid
+			break
+		}
+	}
+	if oid == 0 {
+		switch base {
+		case "int", "integer":
+			oid = oidInt4
+		case "string", "varchar":
+			oid = oidText
+		default:
+			oid = typeOID(base)
+		}
+	}
+	if array {
+		if a, ok := arrayOf[oid]; ok {
+			return a
+		}
+		return oidText
+	}
+	return oid
 }

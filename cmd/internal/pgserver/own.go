@@ -65,6 +65,9 @@ func ownKind(sql string) string {
 				return "savepoint"
 			}
 		}
+		return "end"
+	case "commit", "end":
+		return "end"
 	case "copy":
 		if copyFromStdin.MatchString(sql) {
 			return "copy in"
@@ -86,6 +89,10 @@ func (sess *session) ownShape(sql string) (shape, bool) {
 	case "begin":
 		if sess.txn == 'I' {
 			return shape{}, false // DuckDB's own BEGIN
+		}
+	case "end":
+		if sess.txn != 'I' {
+			return shape{}, false // DuckDB's own COMMIT or ROLLBACK
 		}
 	case "show":
 		name, _ := showParameter(sql)
@@ -134,6 +141,18 @@ func (sess *session) own(sql string, formats []int16, describe bool) (bool, int6
 		sess.be.Send(&pgproto3.NoticeResponse{Severity: "WARNING", SeverityUnlocalized: "WARNING", Code: stateActiveTxn,
 			Message: "there is already a transaction in progress"})
 		sess.complete("BEGIN")
+	case "end":
+		if sess.txn != 'I' {
+			return false, 0, nil
+		}
+		// PostgreSQL warns and succeeds; DuckDB would fail.
+		sess.be.Send(&pgproto3.NoticeResponse{Severity: "WARNING", SeverityUnlocalized: "WARNING", Code: stateNoActiveTxn,
+			Message: "there is no transaction in progress"})
+		tag := "COMMIT"
+		if w := words(sql); w[0] == "rollback" || w[0] == "abort" {
+			tag = "ROLLBACK"
+		}
+		sess.complete(tag)
 	case "savepoint":
 		return true, 0, pgError{stateFeatureNotSupport, "savepoints are not supported: DuckDB has none, so plumb serve refuses SAVEPOINT, RELEASE and ROLLBACK TO; commit or roll back the whole transaction"}
 	case "copy in":

@@ -30,15 +30,15 @@ type prepared struct {
 // portal is a bound statement ready to execute: its SQL with the
 // parameters inlined, and its shape.
 type portal struct {
-	stmt    *prepared
-	sql     string
-	shape   shape
-	formats []int16
-	cursor  *cursor // open between Execute messages with a row limit (cursor.go)
-	hold     bool // a cursor declared WITH HOLD outlives its transaction
-	declared bool // opened by DECLARE
-	binary   bool // DECLARE ... BINARY
-	done     bool // a declared cursor's rows are used up
+	stmt     *prepared
+	sql      string
+	shape    shape
+	formats  []int16
+	cursor   *cursor // open between Execute messages with a row limit (cursor.go)
+	hold     bool    // a cursor declared WITH HOLD outlives its transaction
+	declared bool    // opened by DECLARE
+	binary   bool    // DECLARE ... BINARY
+	done     bool    // a declared cursor's rows are used up
 }
 
 var beginVariant = regexp.MustCompile(`(?is)^\s*(BEGIN|START\s+TRANSACTION)\b.*$`)
@@ -292,4 +292,3 @@ func firstLine(s string) string {
 	line, _, _ := strings.Cut(s, "\n")
 	return line
 }
-

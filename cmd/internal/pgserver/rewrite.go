@@ -19,7 +19,7 @@ import (
 // rewriter holds one statement's tokens and what the rules need to know.
 type rewriter struct {
 	toks    []token
-	dataDir string      // relative file paths resolve against it
+	dataDir string       // relative file paths resolve against it
 	paths   map[int]bool // parameters ($n) that name a file, to resolve once bound
 }
 

@@ -19,17 +19,17 @@ import (
 
 // session is one client connection and its own DuckDB connection.
 type session struct {
-	srv    *Server
-	conn   net.Conn
-	be     *pgproto3.Backend
-	db     *sql.Conn
-	log    *slog.Logger
-	pid    uint32
-	secret []byte
+	srv      *Server
+	conn     net.Conn
+	be       *pgproto3.Backend
+	db       *sql.Conn
+	log      *slog.Logger
+	pid      uint32
+	secret   []byte
 	user     string
 	database string
 	txn      byte // 'I' idle, 'T' in a transaction, 'E' in a failed transaction
-	params map[string]string
+	params   map[string]string
 
 	statements map[string]*prepared
 	portals    map[string]*portal

@@ -14,13 +14,13 @@ import "strings"
 type tokenKind int
 
 const (
-	tokSpace   tokenKind = iota // white space and comments
-	tokWord                     // a keyword or an unquoted identifier
-	tokQuoted                   // a double-quoted identifier
-	tokString                   // a string literal of any form
-	tokNumber                   // a numeric constant
-	tokParam                    // $1, $2, ...
-	tokOp                       // an operator or punctuation: ( ) , ; . :: [ ] + - ...
+	tokSpace  tokenKind = iota // white space and comments
+	tokWord                    // a keyword or an unquoted identifier
+	tokQuoted                  // a double-quoted identifier
+	tokString                  // a string literal of any form
+	tokNumber                  // a numeric constant
+	tokParam                   // $1, $2, ...
+	tokOp                      // an operator or punctuation: ( ) , ; . :: [ ] + - ...
 )
 
 // token is one lexical element and its exact text.
