@@ -301,7 +301,7 @@ func parseFetch(sql string) (fetchRequest, error) {
 		case "all":
 			f.count = 0
 		case "from", "in":
-		case "prior", "backward", "first", "last", "absolute", "relative":
+		case "prior", "backward", "first", "last", "absolute", "relative", "-":
 			return f, pgError{stateFeatureNotSupport, "plumb serve's cursors move forward only (FETCH " + strings.ToUpper(w[i]) + " is not supported)"}
 		case ";":
 		default:

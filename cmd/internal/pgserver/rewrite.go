@@ -134,7 +134,7 @@ func dropCollate(r *rewriter) {
 		if end < 0 {
 			continue
 		}
-		switch r.toks[end].name() {
+		switch strings.ToLower(r.toks[end].name()) {
 		case "default", "c", "posix", "ucs_basic":
 			r.blank(i, end)
 		}
