@@ -107,10 +107,11 @@ func (sess *session) run(original, sql string, sh *shape, formats []int16, descr
 // logStatement writes one log line for a statement at a protocol step
 // and, after an error inside a transaction block, marks it failed.
 func (sess *session) logStatement(step, sql string, start time.Time, rows int64, err error, more ...any) {
-	attrs := []any{"sql", truncate(sql, 300), "duration", time.Since(start).String(), "rows", rows}
+	var attrs []any
 	if step != "execute" {
 		attrs = append(attrs, "step", step)
 	}
+	attrs = append(attrs, "sql", truncate(sql, 300), "duration", time.Since(start).String(), "rows", rows)
 	attrs = append(attrs, more...)
 	if err != nil {
 		attrs = append(attrs, "error", firstLine(err.Error()))

@@ -26,6 +26,12 @@ type testServer struct {
 
 func startServer(t *testing.T, cfg Config) *testServer {
 	t.Helper()
+	return startServerLogging(t, cfg, nil)
+}
+
+// startServerLogging is startServer with the server's log going to log.
+func startServerLogging(t *testing.T, cfg Config, log *slog.Logger) *testServer {
+	t.Helper()
 	if cfg.Addr == "" {
 		cfg.Addr = "127.0.0.1:0"
 	}
@@ -40,7 +46,9 @@ func startServer(t *testing.T, cfg Config) *testServer {
 	if cfg.Grace == 0 {
 		cfg.Grace = 2 * time.Second
 	}
-	log := slog.New(slog.NewTextHandler(io.Discard, nil))
+	if log == nil {
+		log = slog.New(slog.NewTextHandler(io.Discard, nil))
+	}
 	if os.Getenv("PLUMB_SERVER_LOG") != "" {
 		log = slog.New(slog.NewTextHandler(os.Stderr, nil))
 	}
