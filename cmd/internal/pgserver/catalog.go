@@ -132,7 +132,7 @@ var compatObjects = []compatObject{
 	{"pg_type_is_visible", constant(`CREATE OR REPLACE TEMP MACRO pg_type_is_visible(o) AS true`)},
 	// Columns, with atttypid the OID the server sends such a column as.
 	{"pg_attribute", constant(`CREATE OR REPLACE TEMP VIEW pg_attribute AS SELECT table_oid AS attrelid, column_name AS attname,
-	(` + oidOfTypeSQL("data_type") + `)::BIGINT AS atttypid, 0 AS attstattarget, -1::SMALLINT AS attlen, column_index::SMALLINT AS attnum,
+	(` + oidOfTypeSQL("data_type") + `)::BIGINT AS atttypid, -1 AS attstattarget, -1::SMALLINT AS attlen, column_index::SMALLINT AS attnum,
 	CASE WHEN data_type LIKE '%[]' THEN 1 ELSE 0 END AS attndims, -1 AS attcacheoff,
 	CASE WHEN data_type LIKE 'DECIMAL%' THEN ((numeric_precision << 16) | numeric_scale) + 4 ELSE -1 END AS atttypmod,
 	false AS attbyval, 'p' AS attalign, 'p' AS attstorage, '' AS attcompression, NOT is_nullable AS attnotnull,
@@ -146,31 +146,71 @@ var compatObjects = []compatObject{
 	// Relations: DuckDB's, plus a primary-key index for every table that
 	// has a primary key (DuckDB keeps those as constraints).
 	{"plumb_primary_keys", constant(`CREATE OR REPLACE TEMP VIEW plumb_primary_keys AS SELECT table_oid * 100 + constraint_index + 1 AS oid,
-	table_oid, schema_oid, table_name || '_pkey' AS name, list_transform(constraint_column_indexes, i -> (i + 1)::SMALLINT) AS keys
-	FROM duckdb_constraints() WHERE constraint_type = 'PRIMARY KEY'`)},
+	table_oid, schema_oid, table_name || '_pkey' AS name, list_transform(constraint_column_indexes, i -> (i + 1)::SMALLINT) AS keys,
+	constraint_column_names AS key_names FROM duckdb_constraints() WHERE constraint_type = 'PRIMARY KEY'`)},
 	// DuckDB's pg_class without its internal objects and without this
 	// layer's own TEMP views.
 	{"pg_class", func(identity, catalogOIDs) string {
 		return `CREATE OR REPLACE TEMP VIEW pg_class AS SELECT * REPLACE (relowner::BIGINT AS relowner,
-	CASE WHEN relkind = 'r' THEN (SELECT count(*) > 0 FROM plumb_primary_keys k WHERE k.table_oid = c.oid) OR relhasindex ELSE relhasindex END AS relhasindex)
+	CASE WHEN relkind = 'r' THEN (SELECT count(*) > 0 FROM plumb_primary_keys k WHERE k.table_oid = c.oid) OR relhasindex ELSE relhasindex END AS relhasindex,
+	coalesce(relreplident, 'd') AS relreplident, reloptions::VARCHAR[] AS reloptions), false AS relforcerowsecurity
 	FROM system.pg_catalog.pg_class c
 	WHERE oid NOT IN (SELECT view_oid FROM duckdb_views() WHERE internal OR temporary AND view_name IN ` + compatNameSQL + `)
 	AND oid NOT IN (SELECT table_oid FROM duckdb_tables() WHERE internal)
-	UNION ALL BY NAME SELECT oid, name AS relname, schema_oid AS relnamespace, 'i' AS relkind, 16384::BIGINT AS relowner, 0 AS reltablespace,
+	UNION ALL BY NAME SELECT oid, name AS relname, schema_oid AS relnamespace, 'i' AS relkind, 0::BIGINT AS relowner, 0 AS reltablespace,
 	'p' AS relpersistence, len(keys) AS relnatts, false AS relhasindex, 0::BIGINT AS relam FROM plumb_primary_keys`
 	}},
 	{"pg_index", constant(`CREATE OR REPLACE TEMP VIEW pg_index AS SELECT * REPLACE (CASE WHEN indkey IS NULL THEN [] ELSE indkey END::SMALLINT[] AS indkey)
 	FROM (SELECT indexrelid, indrelid, indnatts, indnkeyatts, indisunique, indisprimary, indisexclusion, indimmediate, indisclustered,
 	indisvalid, indcheckxmin, indisready, indislive, indisreplident, NULL::SMALLINT[] AS indkey, indexprs::VARCHAR AS indexprs, indpred::VARCHAR AS indpred FROM system.pg_catalog.pg_index
 	UNION ALL SELECT oid, table_oid, len(keys), len(keys), true, true, false, true, false, true, false, true, true, false, keys, NULL, NULL FROM plumb_primary_keys)`)},
-	{"pg_get_indexdef", constant(`CREATE OR REPLACE TEMP MACRO pg_get_indexdef(o, c := 0, p := false) AS coalesce((SELECT sql FROM duckdb_indexes() WHERE index_oid = o),
-	(SELECT 'CREATE UNIQUE INDEX ' || name || ' ON ' || table_oid FROM plumb_primary_keys WHERE oid = o))`)},
+	// Index definitions as PostgreSQL prints them (psql shows what follows
+	// USING): CREATE [UNIQUE] INDEX name ON schema.table USING art (columns).
+	{"plumb_indexdef", constant(`CREATE OR REPLACE TEMP MACRO plumb_indexdef(o) AS coalesce(
+	(SELECT 'CREATE ' || CASE WHEN is_unique THEN 'UNIQUE ' ELSE '' END || 'INDEX ' || index_name || ' ON ' || schema_name || '.' || table_name
+		|| ' USING art (' || trim(expressions, '[]') || ')' FROM duckdb_indexes() WHERE index_oid = o),
+	(SELECT 'CREATE UNIQUE INDEX ' || k.name || ' ON ' || t.schema_name || '.' || t.table_name || ' USING art ('
+		|| array_to_string(k.key_names, ', ') || ')'
+		FROM plumb_primary_keys k JOIN duckdb_tables() t ON t.table_oid = k.table_oid WHERE k.oid = o))`)},
+	{"pg_get_indexdef", constant(`CREATE OR REPLACE TEMP MACRO pg_get_indexdef(o) AS plumb_indexdef(o), (o, c, p) AS plumb_indexdef(o)`)},
+	// Comments: DuckDB keeps them on its catalogue entries.
+	{"col_description", constant(`CREATE OR REPLACE TEMP MACRO col_description(o, n) AS (SELECT comment FROM duckdb_columns() WHERE table_oid = o AND column_index = n)`)},
+	{"plumb_comment", constant(`CREATE OR REPLACE TEMP MACRO plumb_comment(o) AS
+	coalesce((SELECT comment FROM duckdb_tables() WHERE table_oid = o), (SELECT comment FROM duckdb_views() WHERE view_oid = o))`)},
+	{"obj_description", constant(`CREATE OR REPLACE TEMP MACRO obj_description(o) AS plumb_comment(o), (o, c) AS plumb_comment(o)`)},
 	// Functions: argument and result lists as psql's \df prints them.
 	{"pg_get_function_result", constant(`CREATE OR REPLACE TEMP MACRO pg_get_function_result(o) AS (SELECT coalesce(any_value(return_type), any_value(function_type)) FROM duckdb_functions() WHERE function_oid = o)`)},
 	{"pg_get_function_arguments", constant(`CREATE OR REPLACE TEMP MACRO pg_get_function_arguments(o) AS (SELECT array_to_string(any_value(parameters), ', ') FROM duckdb_functions() WHERE function_oid = o)`)},
 	{"pg_get_function_identity_arguments", constant(`CREATE OR REPLACE TEMP MACRO pg_get_function_identity_arguments(o) AS pg_get_function_arguments(o)`)},
+	// Catalogues psql's \d reads that are empty here: no policies,
+	// extended statistics, publications, inheritance, triggers or rules.
+	{"pg_policy", constant(`CREATE OR REPLACE TEMP VIEW pg_policy AS SELECT 0::BIGINT AS oid, '' AS polname, 0::BIGINT AS polrelid, '' AS polcmd,
+	true AS polpermissive, []::BIGINT[] AS polroles, NULL::VARCHAR AS polqual, NULL::VARCHAR AS polwithcheck WHERE false`)},
+	{"pg_statistic_ext", constant(`CREATE OR REPLACE TEMP VIEW pg_statistic_ext AS SELECT 0::BIGINT AS oid, 0::BIGINT AS stxrelid, '' AS stxname,
+	0::BIGINT AS stxnamespace, 0::BIGINT AS stxowner, -1 AS stxstattarget, []::SMALLINT[] AS stxkeys, []::VARCHAR[] AS stxkind, NULL::VARCHAR AS stxexprs WHERE false`)},
+	{"pg_publication", constant(`CREATE OR REPLACE TEMP VIEW pg_publication AS SELECT 0::BIGINT AS oid, '' AS pubname, 0::BIGINT AS pubowner,
+	false AS puballtables, false AS pubinsert, false AS pubupdate, false AS pubdelete, false AS pubtruncate, false AS pubviaroot WHERE false`)},
+	{"pg_publication_rel", constant(`CREATE OR REPLACE TEMP VIEW pg_publication_rel AS SELECT 0::BIGINT AS oid, 0::BIGINT AS prpubid, 0::BIGINT AS prrelid,
+	NULL::VARCHAR AS prqual, NULL::SMALLINT[] AS prattrs WHERE false`)},
+	{"pg_publication_namespace", constant(`CREATE OR REPLACE TEMP VIEW pg_publication_namespace AS SELECT 0::BIGINT AS oid, 0::BIGINT AS pnpubid, 0::BIGINT AS pnnspid WHERE false`)},
+	{"pg_inherits", constant(`CREATE OR REPLACE TEMP VIEW pg_inherits AS SELECT 0::BIGINT AS inhrelid, 0::BIGINT AS inhparent, 0 AS inhseqno, false AS inhdetachpending WHERE false`)},
+	{"pg_trigger", constant(`CREATE OR REPLACE TEMP VIEW pg_trigger AS SELECT 0::BIGINT AS oid, 0::BIGINT AS tgrelid, 0::BIGINT AS tgparentid, '' AS tgname,
+	0::BIGINT AS tgfoid, 0 AS tgtype, 'O' AS tgenabled, false AS tgisinternal, 0::BIGINT AS tgconstrrelid, 0::BIGINT AS tgconstrindid,
+	0::BIGINT AS tgconstraint, false AS tgdeferrable, false AS tginitdeferred, 0 AS tgnargs WHERE false`)},
+	{"pg_rewrite", constant(`CREATE OR REPLACE TEMP VIEW pg_rewrite AS SELECT 0::BIGINT AS oid, '' AS rulename, 0::BIGINT AS ev_class, '1' AS ev_type,
+	'O' AS ev_enabled, false AS is_instead WHERE false`)},
+	{"pg_get_statisticsobjdef_columns", constant(`CREATE OR REPLACE TEMP MACRO pg_get_statisticsobjdef_columns(o) AS NULL::VARCHAR`)},
+	{"pg_get_triggerdef", constant(`CREATE OR REPLACE TEMP MACRO pg_get_triggerdef(o, p := false) AS NULL::VARCHAR`)},
+	{"pg_get_ruledef", constant(`CREATE OR REPLACE TEMP MACRO pg_get_ruledef(o, p := false) AS NULL::VARCHAR`)},
+	{"pg_relation_is_publishable", constant(`CREATE OR REPLACE TEMP MACRO pg_relation_is_publishable(o) AS false`)},
+	{"pg_get_viewdef", constant(`CREATE OR REPLACE TEMP MACRO pg_get_viewdef(o) AS (SELECT sql FROM duckdb_views() WHERE view_oid = o),
+	(o, pretty) AS (SELECT sql FROM duckdb_views() WHERE view_oid = o)`)},
+	{"pg_get_partkeydef", constant(`CREATE OR REPLACE TEMP MACRO pg_get_partkeydef(o) AS NULL::VARCHAR`)},
+	{"pg_get_partition_constraintdef", constant(`CREATE OR REPLACE TEMP MACRO pg_get_partition_constraintdef(o) AS NULL::VARCHAR`)},
 	{"pg_settings", constant(`CREATE OR REPLACE TEMP VIEW pg_settings AS SELECT name, setting, NULL::VARCHAR AS unit, 'Client Connection Defaults' AS category,
-	'' AS short_desc, NULL::VARCHAR AS extra_desc, 'user' AS context, 'string' AS vartype, 'default' AS source FROM plumb_settings`)},
+	'' AS short_desc, NULL::VARCHAR AS extra_desc, 'user' AS context, 'string' AS vartype, 'default' AS source,
+	NULL::VARCHAR AS min_val, NULL::VARCHAR AS max_val, NULL::VARCHAR[] AS enumvals, setting AS boot_val, setting AS reset_val,
+	NULL::VARCHAR AS sourcefile, NULL::INTEGER AS sourceline, false AS pending_restart FROM plumb_settings`)},
 }
 
 // compatNameSQL is the layer's object names as a SQL list, for pg_class
