@@ -207,6 +207,8 @@ var compatObjects = []compatObject{
 	(o, pretty) AS (SELECT sql FROM duckdb_views() WHERE view_oid = o)`)},
 	{"pg_get_partkeydef", constant(`CREATE OR REPLACE TEMP MACRO pg_get_partkeydef(o) AS NULL::VARCHAR`)},
 	{"pg_get_partition_constraintdef", constant(`CREATE OR REPLACE TEMP MACRO pg_get_partition_constraintdef(o) AS NULL::VARCHAR`)},
+	{"current_setting", constant(`CREATE OR REPLACE TEMP MACRO current_setting(n) AS (SELECT plumb_s.setting FROM plumb_settings plumb_s WHERE plumb_s.name = lower(n)),
+	(n, missing_ok) AS (SELECT plumb_s.setting FROM plumb_settings plumb_s WHERE plumb_s.name = lower(n))`)},
 	{"pg_settings", constant(`CREATE OR REPLACE TEMP VIEW pg_settings AS SELECT name, setting, NULL::VARCHAR AS unit, 'Client Connection Defaults' AS category,
 	'' AS short_desc, NULL::VARCHAR AS extra_desc, 'user' AS context, 'string' AS vartype, 'default' AS source,
 	NULL::VARCHAR AS min_val, NULL::VARCHAR AS max_val, NULL::VARCHAR[] AS enumvals, setting AS boot_val, setting AS reset_val,

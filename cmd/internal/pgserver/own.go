@@ -1,6 +1,7 @@
 package pgserver
 
 import (
+	"context"
 	"fmt"
 	"strconv"
 	"strings"
@@ -116,6 +117,10 @@ func (sess *session) own(sql string, formats []int16, describe bool) (bool, int6
 	case "set":
 		if name, value, ok := setParameter(sql); ok {
 			sess.params[name] = value
+			// pg_settings and current_setting() follow.
+			if _, err := sess.db.ExecContext(context.Background(), settingsView(sess.params)); err != nil {
+				return true, 0, err
+			}
 		}
 		sess.complete("SET")
 	case "show":
