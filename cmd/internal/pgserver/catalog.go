@@ -160,10 +160,24 @@ var compatObjects = []compatObject{
 	UNION ALL BY NAME SELECT oid, name AS relname, schema_oid AS relnamespace, 'i' AS relkind, 0::BIGINT AS relowner, 0 AS reltablespace,
 	'p' AS relpersistence, len(keys) AS relnatts, false AS relhasindex, 0::BIGINT AS relam FROM plumb_primary_keys`
 	}},
-	{"pg_index", constant(`CREATE OR REPLACE TEMP VIEW pg_index AS SELECT * REPLACE (CASE WHEN indkey IS NULL THEN [] ELSE indkey END::SMALLINT[] AS indkey)
-	FROM (SELECT indexrelid, indrelid, indnatts, indnkeyatts, indisunique, indisprimary, indisexclusion, indimmediate, indisclustered,
-	indisvalid, indcheckxmin, indisready, indislive, indisreplident, NULL::SMALLINT[] AS indkey, indexprs::VARCHAR AS indexprs, indpred::VARCHAR AS indpred FROM system.pg_catalog.pg_index
-	UNION ALL SELECT oid, table_oid, len(keys), len(keys), true, true, false, true, false, true, false, true, true, false, keys, NULL, NULL FROM plumb_primary_keys)`)},
+	// Indexes: DuckDB's (their key columns found by name) and the
+	// primary keys'; indkey, indoption and indclass are lists, PostgreSQL's
+	// int2vector and oidvector.
+	{"plumb_index_keys", constant(`CREATE OR REPLACE TEMP VIEW plumb_index_keys AS
+	SELECT e.index_oid, list(c.column_index::SMALLINT ORDER BY e.pos) AS keys, list(c.column_name ORDER BY e.pos) AS key_names
+	FROM (SELECT index_oid, table_oid, unnest(string_split(trim(expressions, '[]'), ', ')) AS name,
+	      generate_subscripts(string_split(trim(expressions, '[]'), ', '), 1) AS pos FROM duckdb_indexes()) e
+	JOIN duckdb_columns() c ON c.table_oid = e.table_oid AND c.column_name = trim(e.name, '"''') GROUP BY e.index_oid`)},
+	{"pg_index", constant(`CREATE OR REPLACE TEMP VIEW pg_index AS
+	SELECT i.index_oid AS indexrelid, i.table_oid AS indrelid, coalesce(len(k.keys), 0)::SMALLINT AS indnatts, coalesce(len(k.keys), 0)::SMALLINT AS indnkeyatts,
+	i.is_unique AS indisunique, i.is_primary AS indisprimary, false AS indisexclusion, true AS indimmediate, false AS indisclustered,
+	true AS indisvalid, false AS indcheckxmin, true AS indisready, true AS indislive, false AS indisreplident,
+	coalesce(k.keys, []::SMALLINT[]) AS indkey, list_transform(coalesce(k.keys, []::SMALLINT[]), x -> 0::BIGINT) AS indcollation,
+	list_transform(coalesce(k.keys, []::SMALLINT[]), x -> 0::BIGINT) AS indclass, list_transform(coalesce(k.keys, []::SMALLINT[]), x -> 0::SMALLINT) AS indoption,
+	CASE WHEN k.keys IS NULL THEN i.expressions END AS indexprs, NULL::VARCHAR AS indpred
+	FROM duckdb_indexes() i LEFT JOIN plumb_index_keys k ON k.index_oid = i.index_oid
+	UNION ALL SELECT oid, table_oid, len(keys), len(keys), true, true, false, true, false, true, false, true, true, false, keys,
+	list_transform(keys, x -> 0::BIGINT), list_transform(keys, x -> 0::BIGINT), list_transform(keys, x -> 0::SMALLINT), NULL, NULL FROM plumb_primary_keys`)},
 	// Index definitions as PostgreSQL prints them (psql shows what follows
 	// USING): CREATE [UNIQUE] INDEX name ON schema.table USING art (columns).
 	{"plumb_indexdef", constant(`CREATE OR REPLACE TEMP MACRO plumb_indexdef(o) AS coalesce(
@@ -172,13 +186,30 @@ var compatObjects = []compatObject{
 	(SELECT 'CREATE UNIQUE INDEX ' || k.name || ' ON ' || t.schema_name || '.' || t.table_name || ' USING art ('
 		|| array_to_string(k.key_names, ', ') || ')'
 		FROM plumb_primary_keys k JOIN duckdb_tables() t ON t.table_oid = k.table_oid WHERE k.oid = o))`)},
-	{"pg_get_indexdef", constant(`CREATE OR REPLACE TEMP MACRO pg_get_indexdef(o) AS plumb_indexdef(o), (o, c, p) AS plumb_indexdef(o)`)},
+	// With a column number, pg_get_indexdef names that key column.
+	{"pg_get_indexdef", constant(`CREATE OR REPLACE TEMP MACRO pg_get_indexdef(o) AS plumb_indexdef(o),
+	(o, c, p) AS CASE WHEN c = 0 THEN plumb_indexdef(o) ELSE coalesce((SELECT key_names[c] FROM plumb_index_keys WHERE index_oid = o),
+	(SELECT key_names[c] FROM plumb_primary_keys WHERE oid = o)) END`)},
 	// Comments: DuckDB keeps them on its catalogue entries.
 	{"col_description", constant(`CREATE OR REPLACE TEMP MACRO col_description(o, n) AS (SELECT comment FROM duckdb_columns() WHERE table_oid = o AND column_index = n)`)},
 	{"plumb_comment", constant(`CREATE OR REPLACE TEMP MACRO plumb_comment(o) AS
 	coalesce((SELECT comment FROM duckdb_tables() WHERE table_oid = o), (SELECT comment FROM duckdb_views() WHERE view_oid = o))`)},
 	{"obj_description", constant(`CREATE OR REPLACE TEMP MACRO obj_description(o) AS plumb_comment(o), (o, c) AS plumb_comment(o)`)},
-	// Functions: argument and result lists as psql's \df prints them.
+	// Functions: DuckDB's and plumb's, in the main schema clients see, and
+	// this layer's in pg_catalog.
+	{"pg_proc", func(_ identity, o catalogOIDs) string {
+		return `CREATE OR REPLACE TEMP VIEW pg_proc AS SELECT f.function_oid AS oid, function_name AS proname,
+	CASE WHEN f.schema_name = 'pg_catalog' OR f.database_name = 'temp' AND f.function_name IN ` + compatNameSQL + ` THEN ` + fmt.Sprint(o.pgCatalog) + `
+	ELSE (SELECT oid FROM duckdb_schemas() WHERE database_name = ` + sqlQuote(o.database) + ` AND schema_name = 'main') END::BIGINT AS pronamespace,
+	16384::BIGINT AS proowner, 0::BIGINT AS prolang, 0 AS procost, 0 AS prorows, 0::BIGINT AS provariadic, 0::BIGINT AS prosupport,
+	CASE WHEN function_type = 'aggregate' THEN 'a' ELSE 'f' END AS prokind, false AS prosecdef, false AS proleakproof, false AS proisstrict,
+	function_type IN ('table', 'table_macro') AS proretset, 'v' AS provolatile, 'u' AS proparallel, len(parameters)::SMALLINT AS pronargs,
+	0::SMALLINT AS pronargdefaults, 0::BIGINT AS prorettype, []::BIGINT[] AS proargtypes, NULL::BIGINT[] AS proallargtypes,
+	NULL::VARCHAR[] AS proargmodes, parameters AS proargnames, NULL::VARCHAR AS proargdefaults, NULL::VARCHAR AS prosrc, NULL::VARCHAR AS probin,
+	macro_definition AS prosqlbody, NULL::VARCHAR[] AS proconfig, NULL::VARCHAR[] AS proacl FROM duckdb_functions() f
+	WHERE NOT (f.database_name = 'temp' AND starts_with(f.function_name, 'plumb_'))`
+	}},
+	// Argument and result lists as psql's \df prints them.
 	{"pg_get_function_result", constant(`CREATE OR REPLACE TEMP MACRO pg_get_function_result(o) AS (SELECT coalesce(any_value(return_type), any_value(function_type)) FROM duckdb_functions() WHERE function_oid = o)`)},
 	{"pg_get_function_arguments", constant(`CREATE OR REPLACE TEMP MACRO pg_get_function_arguments(o) AS (SELECT array_to_string(any_value(parameters), ', ') FROM duckdb_functions() WHERE function_oid = o)`)},
 	{"pg_get_function_identity_arguments", constant(`CREATE OR REPLACE TEMP MACRO pg_get_function_identity_arguments(o) AS pg_get_function_arguments(o)`)},

@@ -35,6 +35,7 @@ var tokenRules = []tokenRule{
 	{"pg_catalog.x becomes x, information_schema.x too where the layer has an x", qualifiedCompat},
 	{"'name'::regclass, ::regtype and ::regproc look the name up", regLiteral},
 	{"a select item that is one function call is named after the function", functionColumnName},
+	{"LIKE patterns escape with a backslash, as PostgreSQL's do by default", likeEscape},
 	{"relative file paths resolve against --data", relativePaths},
 }
 
@@ -280,6 +281,25 @@ func functionColumnName(r *rewriter) {
 		}
 		r.toks[end] = token{tokOp, ") AS " + quoteIdentifier(name)}
 		i = end
+	}
+}
+
+// likeEscape: x LIKE 'a\_b' → x LIKE 'a\_b' ESCAPE '\'. PostgreSQL's
+// LIKE treats a backslash as the escape character unless told otherwise;
+// DuckDB's has no escape character by default (pgjdbc escapes _ in names).
+func likeEscape(r *rewriter) {
+	for i, t := range r.toks {
+		if !t.is("like") && !t.is("ilike") {
+			continue
+		}
+		lit := r.next(i)
+		if lit < 0 || r.toks[lit].kind != tokString || !strings.Contains(r.toks[lit].text, `\`) {
+			continue
+		}
+		if after := r.next(lit); after >= 0 && r.toks[after].is("escape") {
+			continue
+		}
+		r.toks[lit].text += ` ESCAPE '\'`
 	}
 }
 

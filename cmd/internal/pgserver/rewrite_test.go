@@ -41,6 +41,11 @@ func TestRewriteRules(t *testing.T) {
 		{"SELECT (SELECT max(a) FROM t)", `SELECT (SELECT max(a) AS "max" FROM t)`},
 		{"SELECT 1 FROM t WHERE g(a) = 1", "SELECT 1 FROM t WHERE g(a) = 1"},
 		{"SELECT * FROM diagnose('x', by := 'g')", "SELECT * FROM diagnose('x', by := 'g')"},
+		// likeEscape
+		{`WHERE p.proname LIKE E'unit\\_root'`, `WHERE p.proname LIKE E'unit\\_root' ESCAPE '\'`},
+		{`WHERE c.relname LIKE 'jdbc\_%'`, `WHERE c.relname LIKE 'jdbc\_%' ESCAPE '\'`},
+		{`WHERE c.relname LIKE 'a\_b' ESCAPE '!'`, `WHERE c.relname LIKE 'a\_b' ESCAPE '!'`},
+		{`WHERE c.relname LIKE 'plain%'`, `WHERE c.relname LIKE 'plain%'`},
 		// relativePaths (data directory /srv/data)
 		{"SELECT * FROM 'shops.parquet'", "SELECT * FROM '/srv/data/shops.parquet'"},
 		{"SELECT * FROM read_csv('in/x.csv', header = true)", "SELECT * FROM read_csv('/srv/data/in/x.csv', header = true)"},

@@ -31,6 +31,7 @@ public class JdbcClient {
         try (Statement s = c.createStatement()) {
             s.execute("CREATE TABLE jdbc_t (id INTEGER PRIMARY KEY, name VARCHAR NOT NULL, x DOUBLE, d DATE, ts TIMESTAMP, u UUID, l DOUBLE[])");
             s.execute("CREATE VIEW jdbc_v AS SELECT id, name FROM jdbc_t");
+            s.execute("CREATE INDEX jdbc_t_name ON jdbc_t (name)");
         }
         DatabaseMetaData md = c.getMetaData();
         check("getTables", () -> {
@@ -61,6 +62,21 @@ public class JdbcClient {
                 while (rs.next()) got.add(rs.getString("COLUMN_NAME") + ":" + rs.getInt("KEY_SEQ"));
             }
             return expect(got, List.of("id:1"));
+        });
+        check("getIndexInfo", () -> {
+            List<String> got = new ArrayList<>();
+            try (ResultSet rs = md.getIndexInfo(null, null, "jdbc_t", false, false)) {
+                while (rs.next()) got.add(rs.getString("INDEX_NAME") + ":" + rs.getString("COLUMN_NAME") + ":" + (rs.getBoolean("NON_UNIQUE") ? "non-unique" : "unique"));
+            }
+            return expect(got, List.of("jdbc_t_pkey:id:unique", "jdbc_t_name:name:non-unique"));
+        });
+        check("getFunctions", () -> {
+            List<String> got = new ArrayList<>();
+            try (ResultSet rs = md.getFunctions(null, null, "unit_root")) {
+                while (rs.next()) got.add(rs.getString("FUNCTION_NAME"));
+            }
+            if (got.isEmpty()) throw new AssertionError("unit_root not listed");
+            return got;
         });
         check("getTypeInfo", () -> {
             int n = 0;

@@ -32,7 +32,7 @@ check("dbGetQuery(diagnose) with list and json columns", function() {
 })
 check("dbWriteTable and back", function() {
   df <- data.frame(k = 1:3, x = c(1.5, NA, 3), s = c("a", NA, "c"), stringsAsFactors = FALSE)
-  dbWriteTable(con, "r_frame", df, row.names = FALSE)
+  invisible(dbWriteTable(con, "r_frame", df, row.names = FALSE))
   back <- dbGetQuery(con, "SELECT k, x, s FROM r_frame ORDER BY k")
   expect(back$k, 1:3)
   expect(back$x, c(1.5, NA, 3))
