@@ -131,17 +131,19 @@ var compatObjects = []compatObject{
 	{"format_type", constant(`CREATE OR REPLACE TEMP MACRO format_type(o, m) AS (SELECT format_name FROM pg_type WHERE oid = o)`)},
 	{"pg_type_is_visible", constant(`CREATE OR REPLACE TEMP MACRO pg_type_is_visible(o) AS true`)},
 	// Columns, with atttypid the OID the server sends such a column as.
+	{"plumb_type_oids", constant(`CREATE OR REPLACE TEMP VIEW plumb_type_oids AS SELECT * FROM (VALUES ` + typeOIDRows() + `) t(type_name, oid)`)},
 	{"pg_attribute", constant(`CREATE OR REPLACE TEMP VIEW pg_attribute AS SELECT table_oid AS attrelid, column_name AS attname,
-	(` + oidOfTypeSQL("data_type") + `)::BIGINT AS atttypid, -1 AS attstattarget, -1::SMALLINT AS attlen, column_index::SMALLINT AS attnum,
+	coalesce(m.oid, CASE WHEN data_type LIKE 'DECIMAL%[]' THEN ` + fmt.Sprint(arrayOf[oidNumeric]) + ` WHEN data_type LIKE 'DECIMAL%' AND data_type NOT LIKE '%]' THEN ` + fmt.Sprint(oidNumeric) + `
+	ELSE ` + fmt.Sprint(oidJSONText) + ` END)::BIGINT AS atttypid, -1 AS attstattarget, -1::SMALLINT AS attlen, column_index::SMALLINT AS attnum,
 	CASE WHEN data_type LIKE '%[]' THEN 1 ELSE 0 END AS attndims, -1 AS attcacheoff,
 	CASE WHEN data_type LIKE 'DECIMAL%' THEN ((numeric_precision << 16) | numeric_scale) + 4 ELSE -1 END AS atttypmod,
 	false AS attbyval, 'p' AS attalign, 'p' AS attstorage, '' AS attcompression, NOT is_nullable AS attnotnull,
 	column_default IS NOT NULL AS atthasdef, false AS atthasmissing, '' AS attidentity, '' AS attgenerated, false AS attisdropped,
 	true AS attislocal, 0 AS attinhcount, 0::BIGINT AS attcollation, NULL::VARCHAR[] AS attacl, NULL::VARCHAR[] AS attoptions,
-	NULL::VARCHAR[] AS attfdwoptions, NULL::VARCHAR AS attmissingval, comment AS plumb_comment, column_default AS plumb_default
-	FROM duckdb_columns()`)},
-	{"pg_attrdef", constant(`CREATE OR REPLACE TEMP VIEW pg_attrdef AS SELECT attrelid * 10000 + attnum AS oid, attrelid AS adrelid,
-	attnum AS adnum, plumb_default AS adbin FROM pg_attribute WHERE plumb_default IS NOT NULL`)},
+	NULL::VARCHAR[] AS attfdwoptions, NULL::VARCHAR AS attmissingval
+	FROM duckdb_columns() c LEFT JOIN plumb_type_oids m ON m.type_name = c.data_type`)},
+	{"pg_attrdef", constant(`CREATE OR REPLACE TEMP VIEW pg_attrdef AS SELECT table_oid * 10000 + column_index AS oid, table_oid AS adrelid,
+	column_index::SMALLINT AS adnum, column_default AS adbin FROM duckdb_columns() WHERE column_default IS NOT NULL`)},
 	{"pg_get_expr", constant(`CREATE OR REPLACE TEMP MACRO pg_get_expr(e, r, p := false) AS e::VARCHAR`)},
 	// Relations: DuckDB's, plus a primary-key index for every table that
 	// has a primary key (DuckDB keeps those as constraints).
@@ -289,10 +291,9 @@ func setupCompat(ctx context.Context, conn *sql.Conn, id identity, params map[st
 	for _, obj := range compatObjects {
 		stmts = append(stmts, obj.sql(id, o))
 	}
-	for _, s := range stmts {
-		if _, err := conn.ExecContext(ctx, s); err != nil {
-			return fmt.Errorf("compatibility layer (%s): %w", truncate(s, 80), err)
-		}
+	// One Exec for all: a round of parsing per statement is what remains.
+	if _, err := conn.ExecContext(ctx, strings.Join(stmts, ";\n")); err != nil {
+		return fmt.Errorf("compatibility layer: %w", err)
 	}
 	return nil
 }

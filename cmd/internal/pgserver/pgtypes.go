@@ -115,29 +115,20 @@ func pgTypeRows(pgCatalogOID int64) string {
 // sqlQuote quotes s as a SQL string literal.
 func sqlQuote(s string) string { return "'" + strings.ReplaceAll(s, "'", "''") + "'" }
 
-// oidOfTypeSQL is a SQL CASE over a DuckDB type name (duckdb_columns()'s
-// data_type) that gives the OID the server describes such a column with:
-// the SQL twin of typeOID, written from the same rules.
-func oidOfTypeSQL(col string) string {
-	base := func(expr string) string {
-		var b strings.Builder
-		b.WriteString("CASE " + expr)
-		for _, n := range []string{"BOOLEAN", "TINYINT", "SMALLINT", "UTINYINT", "INTEGER", "USMALLINT", "BIGINT", "UINTEGER",
-			"FLOAT", "DOUBLE", "DATE", "TIME", "INTERVAL", "BLOB", "UUID", "VARCHAR", "HUGEINT", "UHUGEINT", "UBIGINT",
-			"TIMESTAMP", "TIMESTAMP_S", "TIMESTAMP_MS", "TIMESTAMP_NS", "TIMESTAMP WITH TIME ZONE", "JSON"} {
-			fmt.Fprintf(&b, " WHEN '%s' THEN %d", n, typeOID(n))
+// typeOIDRows maps DuckDB's type names (duckdb_columns()'s data_type) to
+// the OIDs the server describes such columns with, as a VALUES list for
+// pg_attribute: the SQL twin of typeOID, generated from it. Names not
+// listed (DECIMAL(p,s), STRUCTs, MAPs) are matched by pattern in the view.
+func typeOIDRows() string {
+	var rows []string
+	for _, n := range []string{"BOOLEAN", "TINYINT", "SMALLINT", "UTINYINT", "INTEGER", "USMALLINT", "BIGINT", "UINTEGER",
+		"FLOAT", "DOUBLE", "DATE", "TIME", "INTERVAL", "BLOB", "UUID", "VARCHAR", "HUGEINT", "UHUGEINT", "UBIGINT",
+		"TIMESTAMP", "TIMESTAMP_S", "TIMESTAMP_MS", "TIMESTAMP_NS", "TIMESTAMP WITH TIME ZONE", "JSON"} {
+		oid := typeOID(n)
+		rows = append(rows, fmt.Sprintf("(%s, %d)", sqlQuote(n), oid))
+		if a, ok := arrayOf[oid]; ok {
+			rows = append(rows, fmt.Sprintf("(%s, %d)", sqlQuote(n+"[]"), a))
 		}
-		fmt.Fprintf(&b, " ELSE CASE WHEN %[1]s LIKE 'DECIMAL%%' THEN %[2]d WHEN %[1]s LIKE 'STRUCT%%' OR %[1]s LIKE 'MAP%%' OR %[1]s LIKE 'UNION%%' THEN %[3]d ELSE %[4]d END END",
-			expr, oidNumeric, oidJSONText, oidText)
-		return b.String()
 	}
-	element := "regexp_replace(" + col + ", '\\[\\]$', '')"
-	var arrays strings.Builder
-	arrays.WriteString("CASE " + base(element))
-	for e, a := range arrayOf {
-		fmt.Fprintf(&arrays, " WHEN %d THEN %d", e, a)
-	}
-	fmt.Fprintf(&arrays, " ELSE %d END", oidJSONText)
-	return fmt.Sprintf("CASE WHEN %s LIKE '%%[]' AND %s NOT LIKE '%%[][]' THEN %s WHEN %s LIKE '%%]' THEN %d ELSE %s END",
-		col, col, arrays.String(), col, oidJSONText, base(col))
+	return strings.Join(rows, ", ")
 }
