@@ -64,6 +64,11 @@ func (sess *session) describeSQL(ctx context.Context, sql string) (shape, error)
 		}
 		for i := 1; i <= ds.NumInput(); i++ {
 			t, err := ds.ParamType(i)
+			if t == duckdb.TYPE_LIST { // a list of what, a cast beside it may tell (extended.go)
+				sh.params = append(sh.params, 0)
+				sh.paramTypes = append(sh.paramTypes, "LIST")
+				continue
+			}
 			if err != nil || t == duckdb.TYPE_INVALID || t == duckdb.TYPE_ANY {
 				sh.params = append(sh.params, 0)
 				sh.paramTypes = append(sh.paramTypes, "")

@@ -221,6 +221,9 @@ func castOID(name string) uint32 {
 		}
 	}
 	if array {
+		if oid == oidVarchar || oid == 1042 { // lists of VARCHAR are text[]
+			oid = oidText
+		}
 		if a, ok := arrayOf[oid]; ok {
 			return a
 		}

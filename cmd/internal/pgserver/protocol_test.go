@@ -168,3 +168,43 @@ func TestCopyFromStdin(t *testing.T) {
 		t.Errorf("--read-only: %v (SQLSTATE %s)", err, code)
 	}
 }
+
+// TestParametersEverywhere: pgx binds in binary where the server describes
+// a type: arrays, UUIDs and dates; an untyped parameter goes where DuckDB
+// infers nothing (a select item, a table function's argument) and takes the
+// type the client declares.
+func TestParametersEverywhere(t *testing.T) {
+	ts := startServer(t, Config{})
+	writeSeries(t, ts.data)
+	c := ts.connect(t)
+	ctx := context.Background()
+	var diffs []float64
+	if err := c.QueryRow(ctx, "SELECT difference($1::DOUBLE[])", []float64{1, 4, 9, 16}).Scan(&diffs); err != nil || len(diffs) != 3 || diffs[2] != 7 {
+		t.Errorf("binary float8[]: %v %v", diffs, err)
+	}
+	var names []string
+	if err := c.QueryRow(ctx, "SELECT list_reverse($1::VARCHAR[])", []string{"a", "b c", ""}).Scan(&names); err != nil || strings.Join(names, "|") != "|b c|a" {
+		t.Errorf("binary text[]: %q %v", names, err)
+	}
+	id := [16]byte{0x6b, 0xa7, 0xb8, 0x10, 0x9d, 0xad, 0x11, 0xd1, 0x80, 0xb4, 0, 0xc0, 0x4f, 0xd4, 0x30, 0xc8}
+	var back [16]byte
+	var text string
+	if err := c.QueryRow(ctx, "SELECT $1::UUID, $1::UUID::VARCHAR", id).Scan(&back, &text); err != nil || back != id || text != "6ba7b810-9dad-11d1-80b4-00c04fd430c8" {
+		t.Errorf("uuid: %x %q %v", back, text, err)
+	}
+	// The result of a table function with bound arguments has no type
+	// before Bind: pgx, which describes the statement at Parse, reads it as
+	// text (drivers that describe the portal after Bind get its type).
+	var n string
+	if err := c.QueryRow(ctx, "SELECT count(*) FROM diagnose($1, by := $2, at := 'day', value := 'v')", "series.parquet", "grp").Scan(&n); err != nil || n != "4" {
+		t.Errorf("parameters into diagnose, on a path relative to --data: %s %v", n, err)
+	}
+	var s string
+	if err := c.QueryRow(ctx, "SELECT $1", "untyped").Scan(&s); err != nil || s != "untyped" {
+		t.Errorf("SELECT $1: %q %v", s, err)
+	}
+	// Bound values are literals DuckDB reads as data, never as SQL.
+	if err := c.QueryRow(ctx, "SELECT $1::VARCHAR", "'); DROP TABLE x; --").Scan(&s); err != nil || s != "'); DROP TABLE x; --" {
+		t.Errorf("quoting: %q %v", s, err)
+	}
+}
