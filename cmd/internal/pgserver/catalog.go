@@ -52,24 +52,12 @@ func (id identity) roleRows() string {
 var compatObjects = []compatObject{
 	// Identity: version() names plumb and its DuckDB; the user and the
 	// database are the session's.
-	{"version", func(id identity, _ catalogOIDs) string {
-		return "CREATE OR REPLACE TEMP MACRO version() AS " + sqlQuote(id.version)
-	}},
-	{"current_database", func(id identity, _ catalogOIDs) string {
-		return "CREATE OR REPLACE TEMP MACRO current_database() AS " + sqlQuote(id.database)
-	}},
-	{"current_catalog", func(id identity, _ catalogOIDs) string {
-		return "CREATE OR REPLACE TEMP MACRO current_catalog() AS " + sqlQuote(id.database)
-	}},
-	{"current_user", func(id identity, _ catalogOIDs) string {
-		return "CREATE OR REPLACE TEMP MACRO current_user() AS " + sqlQuote(id.user)
-	}},
-	{"session_user", func(id identity, _ catalogOIDs) string {
-		return "CREATE OR REPLACE TEMP MACRO session_user() AS " + sqlQuote(id.user)
-	}},
-	{"current_role", func(id identity, _ catalogOIDs) string {
-		return "CREATE OR REPLACE TEMP MACRO current_role() AS " + sqlQuote(id.user)
-	}},
+	sessionMacro("version", func(id identity) string { return id.version }),
+	sessionMacro("current_database", func(id identity) string { return id.database }),
+	sessionMacro("current_catalog", func(id identity) string { return id.database }),
+	sessionMacro("current_user", func(id identity) string { return id.user }),
+	sessionMacro("session_user", func(id identity) string { return id.user }),
+	sessionMacro("current_role", func(id identity) string { return id.user }),
 	{"pg_backend_pid", func(id identity, _ catalogOIDs) string {
 		return fmt.Sprintf("CREATE OR REPLACE TEMP MACRO pg_backend_pid() AS %d", id.pid)
 	}},
@@ -258,6 +246,14 @@ func init() {
 		names = append(names, sqlQuote(o.name))
 	}
 	compatNameSQL = "(" + strings.Join(names, ", ") + ")"
+}
+
+// sessionMacro is a macro without arguments that answers a value of the
+// session, as a string literal.
+func sessionMacro(name string, value func(identity) string) compatObject {
+	return compatObject{name, func(id identity, _ catalogOIDs) string {
+		return "CREATE OR REPLACE TEMP MACRO " + name + "() AS " + sqlQuote(value(id))
+	}}
 }
 
 func constant(sql string) func(identity, catalogOIDs) string {
