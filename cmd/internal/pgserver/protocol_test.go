@@ -208,3 +208,17 @@ func TestParametersEverywhere(t *testing.T) {
 		t.Errorf("quoting: %q %v", s, err)
 	}
 }
+
+// TestUnterminatedQuotes: statements cut off inside a quoted name or a
+// string (the fuzzer's find: an unterminated "x once crashed the rule that
+// reads quoted names) get DuckDB's syntax error, and the session goes on.
+func TestUnterminatedQuotes(t *testing.T) {
+	ts, fe := rawFrontend(t, Config{Auth: "trust"})
+	for _, sql := range []string{`SELECT "`, `SELECT pg_catalog."`, `SELECT 'x`, `SELECT $$`, `COPY "t FROM STDIN`} {
+		got := exchange(t, fe, &pgproto3.Query{String: sql})
+		if len(got) != 2 || !strings.HasPrefix(got[0], "error ") || got[1] != "ready I" {
+			t.Errorf("%s: %v", sql, got)
+		}
+	}
+	stillServes(t, ts)
+}

@@ -125,6 +125,14 @@ func (s *Server) Serve(ln net.Listener) error {
 		s.wg.Add(1)
 		go func() {
 			defer s.wg.Done()
+			defer func() {
+				// A bug met by one client's input ends that session, not
+				// the server and everyone else's.
+				if r := recover(); r != nil {
+					s.log.Error("session ended by an internal error", "remote", c.RemoteAddr().String(), "panic", fmt.Sprint(r))
+					c.Close()
+				}
+			}()
 			s.handle(c)
 		}()
 	}

@@ -46,14 +46,18 @@ func (t token) name() string {
 	case tokWord:
 		return strings.ToLower(t.text)
 	case tokQuoted:
-		return strings.ReplaceAll(t.text[1:len(t.text)-1], `""`, `"`)
+		inner := strings.TrimPrefix(t.text, `"`)
+		if len(inner) > 0 && strings.HasSuffix(inner, `"`) {
+			inner = inner[:len(inner)-1]
+		}
+		return strings.ReplaceAll(inner, `""`, `"`)
 	}
 	return ""
 }
 
 // stringValue is a plain '...' literal's value.
 func (t token) stringValue() (string, bool) {
-	if t.kind != tokString || !strings.HasPrefix(t.text, "'") || len(t.text) < 2 {
+	if t.kind != tokString || !strings.HasPrefix(t.text, "'") || len(t.text) < 2 || !strings.HasSuffix(t.text, "'") {
 		return "", false
 	}
 	return strings.ReplaceAll(t.text[1:len(t.text)-1], "''", "'"), true
