@@ -36,6 +36,7 @@ var clientParameters = map[string]string{
 	"is_superuser":                        "off",
 	"session_authorization":               "",
 	"max_identifier_length":               "63",
+	"max_index_keys":                      "32",
 }
 
 // startupParameters are sent to every client after login.

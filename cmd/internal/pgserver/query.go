@@ -5,7 +5,6 @@ import (
 	"database/sql"
 	"errors"
 	"fmt"
-	"regexp"
 	"strings"
 	"time"
 
@@ -41,15 +40,10 @@ type portal struct {
 	done     bool    // a declared cursor's rows are used up
 }
 
-var beginVariant = regexp.MustCompile(`(?is)^\s*(BEGIN|START\s+TRANSACTION)\b.*$`)
-
 // normalize maps statements PostgreSQL clients send to DuckDB's dialect:
 // whole-statement answers first (psql's \d steps), then the token rules.
 func normalize(sql, dataDir string) (string, map[int]bool) {
 	sql = strings.TrimSpace(sql)
-	if beginVariant.MatchString(sql) {
-		return "BEGIN TRANSACTION", nil
-	}
 	if r := rewrite(sql); r != sql {
 		return r, nil
 	}

@@ -30,6 +30,7 @@ type tokenRule struct {
 }
 
 var tokenRules = []tokenRule{
+	{"BEGIN [WORK | TRANSACTION] [modes] and START TRANSACTION [modes] become DuckDB's BEGIN TRANSACTION", beginTransaction},
 	{"PostgreSQL's OPERATOR(pg_catalog.op) syntax becomes the bare operator", operatorSyntax},
 	{"COLLATE pg_catalog.default and COLLATE \"C\" are dropped", dropCollate},
 	{"pg_catalog.x becomes x, information_schema.x too where the layer has an x", qualifiedCompat},
@@ -90,6 +91,20 @@ func (r *rewriter) matching(i int) int {
 		}
 	}
 	return -1
+}
+
+// beginTransaction: DuckDB's transactions have one mode (snapshot
+// isolation, read-write), so PostgreSQL's isolation levels and READ
+// ONLY/WRITE, which clients send with BEGIN, are dropped.
+func beginTransaction(r *rewriter) {
+	first := r.next(-1)
+	if first < 0 {
+		return
+	}
+	second := r.next(first)
+	if r.toks[first].is("begin") || r.toks[first].is("start") && second >= 0 && r.toks[second].is("transaction") {
+		r.toks = []token{{tokWord, "BEGIN TRANSACTION"}}
+	}
 }
 
 // operatorSyntax: OPERATOR(pg_catalog.~) → ~ (psql's pattern matching).

@@ -11,6 +11,12 @@ import (
 // SQLAlchemy 1.4); the outputs are what DuckDB must receive.
 func TestRewriteRules(t *testing.T) {
 	for _, test := range []struct{ in, want string }{
+		// beginTransaction
+		{"BEGIN", "BEGIN TRANSACTION"},
+		{"begin isolation level serializable read only", "BEGIN TRANSACTION"},
+		{"START TRANSACTION ISOLATION LEVEL READ COMMITTED", "BEGIN TRANSACTION"},
+		{"BEGIN WORK;", "BEGIN TRANSACTION"},
+		{"SELECT 'BEGIN'", "SELECT 'BEGIN'"},
 		// operatorSyntax
 		{"SELECT 1 WHERE c.relname OPERATOR(pg_catalog.~) '^(t)$'", "SELECT 1 WHERE c.relname ~ '^(t)$'"},
 		{"WHERE x OPERATOR(pg_catalog.!~) 'a'", "WHERE x !~ 'a'"},
