@@ -146,7 +146,7 @@ var compatObjects = []compatObject{
 	coalesce(relreplident, 'd') AS relreplident, reloptions::VARCHAR[] AS reloptions), false AS relforcerowsecurity
 	FROM system.pg_catalog.pg_class c
 	WHERE oid NOT IN (SELECT view_oid FROM duckdb_views() WHERE internal OR temporary AND view_name IN ` + compatNameSQL + `)
-	AND oid NOT IN (SELECT table_oid FROM duckdb_tables() WHERE internal)
+	AND oid NOT IN (SELECT table_oid FROM duckdb_tables() WHERE internal OR temporary AND starts_with(table_name, '` + cursorTablePrefix + `'))
 	UNION ALL BY NAME SELECT oid, name AS relname, schema_oid AS relnamespace, 'i' AS relkind, 0::BIGINT AS relowner, 0 AS reltablespace,
 	'p' AS relpersistence, len(keys) AS relnatts, false AS relhasindex, 0::BIGINT AS relam FROM plumb_primary_keys`
 	}},
