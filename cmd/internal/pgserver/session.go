@@ -33,7 +33,7 @@ type session struct {
 
 	statements map[string]*prepared
 	portals    map[string]*portal
-	cursors    int // cursors opened, to name their tables
+	cursors    int  // cursors opened, to name their tables
 	skipping   bool // after an extended-protocol error, until Sync
 
 	mu     sync.Mutex
