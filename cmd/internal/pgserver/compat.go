@@ -47,8 +47,6 @@ var (
 	setStatement  = regexp.MustCompile(`(?is)^\s*SET\s+(?:SESSION\s+|LOCAL\s+)?([a-z_][a-z0-9_.]*)\s*(?:=|\s+TO\s+|\s)\s*(.*?)\s*;?\s*$`)
 	setTimeZone   = regexp.MustCompile(`(?is)^\s*SET\s+(?:SESSION\s+|LOCAL\s+)?TIME\s+ZONE\s+(.*?)\s*;?\s*$`)
 	resetStmt     = regexp.MustCompile(`(?is)^\s*(RESET\s+\w+|RESET\s+ALL|DISCARD\s+ALL|DEALLOCATE\s+(ALL|\w+))\s*;?\s*$`)
-	copyToStdout  = regexp.MustCompile(`(?is)^\s*COPY\s+(\(.*\)|[a-z_"][a-z0-9_."]*)\s+TO\s+STDOUT\s*(.*?)\s*;?\s*$`)
-	copyFromStdin = regexp.MustCompile(`(?is)^\s*COPY\s+.*\s+FROM\s+STDIN`)
 )
 
 // setParameter recognises SET for a client parameter and returns its name

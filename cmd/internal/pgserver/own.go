@@ -70,11 +70,8 @@ func ownKind(sql string) string {
 	case "commit", "end":
 		return "end"
 	case "copy":
-		if copyFromStdin.MatchString(sql) {
-			return "copy in"
-		}
-		if copyToStdout.MatchString(sql) {
-			return "copy out"
+		if dir, _, _ := copyClient(sql); dir != "" {
+			return "copy " + dir
 		}
 	case "declare", "fetch", "move", "close":
 		return w[0]
@@ -164,8 +161,8 @@ func (sess *session) own(sql string, formats []int16, describe bool) (bool, int6
 		n, err := sess.copyIn(sql)
 		return true, n, err
 	case "copy out":
-		m := copyToStdout.FindStringSubmatch(sql)
-		n, err := sess.copyOut(m[1], parseCopyOptions(m[2]))
+		_, source, options := copyClient(sql)
+		n, err := sess.copyOut(source, parseCopyOptions(options))
 		return true, n, err
 	case "declare":
 		return true, 0, sess.declare(sql)
@@ -330,4 +327,33 @@ func parseFetch(sql string) (fetchRequest, error) {
 		f.count = 0
 	}
 	return f, nil
+}
+
+// copyClient finds a COPY to or from the client: "in" for COPY ... FROM
+// STDIN, "out" for COPY source TO STDOUT (with its source, a table or a
+// parenthesised query, and the options after STDOUT), "" otherwise.
+// Only keywords outside parentheses count.
+func copyClient(sql string) (dir, source, options string) {
+	toks := lex(sql)
+	idx := significant(toks)
+	if len(idx) == 0 || !toks[idx[0]].is("copy") {
+		return "", "", ""
+	}
+	depth := 0
+	for k := 1; k+1 < len(idx); k++ {
+		t := toks[idx[k]]
+		switch {
+		case t.is("("):
+			depth++
+		case t.is(")"):
+			depth--
+		case depth == 0 && t.is("from") && toks[idx[k+1]].is("stdin"):
+			return "in", "", ""
+		case depth == 0 && t.is("to") && toks[idx[k+1]].is("stdout"):
+			source = strings.TrimSpace(join(toks[idx[1]:idx[k]]))
+			options = strings.TrimSuffix(strings.TrimSpace(join(toks[idx[k+1]+1:])), ";")
+			return "out", source, options
+		}
+	}
+	return "", "", ""
 }

@@ -258,3 +258,21 @@ func TestCopyFormats(t *testing.T) {
 		t.Errorf("csv field: %q", got)
 	}
 }
+
+// COPY to and from the client is recognised on tokens: keywords inside a
+// query or a literal do not count.
+func TestCopyClient(t *testing.T) {
+	for _, test := range []struct{ sql, dir, source, options string }{
+		{"COPY t FROM STDIN", "in", "", ""},
+		{"copy t (a, b) from stdin with (format csv)", "in", "", ""},
+		{"COPY (SELECT 'x TO STDOUT' FROM t) TO STDOUT WITH CSV HEADER;", "out", "(SELECT 'x TO STDOUT' FROM t)", "WITH CSV HEADER"},
+		{`COPY "my table" TO STDOUT`, "out", `"my table"`, ""},
+		{"COPY (SELECT 1 FROM stdin_table) TO '/tmp/x.csv'", "", "", ""},
+		{"COPY t TO 'out.csv'", "", "", ""},
+	} {
+		dir, source, options := copyClient(test.sql)
+		if dir != test.dir || source != test.source || options != test.options {
+			t.Errorf("%s: %q %q %q", test.sql, dir, source, options)
+		}
+	}
+}
