@@ -1,6 +1,9 @@
 package pgserver
 
 import (
+	"context"
+	"database/sql"
+	"encoding/binary"
 	"strconv"
 	"strings"
 
@@ -32,6 +35,13 @@ func (sess *session) copyOut(source string, opts copyOptions) (int64, error) {
 	}
 	defer rows.Close()
 	formats := make([]uint16, len(sh.columns))
+	if opts.binary {
+		for i := range formats {
+			formats[i] = 1
+		}
+		sess.be.Send(&pgproto3.CopyOutResponse{OverallFormat: 1, ColumnFormatCodes: formats})
+		return sess.copyOutBinary(ctx, rows, sh.columns)
+	}
 	sess.be.Send(&pgproto3.CopyOutResponse{OverallFormat: 0, ColumnFormatCodes: formats})
 	var line []byte
 	field := func(s string, null bool) {
@@ -77,6 +87,37 @@ func (sess *session) copyOut(source string, opts copyOptions) (int64, error) {
 	}
 	sess.be.Send(&pgproto3.CopyDone{})
 	sess.be.Send(&pgproto3.CommandComplete{CommandTag: []byte("COPY " + itoa(n))})
+	return n, nil
+}
+
+// copyOutBinary sends rows in PostgreSQL's binary COPY format: the
+// signature, flags and an empty header extension, then each row as a field
+// count and (length, bytes) fields in the types' binary forms, -1 for NULL,
+// and a field count of -1 at the end. As PostgreSQL does, the header goes in
+// one message with the first row (psycopg reads them together).
+func (sess *session) copyOutBinary(ctx context.Context, rows *sql.Rows, cols []column) (int64, error) {
+	head := append(append([]byte(nil), pgcopySignature...), 0, 0, 0, 0, 0, 0, 0, 0)
+	tuple := head
+	n, err := sess.eachRow(rows, len(cols), 0, func(vals []any) {
+		tuple = binary.BigEndian.AppendUint16(tuple, uint16(len(vals)))
+		for i, v := range vals {
+			if v == nil {
+				tuple = binary.BigEndian.AppendUint32(tuple, 0xFFFFFFFF)
+				continue
+			}
+			data := encodeBinary(v, cols[i].oid)
+			tuple = binary.BigEndian.AppendUint32(tuple, uint32(len(data)))
+			tuple = append(tuple, data...)
+		}
+		sess.be.Send(&pgproto3.CopyData{Data: tuple})
+		tuple = tuple[:0]
+	})
+	if err != nil {
+		return n, sess.wrap(ctx, err)
+	}
+	sess.be.Send(&pgproto3.CopyData{Data: append(tuple, 0xFF, 0xFF)}) // the header too when there was no row
+	sess.be.Send(&pgproto3.CopyDone{})
+	sess.complete("COPY " + itoa(n))
 	return n, nil
 }
 

@@ -136,6 +136,21 @@ func TestCopyFromStdin(t *testing.T) {
 	if err != nil || count != 2500 || nulls != 250 || sum != 780937.5 || u != "6ba7b810-9dad-11d1-80b4-00c04fd430c8" || len(l) != 2 {
 		t.Errorf("loaded: %d rows, %d NULL, sum %v, %s, %v, %v", count, nulls, sum, u, l, err)
 	}
+	// Binary out, binary in: the two directions of the format agree.
+	var buf bytes.Buffer
+	if _, err := c.PgConn().CopyTo(ctx, &buf, "COPY (SELECT i, x, s, d, ts, b, u, l FROM loaded ORDER BY i) TO STDOUT (FORMAT BINARY)"); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := c.Exec(ctx, "CREATE TABLE reloaded AS SELECT * FROM loaded LIMIT 0"); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := c.PgConn().CopyFrom(ctx, &buf, "COPY reloaded FROM STDIN (FORMAT BINARY)"); err != nil {
+		t.Fatalf("binary round trip: %v", err)
+	}
+	var differ int64
+	if err := c.QueryRow(ctx, "SELECT count(*) FROM (FROM loaded EXCEPT ALL FROM reloaded)").Scan(&differ); err != nil || differ != 0 {
+		t.Errorf("after a binary round trip %d rows differ (%v)", differ, err)
+	}
 	// Inside the client's transaction: rolled back with it.
 	tx, _ := c.Begin(ctx)
 	if _, err := tx.CopyFrom(ctx, pgx.Identifier{"loaded"}, []string{"i"}, pgx.CopyFromRows([][]any{{int64(-1)}})); err != nil {

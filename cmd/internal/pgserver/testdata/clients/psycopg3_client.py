@@ -77,6 +77,14 @@ def copy_out():
     return expect(rows, [("0", None), ("1", "r1"), ("2", "r2")])
 
 
+def copy_out_binary():
+    with conn.cursor() as cur:
+        with cur.copy("COPY (SELECT i, x, s FROM pg3_in ORDER BY i LIMIT 2) TO STDOUT (FORMAT BINARY)") as copy:
+            copy.set_types(["int4", "float8", "text"])
+            rows = list(copy.rows())
+    return expect(rows, [(0, 0.0, None), (1, 0.25, "r1")])
+
+
 def nested_transaction():
     # The inner transaction() sends SAVEPOINT, which plumb refuses with
     # SQLSTATE 0A000; psycopg then reports the outer block's exit as out of
@@ -106,6 +114,7 @@ m.check("ServerCursor, itersize 50", server_cursor)
 m.check("copy FROM STDIN (write_row)", copy_in)
 m.check("copy FROM STDIN binary", copy_in_binary)
 m.check("copy TO STDOUT (rows)", copy_out)
+m.check("copy TO STDOUT binary", copy_out_binary)
 m.check("nested transaction() (savepoint)", nested_transaction)
 m.check("session usable after it", after_nested)
 conn.close()
