@@ -119,7 +119,7 @@ var compatObjects = []compatObject{
 	{"format_type", constant(`CREATE OR REPLACE TEMP MACRO format_type(o, m) AS (SELECT format_name FROM pg_type WHERE oid = o)`)},
 	{"pg_type_is_visible", constant(`CREATE OR REPLACE TEMP MACRO pg_type_is_visible(o) AS true`)},
 	// Columns, with atttypid the OID the server sends such a column as.
-	{"plumb_type_oids", constant(`CREATE OR REPLACE TEMP VIEW plumb_type_oids AS SELECT * FROM (VALUES ` + typeOIDRows() + `) t(type_name, oid)`)},
+	{"pgcompat_type_oids", constant(`CREATE OR REPLACE TEMP VIEW pgcompat_type_oids AS SELECT * FROM (VALUES ` + typeOIDRows() + `) t(type_name, oid)`)},
 	{"pg_attribute", constant(`CREATE OR REPLACE TEMP VIEW pg_attribute AS SELECT table_oid AS attrelid, column_name AS attname,
 	coalesce(m.oid, CASE WHEN data_type LIKE 'DECIMAL%[]' THEN ` + fmt.Sprint(arrayOf[oidNumeric]) + ` WHEN data_type LIKE 'DECIMAL%' AND data_type NOT LIKE '%]' THEN ` + fmt.Sprint(oidNumeric) + `
 	ELSE ` + fmt.Sprint(oidJSONText) + ` END)::BIGINT AS atttypid, -1 AS attstattarget, -1::SMALLINT AS attlen, column_index::SMALLINT AS attnum,
@@ -129,31 +129,31 @@ var compatObjects = []compatObject{
 	column_default IS NOT NULL AS atthasdef, false AS atthasmissing, '' AS attidentity, '' AS attgenerated, false AS attisdropped,
 	true AS attislocal, 0 AS attinhcount, 0::BIGINT AS attcollation, NULL::VARCHAR[] AS attacl, NULL::VARCHAR[] AS attoptions,
 	NULL::VARCHAR[] AS attfdwoptions, NULL::VARCHAR AS attmissingval
-	FROM duckdb_columns() c LEFT JOIN plumb_type_oids m ON m.type_name = c.data_type`)},
+	FROM duckdb_columns() c LEFT JOIN pgcompat_type_oids m ON m.type_name = c.data_type`)},
 	{"pg_attrdef", constant(`CREATE OR REPLACE TEMP VIEW pg_attrdef AS SELECT table_oid * 10000 + column_index AS oid, table_oid AS adrelid,
 	column_index::SMALLINT AS adnum, column_default AS adbin FROM duckdb_columns() WHERE column_default IS NOT NULL`)},
 	{"pg_get_expr", constant(`CREATE OR REPLACE TEMP MACRO pg_get_expr(e, r, p := false) AS e::VARCHAR`)},
 	// Relations: DuckDB's, plus a primary-key index for every table that
 	// has a primary key (DuckDB keeps those as constraints).
-	{"plumb_primary_keys", constant(`CREATE OR REPLACE TEMP VIEW plumb_primary_keys AS SELECT table_oid * 100 + constraint_index + 1 AS oid,
+	{"pgcompat_primary_keys", constant(`CREATE OR REPLACE TEMP VIEW pgcompat_primary_keys AS SELECT table_oid * 100 + constraint_index + 1 AS oid,
 	table_oid, schema_oid, table_name || '_pkey' AS name, list_transform(constraint_column_indexes, i -> (i + 1)::SMALLINT) AS keys,
 	constraint_column_names AS key_names FROM duckdb_constraints() WHERE constraint_type = 'PRIMARY KEY'`)},
 	// DuckDB's pg_class without its internal objects and without this
 	// layer's own TEMP views.
 	{"pg_class", func(identity, catalogOIDs) string {
 		return `CREATE OR REPLACE TEMP VIEW pg_class AS SELECT * REPLACE (relowner::BIGINT AS relowner,
-	CASE WHEN relkind = 'r' THEN (SELECT count(*) > 0 FROM plumb_primary_keys k WHERE k.table_oid = c.oid) OR relhasindex ELSE relhasindex END AS relhasindex,
+	CASE WHEN relkind = 'r' THEN (SELECT count(*) > 0 FROM pgcompat_primary_keys k WHERE k.table_oid = c.oid) OR relhasindex ELSE relhasindex END AS relhasindex,
 	coalesce(relreplident, 'd') AS relreplident, reloptions::VARCHAR[] AS reloptions), false AS relforcerowsecurity
 	FROM system.pg_catalog.pg_class c
 	WHERE oid NOT IN (SELECT view_oid FROM duckdb_views() WHERE internal OR temporary AND view_name IN ` + compatNameSQL + `)
 	AND oid NOT IN (SELECT table_oid FROM duckdb_tables() WHERE internal OR temporary AND starts_with(table_name, '` + cursorTablePrefix + `'))
 	UNION ALL BY NAME SELECT oid, name AS relname, schema_oid AS relnamespace, 'i' AS relkind, 0::BIGINT AS relowner, 0 AS reltablespace,
-	'p' AS relpersistence, len(keys) AS relnatts, false AS relhasindex, 0::BIGINT AS relam FROM plumb_primary_keys`
+	'p' AS relpersistence, len(keys) AS relnatts, false AS relhasindex, 0::BIGINT AS relam FROM pgcompat_primary_keys`
 	}},
 	// Indexes: DuckDB's (their key columns found by name) and the
 	// primary keys'; indkey, indoption and indclass are lists, PostgreSQL's
 	// int2vector and oidvector.
-	{"plumb_index_keys", constant(`CREATE OR REPLACE TEMP VIEW plumb_index_keys AS
+	{"pgcompat_index_keys", constant(`CREATE OR REPLACE TEMP VIEW pgcompat_index_keys AS
 	SELECT e.index_oid, list(c.column_index::SMALLINT ORDER BY e.pos) AS keys, list(c.column_name ORDER BY e.pos) AS key_names
 	FROM (SELECT index_oid, table_oid, unnest(string_split(trim(expressions, '[]'), ', ')) AS name,
 	      generate_subscripts(string_split(trim(expressions, '[]'), ', '), 1) AS pos FROM duckdb_indexes()) e
@@ -165,26 +165,26 @@ var compatObjects = []compatObject{
 	coalesce(k.keys, []::SMALLINT[]) AS indkey, list_transform(coalesce(k.keys, []::SMALLINT[]), x -> 0::BIGINT) AS indcollation,
 	list_transform(coalesce(k.keys, []::SMALLINT[]), x -> 0::BIGINT) AS indclass, list_transform(coalesce(k.keys, []::SMALLINT[]), x -> 0::SMALLINT) AS indoption,
 	CASE WHEN k.keys IS NULL THEN i.expressions END AS indexprs, NULL::VARCHAR AS indpred
-	FROM duckdb_indexes() i LEFT JOIN plumb_index_keys k ON k.index_oid = i.index_oid
+	FROM duckdb_indexes() i LEFT JOIN pgcompat_index_keys k ON k.index_oid = i.index_oid
 	UNION ALL SELECT oid, table_oid, len(keys), len(keys), true, true, false, true, false, true, false, true, true, false, keys,
-	list_transform(keys, x -> 0::BIGINT), list_transform(keys, x -> 0::BIGINT), list_transform(keys, x -> 0::SMALLINT), NULL, NULL FROM plumb_primary_keys`)},
+	list_transform(keys, x -> 0::BIGINT), list_transform(keys, x -> 0::BIGINT), list_transform(keys, x -> 0::SMALLINT), NULL, NULL FROM pgcompat_primary_keys`)},
 	// Index definitions as PostgreSQL prints them (psql shows what follows
 	// USING): CREATE [UNIQUE] INDEX name ON schema.table USING art (columns).
-	{"plumb_indexdef", constant(`CREATE OR REPLACE TEMP MACRO plumb_indexdef(o) AS coalesce(
+	{"pgcompat_indexdef", constant(`CREATE OR REPLACE TEMP MACRO pgcompat_indexdef(o) AS coalesce(
 	(SELECT 'CREATE ' || CASE WHEN is_unique THEN 'UNIQUE ' ELSE '' END || 'INDEX ' || index_name || ' ON ' || schema_name || '.' || table_name
 		|| ' USING art (' || trim(expressions, '[]') || ')' FROM duckdb_indexes() WHERE index_oid = o),
 	(SELECT 'CREATE UNIQUE INDEX ' || k.name || ' ON ' || t.schema_name || '.' || t.table_name || ' USING art ('
 		|| array_to_string(k.key_names, ', ') || ')'
-		FROM plumb_primary_keys k JOIN duckdb_tables() t ON t.table_oid = k.table_oid WHERE k.oid = o))`)},
+		FROM pgcompat_primary_keys k JOIN duckdb_tables() t ON t.table_oid = k.table_oid WHERE k.oid = o))`)},
 	// With a column number, pg_get_indexdef names that key column.
-	{"pg_get_indexdef", constant(`CREATE OR REPLACE TEMP MACRO pg_get_indexdef(o) AS plumb_indexdef(o),
-	(o, c, p) AS CASE WHEN c = 0 THEN plumb_indexdef(o) ELSE coalesce((SELECT key_names[c] FROM plumb_index_keys WHERE index_oid = o),
-	(SELECT key_names[c] FROM plumb_primary_keys WHERE oid = o)) END`)},
+	{"pg_get_indexdef", constant(`CREATE OR REPLACE TEMP MACRO pg_get_indexdef(o) AS pgcompat_indexdef(o),
+	(o, c, p) AS CASE WHEN c = 0 THEN pgcompat_indexdef(o) ELSE coalesce((SELECT key_names[c] FROM pgcompat_index_keys WHERE index_oid = o),
+	(SELECT key_names[c] FROM pgcompat_primary_keys WHERE oid = o)) END`)},
 	// Comments: DuckDB keeps them on its catalogue entries.
 	{"col_description", constant(`CREATE OR REPLACE TEMP MACRO col_description(o, n) AS (SELECT comment FROM duckdb_columns() WHERE table_oid = o AND column_index = n)`)},
-	{"plumb_comment", constant(`CREATE OR REPLACE TEMP MACRO plumb_comment(o) AS
+	{"pgcompat_comment", constant(`CREATE OR REPLACE TEMP MACRO pgcompat_comment(o) AS
 	coalesce((SELECT comment FROM duckdb_tables() WHERE table_oid = o), (SELECT comment FROM duckdb_views() WHERE view_oid = o))`)},
-	{"obj_description", constant(`CREATE OR REPLACE TEMP MACRO obj_description(o) AS plumb_comment(o), (o, c) AS plumb_comment(o)`)},
+	{"obj_description", constant(`CREATE OR REPLACE TEMP MACRO obj_description(o) AS pgcompat_comment(o), (o, c) AS pgcompat_comment(o)`)},
 	// Functions: DuckDB's and plumb's, in the main schema clients see, and
 	// this layer's in pg_catalog.
 	{"pg_proc", func(_ identity, o catalogOIDs) string {
@@ -197,7 +197,7 @@ var compatObjects = []compatObject{
 	0::SMALLINT AS pronargdefaults, 0::BIGINT AS prorettype, []::BIGINT[] AS proargtypes, NULL::BIGINT[] AS proallargtypes,
 	NULL::VARCHAR[] AS proargmodes, parameters AS proargnames, NULL::VARCHAR AS proargdefaults, NULL::VARCHAR AS prosrc, NULL::VARCHAR AS probin,
 	macro_definition AS prosqlbody, NULL::VARCHAR[] AS proconfig, NULL::VARCHAR[] AS proacl FROM duckdb_functions() f
-	WHERE NOT (f.database_name = 'temp' AND starts_with(f.function_name, 'plumb_'))`
+	WHERE NOT (f.database_name = 'temp' AND starts_with(f.function_name, 'pgcompat_'))`
 	}},
 	// Argument and result lists as psql's \df prints them.
 	{"pg_get_function_result", constant(`CREATE OR REPLACE TEMP MACRO pg_get_function_result(o) AS (SELECT coalesce(any_value(return_type), any_value(function_type)) FROM duckdb_functions() WHERE function_oid = o)`)},
@@ -228,12 +228,12 @@ var compatObjects = []compatObject{
 	(o, pretty) AS (SELECT sql FROM duckdb_views() WHERE view_oid = o)`)},
 	{"pg_get_partkeydef", constant(`CREATE OR REPLACE TEMP MACRO pg_get_partkeydef(o) AS NULL::VARCHAR`)},
 	{"pg_get_partition_constraintdef", constant(`CREATE OR REPLACE TEMP MACRO pg_get_partition_constraintdef(o) AS NULL::VARCHAR`)},
-	{"current_setting", constant(`CREATE OR REPLACE TEMP MACRO current_setting(n) AS (SELECT plumb_s.setting FROM plumb_settings plumb_s WHERE plumb_s.name = lower(n)),
-	(n, missing_ok) AS (SELECT plumb_s.setting FROM plumb_settings plumb_s WHERE plumb_s.name = lower(n))`)},
+	{"current_setting", constant(`CREATE OR REPLACE TEMP MACRO current_setting(n) AS (SELECT plumb_s.setting FROM pgcompat_settings plumb_s WHERE plumb_s.name = lower(n)),
+	(n, missing_ok) AS (SELECT plumb_s.setting FROM pgcompat_settings plumb_s WHERE plumb_s.name = lower(n))`)},
 	{"pg_settings", constant(`CREATE OR REPLACE TEMP VIEW pg_settings AS SELECT name, setting, NULL::VARCHAR AS unit, 'Client Connection Defaults' AS category,
 	'' AS short_desc, NULL::VARCHAR AS extra_desc, 'user' AS context, 'string' AS vartype, 'default' AS source,
 	NULL::VARCHAR AS min_val, NULL::VARCHAR AS max_val, NULL::VARCHAR[] AS enumvals, setting AS boot_val, setting AS reset_val,
-	NULL::VARCHAR AS sourcefile, NULL::INTEGER AS sourceline, false AS pending_restart FROM plumb_settings`)},
+	NULL::VARCHAR AS sourcefile, NULL::INTEGER AS sourceline, false AS pending_restart FROM pgcompat_settings`)},
 }
 
 // compatNameSQL is the layer's object names as a SQL list, for pg_class
@@ -241,7 +241,7 @@ var compatObjects = []compatObject{
 var compatNameSQL string
 
 func init() {
-	names := []string{sqlQuote("plumb_settings")}
+	names := []string{sqlQuote("pgcompat_settings")}
 	for _, o := range compatObjects {
 		names = append(names, sqlQuote(o.name))
 	}
@@ -308,7 +308,7 @@ func settingsView(params map[string]string) string {
 		}
 		rows = append(rows, fmt.Sprintf("(%s, %s)", sqlQuote(n), sqlQuote(v)))
 	}
-	return "CREATE OR REPLACE TEMP VIEW plumb_settings AS SELECT * FROM (VALUES " + strings.Join(rows, ", ") + ") s(name, setting)"
+	return "CREATE OR REPLACE TEMP VIEW pgcompat_settings AS SELECT * FROM (VALUES " + strings.Join(rows, ", ") + ") s(name, setting)"
 }
 
 // castType is a PostgreSQL type DuckDB lacks that catalogue queries cast

@@ -276,3 +276,29 @@ func TestCopyClient(t *testing.T) {
 		}
 	}
 }
+
+// Every OID the server can describe a column or parameter with has a
+// pg_type row (drivers look unknown OIDs up there), and arrays point at
+// their elements and back.
+func TestPgTypeCoversEverySentOID(t *testing.T) {
+	sent := map[uint32]string{}
+	for _, name := range []string{"BOOLEAN", "TINYINT", "SMALLINT", "UTINYINT", "INTEGER", "USMALLINT", "BIGINT", "UINTEGER",
+		"UBIGINT", "HUGEINT", "UHUGEINT", "DECIMAL(10,2)", "FLOAT", "DOUBLE", "VARCHAR", "DATE", "TIME", "TIMESTAMP",
+		"TIMESTAMP WITH TIME ZONE", "INTERVAL", "BLOB", "UUID", "STRUCT(a INTEGER)", "MAP(VARCHAR, INTEGER)", "JSON"} {
+		oid := typeOID(name)
+		sent[oid] = name
+		if a, ok := arrayOf[oid]; ok {
+			sent[a] = name + "[]"
+		}
+	}
+	for oid, name := range sent {
+		row, ok := pgTypeOf(oid)
+		if !ok {
+			t.Errorf("%s is sent as OID %d, which pg_type lacks", name, oid)
+			continue
+		}
+		if row.elem != 0 && arrayOf[row.elem] != oid && oid != 1015 {
+			t.Errorf("array type %s (%d) and its element %d disagree", row.name, oid, row.elem)
+		}
+	}
+}
