@@ -22,8 +22,9 @@ func newServeCommand() *cobra.Command {
 functions, on an embedded DuckDB database. Each client session has its own
 connection, transactions and TEMP tables.
 
-Sandbox: clients read and write files only under --data, cannot install or
-load extensions, and cannot change DuckDB's configuration.
+Sandbox: clients read and write files only under --data (a relative path in
+SQL means one under --data), cannot install or load extensions, and cannot
+change DuckDB's configuration. Sessions never share a DuckDB connection.
 
 Authentication is SCRAM-SHA-256 with users from --users FILE or the
 PLUMB_USERS variable ("user:password" lines or comma-separated), never from
@@ -31,7 +32,7 @@ the command line; --auth trust is allowed only on a loopback address.
 SIGINT or SIGTERM stops accepting, lets running statements finish for
 --grace, cancels (rolls back) what still runs, and closes the database.`,
 		Example: `  PLUMB_USERS='ana:s3cret' plumb serve --data ./plumb-demo --listen 127.0.0.1:5433
-  psql 'host=127.0.0.1 port=5433 user=ana dbname=plumb' -c "FROM diagnose('plumb-demo/shops.parquet', by := ['shop','product'], at := 'day', value := 'units') LIMIT 5"`,
+  psql 'host=127.0.0.1 port=5433 user=ana dbname=plumb' -c "FROM diagnose('shops.parquet', by := ['shop','product'], at := 'day', value := 'units') LIMIT 5"`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			var handler slog.Handler = slog.NewTextHandler(cmd.ErrOrStderr(), nil)
@@ -61,7 +62,7 @@ SIGINT or SIGTERM stops accepting, lets running statements finish for
 	}
 	f := cmd.Flags()
 	f.StringVar(&cfg.Addr, "listen", cfg.Addr, "`host:port` to listen on")
-	f.StringVar(&cfg.DataDir, "data", "", "the only `DIR`ectory clients may read and write files in")
+	f.StringVar(&cfg.DataDir, "data", "", "the only `DIR`ectory clients may read and write files in; relative paths in SQL resolve against it")
 	f.StringVar(&cfg.DBPath, "db", "", "DuckDB database `FILE` (default: in memory)")
 	f.BoolVar(&cfg.ReadOnly, "read-only", false, "open --db read-only")
 	f.StringVar(&cfg.Auth, "auth", "scram", "authentication: scram, or trust (loopback addresses only)")

@@ -36,6 +36,7 @@ var clientParameters = map[string]string{
 	"is_superuser":                        "off",
 	"session_authorization":               "",
 	"max_identifier_length":               "63",
+	"max_index_keys":                      "32",
 }
 
 // startupParameters are sent to every client after login.
@@ -43,14 +44,9 @@ var startupParameters = []string{"server_version", "server_encoding", "client_en
 	"TimeZone", "integer_datetimes", "standard_conforming_strings", "application_name", "is_superuser", "session_authorization"}
 
 var (
-	setStatement  = regexp.MustCompile(`(?is)^\s*SET\s+(?:SESSION\s+|LOCAL\s+)?([a-z_][a-z0-9_.]*)\s*(?:=|\s+TO\s+|\s)\s*(.*?)\s*;?\s*$`)
-	setTimeZone   = regexp.MustCompile(`(?is)^\s*SET\s+(?:SESSION\s+|LOCAL\s+)?TIME\s+ZONE\s+(.*?)\s*;?\s*$`)
-	showStatement = regexp.MustCompile(`(?is)^\s*SHOW\s+([a-z_][a-z0-9_.]*)\s*;?\s*$`)
-	resetStmt     = regexp.MustCompile(`(?is)^\s*(RESET\s+\w+|RESET\s+ALL|DISCARD\s+ALL|DEALLOCATE\s+(ALL|\w+))\s*;?\s*$`)
-	// psql's \dt (PostgreSQL 15 client): the list of tables.
-	psqlListTables = regexp.MustCompile(`(?is)FROM\s+pg_catalog\.pg_class\s+c.*relkind\s+IN\s+\('r','p'`)
-	copyToStdout   = regexp.MustCompile(`(?is)^\s*COPY\s+(\(.*\)|[a-z_"][a-z0-9_."]*)\s+TO\s+STDOUT\s*(.*?)\s*;?\s*$`)
-	copyFromStdin  = regexp.MustCompile(`(?is)^\s*COPY\s+.*\s+FROM\s+STDIN`)
+	setStatement = regexp.MustCompile(`(?is)^\s*SET\s+(?:SESSION\s+|LOCAL\s+)?([a-z_][a-z0-9_.]*)\s*(?:=|\s+TO\s+|\s)\s*(.*?)\s*;?\s*$`)
+	setTimeZone  = regexp.MustCompile(`(?is)^\s*SET\s+(?:SESSION\s+|LOCAL\s+)?TIME\s+ZONE\s+(.*?)\s*;?\s*$`)
+	resetStmt    = regexp.MustCompile(`(?is)^\s*(RESET\s+\w+|RESET\s+ALL|DISCARD\s+ALL|DEALLOCATE\s+(ALL|\w+))\s*;?\s*$`)
 )
 
 // setParameter recognises SET for a client parameter and returns its name
@@ -70,13 +66,22 @@ func setParameter(sql string) (string, string, bool) {
 	return name, unquote(m[2]), true
 }
 
-// showParameter recognises SHOW of a client parameter.
+// showParameter recognises SHOW of a client parameter; the words of a
+// multi-word name (SHOW TRANSACTION ISOLATION LEVEL) are joined by _ and a
+// trailing LEVEL dropped, as PostgreSQL names the parameter.
 func showParameter(sql string) (string, bool) {
-	m := showStatement.FindStringSubmatch(sql)
-	if m == nil {
+	w := words(sql)
+	if len(w) < 2 || w[0] != "show" {
 		return "", false
 	}
-	name := strings.ToLower(m[1])
+	w = w[1:]
+	if w[len(w)-1] == ";" {
+		w = w[:len(w)-1]
+	}
+	if len(w) > 1 && w[len(w)-1] == "level" {
+		w = w[:len(w)-1]
+	}
+	name := strings.Join(w, "_")
 	_, ok := clientParameters[name]
 	return name, ok
 }
@@ -95,32 +100,5 @@ func rewrite(sql string) string {
 	if r := rewritePsqlDescribe(sql); r != "" {
 		return r
 	}
-	if psqlListTables.MatchString(sql) {
-		return `SELECT schema_name AS "Schema", table_name AS "Name", 'table' AS "Type", 'plumb' AS "Owner"
-			FROM duckdb_tables() WHERE NOT internal ORDER BY 1, 2`
-	}
 	return sql
-}
-
-// copyOptions reads the options of COPY ... TO STDOUT: CSV or text format,
-// a header line, and the delimiter.
-type copyOptions struct {
-	csv       bool
-	header    bool
-	delimiter string
-}
-
-func parseCopyOptions(s string) copyOptions {
-	u := strings.ToUpper(s)
-	o := copyOptions{delimiter: "\t"}
-	if strings.Contains(u, "CSV") {
-		o.csv, o.delimiter = true, ","
-	}
-	if strings.Contains(u, "HEADER") && !strings.Contains(u, "HEADER FALSE") && !strings.Contains(u, "HEADER 0") {
-		o.header = true
-	}
-	if m := regexp.MustCompile(`(?i)DELIMITER\s+'([^']*)'`).FindStringSubmatch(s); m != nil && m[1] != "" {
-		o.delimiter = m[1]
-	}
-	return o
 }

@@ -2,7 +2,6 @@ package pgserver
 
 import (
 	"context"
-	"database/sql"
 	"fmt"
 	"time"
 
@@ -14,9 +13,19 @@ import (
 // sends at most that many rows, then PortalSuspended, and the next Execute
 // on the portal continues where it stopped. As in PostgreSQL, the Execute
 // that reaches the limit suspends even when no row is left; the next one
-// then completes with SELECT 0. duckdb-go materialises a result when the
-// query runs, so an open cursor does not hold DuckDB up, and the session's
-// other statements may run meanwhile.
+// then completes with SELECT 0. Cursors of DECLARE (own.go) work the same
+// way.
+//
+// The result is kept in a TEMP table of the session's connection, written
+// when the cursor opens with each row's position (row_number() OVER (),
+// which DuckDB computes in the query's order) and read a page of positions
+// at a time (rowids would not do: a transaction's own rows have rowids
+// that change when it commits): duckdb-go
+// materialises a query's whole result in memory, outside DuckDB's memory
+// limit, whereas a table's blocks are DuckDB's to spill to its temporary
+// directory. So a client may fetch a result larger than memory, and the
+// session's other statements may run between fetches. The table goes when
+// the cursor closes, and with the connection.
 //
 // A cursor is closed by Close of its portal and by a Bind that replaces the
 // portal. As in PostgreSQL, every portal ends with its transaction: at Sync
@@ -25,54 +34,21 @@ import (
 
 // cursor is a portal's result kept open between Execute messages.
 type cursor struct {
-	rows   *sql.Rows
-	cancel context.CancelFunc
+	table string // the TEMP table holding the result
+	next  int64  // rows sent so far
 }
+
+// cursorTablePrefix starts the names of cursors' TEMP tables; pg_class
+// leaves them out.
+const cursorTablePrefix = "plumb_cursor_"
 
 // fetch runs Execute with a row limit on pt.
 func (sess *session) fetch(pt *portal, limit int64) (err error) {
 	start := time.Now()
 	var n int64
-	defer func() {
-		attrs := []any{"sql", truncate(pt.stmt.sql, 300), "duration", time.Since(start).String(), "rows", n, "limit", limit}
-		if err != nil {
-			attrs = append(attrs, "error", firstLine(err.Error()))
-			if sess.txn == 'T' {
-				sess.txn = 'E'
-			}
-		}
-		sess.log.Info("statement", attrs...)
-	}()
-	if pt.cursor == nil {
-		// The statement timeout bounds the query's run, not the time the
-		// client takes to fetch its rows: database/sql closes the rows when
-		// their context ends, so the timer is stopped once the query is in.
-		ctx, cancel := context.WithCancel(context.Background())
-		var timer *time.Timer
-		if t := sess.srv.cfg.QueryTimeout; t > 0 {
-			timer = time.AfterFunc(t, cancel)
-		}
-		sess.markBusy(cancel)
-		rows, qerr := sess.db.QueryContext(ctx, normalize(pt.stmt.sql), pt.args...)
-		sess.markIdle()
-		if timer != nil && !timer.Stop() {
-			qerr = context.DeadlineExceeded
-		}
-		if qerr != nil {
-			cancel()
-			if rows != nil {
-				rows.Close()
-			}
-			if qerr == context.DeadlineExceeded {
-				return pgError{stateQueryCanceled, "canceling statement due to statement timeout"}
-			}
-			return sess.wrap(ctx, qerr)
-		}
-		pt.cursor = &cursor{rows: rows, cancel: cancel}
-	}
-	n, err = sess.sendRows(pt.cursor.rows, pt.stmt.shape.columns, pt.formats, limit)
+	defer func() { sess.logStatement("execute", pt.stmt.sql, start, n, err, "limit", limit) }()
+	n, err = sess.fetchRows(pt, limit, true)
 	if err != nil {
-		sess.closeCursor(pt)
 		return err
 	}
 	if limit > 0 && n == limit {
@@ -84,19 +60,73 @@ func (sess *session) fetch(pt *portal, limit int64) (err error) {
 	return nil
 }
 
-// closeCursor closes pt's open result, if it has one.
+// fetchRows opens pt's result if it is not open yet and sends (send) or
+// skips up to limit rows of it (0: all).
+func (sess *session) fetchRows(pt *portal, limit int64, send bool) (int64, error) {
+	ctx := sess.begin()
+	defer sess.end()
+	if pt.cursor == nil {
+		sess.cursors++
+		table := fmt.Sprintf("%s%d", cursorTablePrefix, sess.cursors)
+		create := "CREATE TEMP TABLE " + table + " AS SELECT row_number() OVER () AS plumb_row, * FROM (" + pt.sql + ") plumb_query"
+		if _, err := sess.db.ExecContext(ctx, create); err != nil {
+			return 0, sess.wrap(ctx, err)
+		}
+		pt.cursor = &cursor{table: table}
+	}
+	page := fmt.Sprintf("SELECT * EXCLUDE (plumb_row) FROM temp.main.%s WHERE plumb_row > %d", pt.cursor.table, pt.cursor.next)
+	if limit > 0 {
+		page += fmt.Sprintf(" AND plumb_row <= %d", pt.cursor.next+limit)
+	}
+	rows, err := sess.db.QueryContext(ctx, page+" ORDER BY plumb_row")
+	if err != nil {
+		sess.closeCursor(pt)
+		return 0, sess.wrap(ctx, err)
+	}
+	defer rows.Close()
+	var n int64
+	if send {
+		n, err = sess.sendRows(rows, pt.shape.columns, pt.formats, limit)
+	} else {
+		n, err = sess.eachRow(rows, len(pt.shape.columns), limit, func([]any) {})
+	}
+	pt.cursor.next += n
+	if err != nil {
+		rows.Close()
+		sess.closeCursor(pt)
+		return n, sess.wrap(ctx, err)
+	}
+	return n, nil
+}
+
+// closeCursor drops pt's result table, if it has one. In a failed
+// transaction the DROP fails, and the table goes with the rollback.
 func (sess *session) closeCursor(pt *portal) {
 	if pt == nil || pt.cursor == nil {
 		return
 	}
-	pt.cursor.rows.Close()
-	pt.cursor.cancel()
+	ctx, cancel := context.WithTimeout(context.Background(), 10*time.Second)
+	defer cancel()
+	sess.db.ExecContext(ctx, "DROP TABLE IF EXISTS temp.main."+pt.cursor.table)
 	pt.cursor = nil
 }
 
-// dropPortals closes every portal's open result and forgets the portals.
+// dropPortals closes every portal's open result and forgets the portals,
+// at the end of the session.
 func (sess *session) dropPortals() {
 	for name, pt := range sess.portals {
+		sess.closeCursor(pt)
+		delete(sess.portals, name)
+	}
+}
+
+// endTransactionPortals closes the portals that end with a transaction:
+// all but cursors declared WITH HOLD.
+func (sess *session) endTransactionPortals() {
+	for name, pt := range sess.portals {
+		if pt.hold {
+			continue
+		}
 		sess.closeCursor(pt)
 		delete(sess.portals, name)
 	}

@@ -124,3 +124,36 @@ func TestRowLimitTimeout(t *testing.T) {
 		t.Errorf("after the timeout: %v", got)
 	}
 }
+
+// TestDeclaredCursors: DECLARE, FETCH, MOVE and CLOSE as PostgreSQL's
+// documentation (SQL Commands: DECLARE, FETCH) describes them, forward
+// only: a cursor without HOLD needs a transaction and ends with it; one
+// WITH HOLD survives COMMIT and goes on where it stopped; the table behind
+// a cursor is not listed in pg_class.
+func TestDeclaredCursors(t *testing.T) {
+	_, fe := rawFrontend(t, Config{Auth: "trust"})
+	check := func(what string, got []string, want ...string) {
+		t.Helper()
+		if strings.Join(got, "; ") != strings.Join(want, "; ") {
+			t.Errorf("%s:\n got %s\nwant %s", what, strings.Join(got, "; "), strings.Join(want, "; "))
+		}
+	}
+	q := func(sql string) []string { return exchange(t, fe, &pgproto3.Query{String: sql}) }
+	check("without a transaction", q("DECLARE c CURSOR FOR SELECT 1"), "error "+stateNoActiveTxn, "ready I")
+	check("declare", q("BEGIN; DECLARE c NO SCROLL CURSOR WITH HOLD FOR SELECT i FROM range(10) t(i) ORDER BY i DESC"),
+		"complete BEGIN", "complete DECLARE CURSOR", "ready T")
+	check("fetch 2", q("FETCH 2 FROM c"), "row 9", "row 8", "complete FETCH 2", "ready T")
+	check("hidden from pg_class", q("SELECT count(*) FROM pg_class WHERE relname LIKE 'plumb_cursor%'"), "row 0", "complete SELECT 1", "ready T")
+	check("commit keeps a held cursor", q("COMMIT"), "complete COMMIT", "ready I")
+	check("fetch after commit", q("FETCH NEXT FROM c"), "row 7", "complete FETCH 1", "ready I")
+	check("move", q("MOVE 3 IN c"), "complete MOVE 3", "ready I")
+	check("fetch all", q("FETCH ALL FROM c"), "row 3", "row 2", "row 1", "row 0", "complete FETCH 4", "ready I")
+	check("fetch past the end", q("FETCH 5 FROM c"), "complete FETCH 0", "ready I")
+	check("close", q("CLOSE c"), "complete CLOSE CURSOR", "ready I")
+	check("closed", q("FETCH 1 FROM c"), "error "+stateInvalidCursor, "ready I")
+	check("scroll refused", q("BEGIN; DECLARE s SCROLL CURSOR FOR SELECT 1"), "complete BEGIN", "error "+stateFeatureNotSupport, "ready E")
+	check("rollback", q("ROLLBACK"), "complete ROLLBACK", "ready I")
+	check("a cursor without HOLD ends with its transaction",
+		q("BEGIN; DECLARE d CURSOR FOR SELECT 1; COMMIT; FETCH 1 FROM d"),
+		"complete BEGIN", "complete DECLARE CURSOR", "complete COMMIT", "error "+stateInvalidCursor, "ready I")
+}

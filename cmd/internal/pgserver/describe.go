@@ -4,9 +4,6 @@ import (
 	"context"
 	"database/sql/driver"
 	"fmt"
-	"regexp"
-	"strconv"
-	"strings"
 
 	"github.com/duckdb/duckdb-go/v2"
 )
@@ -20,9 +17,11 @@ type column struct {
 // shape is what preparing a statement tells: its kind, parameters and
 // result columns.
 type shape struct {
-	kind    duckdb.StmtType
-	params  []uint32
-	columns []column
+	kind       duckdb.StmtType
+	params     []uint32 // OIDs DuckDB infers, 0 where it infers none
+	paramTypes []string // the same as DuckDB type names, "" where none
+	columns    []column
+	incomplete bool // some column's type is known only once parameters are bound
 }
 
 // returnsRows reports whether the statement's result is rows for the
@@ -41,6 +40,9 @@ func (s shape) returnsRows() bool {
 }
 
 // describeSQL prepares sql on the session's connection to learn its shape.
+// A column whose type DuckDB cannot tell before the parameters are bound
+// (SELECT $1, a table function's result) is described as text and the shape
+// marked incomplete; it is described again once the values are inlined.
 func (sess *session) describeSQL(ctx context.Context, sql string) (shape, error) {
 	var sh shape
 	err := sess.db.Raw(func(dc any) error {
@@ -60,21 +62,20 @@ func (sess *session) describeSQL(ctx context.Context, sql string) (shape, error)
 		if sh.kind, err = ds.StatementType(); err != nil {
 			return err
 		}
-		casts := paramCasts(sql)
 		for i := 1; i <= ds.NumInput(); i++ {
 			t, err := ds.ParamType(i)
-			if err != nil || t == duckdb.TYPE_INVALID || t == duckdb.TYPE_ANY || t == duckdb.TYPE_VARCHAR {
-				// DuckDB leaves a parameter it cannot place untyped (or
-				// VARCHAR); a cast written beside it says what the client
-				// should send.
-				if oid, ok := casts[i]; ok {
-					sh.params = append(sh.params, oid)
-				} else {
-					sh.params = append(sh.params, oidText)
-				}
+			if t == duckdb.TYPE_LIST { // a list of what, a cast beside it may tell (extended.go)
+				sh.params = append(sh.params, 0)
+				sh.paramTypes = append(sh.paramTypes, "LIST")
+				continue
+			}
+			if err != nil || t == duckdb.TYPE_INVALID || t == duckdb.TYPE_ANY {
+				sh.params = append(sh.params, 0)
+				sh.paramTypes = append(sh.paramTypes, "")
 				continue
 			}
 			sh.params = append(sh.params, oidOfType(t, nil))
+			sh.paramTypes = append(sh.paramTypes, duckdbParamType(t))
 		}
 		n, err := ds.ColumnCount()
 		if err != nil {
@@ -87,13 +88,65 @@ func (sess *session) describeSQL(ctx context.Context, sql string) (shape, error)
 			}
 			info, err := ds.ColumnTypeInfo(i)
 			if err != nil {
-				return err
+				sh.incomplete = true
+				sh.columns = append(sh.columns, column{name: name, oid: oidText})
+				continue
 			}
 			sh.columns = append(sh.columns, column{name: name, oid: oidOfType(info.InternalType(), info)})
 		}
 		return nil
 	})
 	return sh, err
+}
+
+// duckdbParamType names a parameter's DuckDB type for a cast, "" for types
+// whose details (a list's element) the prepared statement does not tell.
+func duckdbParamType(t duckdb.Type) string {
+	switch t {
+	case duckdb.TYPE_BOOLEAN:
+		return "BOOLEAN"
+	case duckdb.TYPE_TINYINT:
+		return "TINYINT"
+	case duckdb.TYPE_SMALLINT:
+		return "SMALLINT"
+	case duckdb.TYPE_INTEGER:
+		return "INTEGER"
+	case duckdb.TYPE_BIGINT:
+		return "BIGINT"
+	case duckdb.TYPE_UTINYINT:
+		return "UTINYINT"
+	case duckdb.TYPE_USMALLINT:
+		return "USMALLINT"
+	case duckdb.TYPE_UINTEGER:
+		return "UINTEGER"
+	case duckdb.TYPE_UBIGINT:
+		return "UBIGINT"
+	case duckdb.TYPE_HUGEINT:
+		return "HUGEINT"
+	case duckdb.TYPE_FLOAT:
+		return "FLOAT"
+	case duckdb.TYPE_DOUBLE:
+		return "DOUBLE"
+	case duckdb.TYPE_VARCHAR:
+		return "VARCHAR"
+	case duckdb.TYPE_DATE:
+		return "DATE"
+	case duckdb.TYPE_TIME:
+		return "TIME"
+	case duckdb.TYPE_TIMESTAMP:
+		return "TIMESTAMP"
+	case duckdb.TYPE_TIMESTAMP_TZ:
+		return "TIMESTAMPTZ"
+	case duckdb.TYPE_INTERVAL:
+		return "INTERVAL"
+	case duckdb.TYPE_BLOB:
+		return "BLOB"
+	case duckdb.TYPE_UUID:
+		return "UUID"
+	case duckdb.TYPE_LIST:
+		return "LIST" // a list of what, the statement does not say
+	}
+	return ""
 }
 
 // oidOfType maps a DuckDB type (with its details, for lists) to an OID.
@@ -135,38 +188,9 @@ func oidOfType(t duckdb.Type, info duckdb.TypeInfo) uint32 {
 				}
 			}
 		}
-		return oidJSON
+		return oidJSONText
 	case duckdb.TYPE_STRUCT, duckdb.TYPE_MAP, duckdb.TYPE_ARRAY, duckdb.TYPE_UNION:
-		return oidJSON
+		return oidJSONText
 	}
 	return oidText
-}
-
-var paramCast = regexp.MustCompile(`\$(\d+)\s*::\s*([A-Za-z][A-Za-z0-9 ]*?(\[\])?)(?:[^A-Za-z0-9\[]|$)`)
-
-// paramCasts finds casts written on parameters ($3::DATE) and maps each
-// parameter number to the cast type's OID.
-func paramCasts(sql string) map[int]uint32 {
-	out := map[int]uint32{}
-	for _, m := range paramCast.FindAllStringSubmatch(sql, -1) {
-		n, err := strconv.Atoi(m[1])
-		if err != nil {
-			continue
-		}
-		name := strings.ToUpper(strings.TrimSpace(m[2]))
-		switch name {
-		case "INT", "INT4":
-			name = "INTEGER"
-		case "INT8":
-			name = "BIGINT"
-		case "FLOAT8":
-			name = "DOUBLE"
-		case "BOOL":
-			name = "BOOLEAN"
-		case "TEXT", "STRING":
-			name = "VARCHAR"
-		}
-		out[n] = typeOID(name)
-	}
-	return out
 }

@@ -2,6 +2,7 @@ package pgserver
 
 import (
 	"fmt"
+	"strings"
 
 	"github.com/jackc/pgx/v5/pgproto3"
 )
@@ -14,30 +15,64 @@ func (sess *session) parse(m *pgproto3.Parse) error {
 		return nil
 	}
 	p := &prepared{sql: m.Query}
-	if sh, ok := specialShape(m.Query); ok {
-		p.shape = sh
-	} else if copyToStdout.MatchString(m.Query) || copyFromStdin.MatchString(m.Query) {
-		p.shape = shape{}
+	p.rewritten, p.paths = sess.rewrite(m.Query)
+	p.toks = lex(p.rewritten)
+	if sh, ok := sess.ownShape(p.rewritten); ok {
+		p.shape, p.own = sh, true
+		p.shape.params = make([]uint32, maxParam(p.toks))
+		p.shape.paramTypes = make([]string, len(p.shape.params))
 	} else {
+		// Casts on the parameters the client typed help DuckDB place them.
+		declared := make([]string, len(m.ParameterOIDs))
+		for i, oid := range m.ParameterOIDs {
+			declared[i] = duckdbTypeName(oid)
+		}
 		ctx := sess.begin()
-		sh, err := sess.describeSQL(ctx, normalize(m.Query))
+		sh, err := sess.describeSQL(ctx, castParams(p.toks, declared))
 		sess.end()
 		if err != nil {
 			return err
 		}
 		p.shape = sh
+		// A cast written beside a parameter ($1::DATE) says what the
+		// client should send where DuckDB infers no type.
+		for n, oid := range paramCastOIDs(p.toks) {
+			if n <= len(p.shape.params) && p.shape.params[n-1] == 0 {
+				p.shape.params[n-1] = oid
+			}
+		}
 	}
 	p.params = make([]uint32, len(p.shape.params))
 	for i := range p.params {
-		if i < len(m.ParameterOIDs) && m.ParameterOIDs[i] != 0 {
+		switch {
+		case i < len(m.ParameterOIDs) && m.ParameterOIDs[i] != 0:
 			p.params[i] = m.ParameterOIDs[i]
-		} else {
+			p.declared = append(p.declared, m.ParameterOIDs[i])
+		default:
 			p.params[i] = p.shape.params[i]
+			if p.params[i] == 0 {
+				p.params[i] = oidText // untyped: the client sends text
+			}
+			p.declared = append(p.declared, 0)
 		}
 	}
 	sess.statements[m.Name] = p
 	sess.be.Send(&pgproto3.ParseComplete{})
 	return nil
+}
+
+// castParams writes $n::TYPE for every parameter with a type in types.
+func castParams(toks []token, types []string) string {
+	var b strings.Builder
+	for _, t := range toks {
+		b.WriteString(t.text)
+		if t.kind == tokParam {
+			if n := paramNumber(t.text); n >= 1 && n <= len(types) && types[n-1] != "" {
+				b.WriteString("::" + types[n-1])
+			}
+		}
+	}
+	return b.String()
 }
 
 func (sess *session) bind(m *pgproto3.Bind) error {
@@ -51,16 +86,43 @@ func (sess *session) bind(m *pgproto3.Bind) error {
 	if len(m.Parameters) != len(p.params) {
 		return pgError{stateProtocolViolation, fmt.Sprintf("bind message supplies %d parameters, but the statement requires %d", len(m.Parameters), len(p.params))}
 	}
-	args := make([]any, len(m.Parameters))
-	for i, data := range m.Parameters {
-		v, err := decodeParam(data, formatOf(m.ParameterFormatCodes, i), p.params[i])
-		if err != nil {
-			return pgError{stateInvalidText, fmt.Sprintf("parameter $%d: %v", i+1, err)}
+	pt := &portal{stmt: p, formats: m.ResultFormatCodes, shape: p.shape}
+	{
+		literals := make([]string, len(m.Parameters))
+		for i, data := range m.Parameters {
+			format := formatOf(m.ParameterFormatCodes, i)
+			oid := p.declared[i]
+			if oid == 0 && format == 1 {
+				oid = p.params[i]
+			}
+			if onlyFileLike, isPath := p.paths[i+1]; isPath && data != nil && format == 0 {
+				if resolved, changed := resolvePath(string(data), sess.srv.cfg.DataDir, onlyFileLike); changed {
+					data = []byte(resolved)
+				}
+			}
+			lit, err := paramLiteral(data, format, oid, p.shape.paramTypes[i])
+			if err != nil {
+				return pgError{stateInvalidText, fmt.Sprintf("parameter $%d: %v", i+1, err)}
+			}
+			literals[i] = lit
 		}
-		args[i] = v
+		sql, err := inlineParams(p.toks, literals)
+		if err != nil {
+			return pgError{stateProtocolViolation, err.Error()}
+		}
+		pt.sql = sql
+		if p.shape.incomplete && !p.own {
+			ctx := sess.begin()
+			sh, err := sess.describeSQL(ctx, sql)
+			sess.end()
+			if err != nil {
+				return err
+			}
+			pt.shape = sh
+		}
 	}
 	sess.closeCursor(sess.portals[m.DestinationPortal])
-	sess.portals[m.DestinationPortal] = &portal{stmt: p, args: args, formats: m.ResultFormatCodes}
+	sess.portals[m.DestinationPortal] = pt
 	sess.be.Send(&pgproto3.BindComplete{})
 	return nil
 }
@@ -82,7 +144,7 @@ func (sess *session) describe(m *pgproto3.Describe) error {
 	if !ok {
 		return pgError{"34000", fmt.Sprintf("portal %q does not exist", m.Name)}
 	}
-	sess.sendShape(pt.stmt.shape, pt.formats)
+	sess.sendShape(pt.shape, pt.formats)
 	return nil
 }
 
@@ -102,21 +164,70 @@ func (sess *session) execute(m *pgproto3.Execute) error {
 	if !ok {
 		return pgError{"34000", fmt.Sprintf("portal %q does not exist", m.Portal)}
 	}
-	if pt.cursor != nil || (m.MaxRows > 0 && sess.fetchable(pt.stmt)) {
+	if pt.cursor != nil || (m.MaxRows > 0 && !pt.stmt.own && pt.shape.returnsRows()) {
 		return sess.fetch(pt, int64(m.MaxRows))
 	}
-	return sess.run(pt.stmt.sql, pt.args, pt.formats, false)
+	return sess.run(pt.stmt.sql, pt.sql, &pt.shape, pt.formats, false)
 }
 
-// fetchable reports whether a statement's rows may be fetched a few at a
-// time: one DuckDB runs and that returns rows (not a client command plumb
-// answers itself, nor COPY).
-func (sess *session) fetchable(p *prepared) bool {
-	if _, special := specialShape(p.sql); special {
-		return false
+// maxParam is the highest $n in a statement.
+func maxParam(toks []token) int {
+	n := 0
+	for _, t := range toks {
+		if t.kind == tokParam && paramNumber(t.text) > n {
+			n = paramNumber(t.text)
+		}
 	}
-	if copyToStdout.MatchString(p.sql) || copyFromStdin.MatchString(p.sql) {
-		return false
+	return n
+}
+
+// paramCastOIDs finds casts written on parameters ($3::DATE, $1::int8[])
+// and maps each parameter number to the cast type's OID.
+func paramCastOIDs(toks []token) map[int]uint32 {
+	out := map[int]uint32{}
+	idx := significant(toks)
+	for k := 0; k+2 < len(idx); k++ {
+		if toks[idx[k]].kind != tokParam || !toks[idx[k+1]].is("::") || toks[idx[k+2]].kind != tokWord {
+			continue
+		}
+		name := toks[idx[k+2]].name()
+		if k+4 < len(idx) && toks[idx[k+3]].is("[") && toks[idx[k+4]].is("]") {
+			name += "[]"
+		}
+		out[paramNumber(toks[idx[k]].text)] = castOID(name)
 	}
-	return p.shape.returnsRows()
+	return out
+}
+
+// castOID maps a type name as written in a cast, PostgreSQL's or DuckDB's,
+// to an OID.
+func castOID(name string) uint32 {
+	base, array := strings.CutSuffix(strings.ToLower(name), "[]")
+	oid := uint32(0)
+	for _, t := range pgTypes {
+		if t.name == base || t.format == base {
+			oid = t.oid
+			break
+		}
+	}
+	if oid == 0 {
+		switch base {
+		case "int", "integer":
+			oid = oidInt4
+		case "string", "varchar":
+			oid = oidText
+		default:
+			oid = typeOID(base)
+		}
+	}
+	if array {
+		if oid == oidVarchar || oid == 1042 { // lists of VARCHAR are text[]
+			oid = oidText
+		}
+		if a, ok := arrayOf[oid]; ok {
+			return a
+		}
+		return oidText
+	}
+	return oid
 }

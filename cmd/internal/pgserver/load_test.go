@@ -4,6 +4,7 @@ import (
 	"bufio"
 	"context"
 	"fmt"
+	"io"
 	"os"
 	"sort"
 	"strings"
@@ -14,11 +15,14 @@ import (
 	"github.com/jackc/pgx/v5"
 )
 
-// TestLoad: 32 concurrent clients each run 200 mixed statements (diagnose
-// over Parquet, small selects, and statements that fail on purpose) against
-// a server on loopback. The loop is bounded and stops by itself. Only the
-// intended errors may occur; p50 and p99 latency and the process's peak
-// RSS are printed.
+// TestLoad: 32 concurrent clients each run 200 mixed statements against a
+// server on loopback: diagnose over Parquet (literal and bound path), small
+// selects, and what the client matrix's drivers send (SQLAlchemy's and
+// JDBC's catalogue queries, SHOW, a parameter DuckDB cannot type, a cursor
+// fetched in a transaction, COPY both ways), plus statements that fail on
+// purpose (a missing table, a bad cast, a SAVEPOINT). The loop is bounded
+// and stops by itself. Only the intended errors may occur; p50 and p99
+// latency and the process's peak RSS are printed.
 func TestLoad(t *testing.T) {
 	if testing.Short() {
 		t.Skip("load test")
@@ -26,18 +30,72 @@ func TestLoad(t *testing.T) {
 	ts := startServer(t, Config{MaxConns: 40})
 	file := writeSeries(t, ts.data)
 	const clients, each = 32, 200
+	query := func(sql string, args ...any) func(context.Context, *pgx.Conn) error {
+		return func(ctx context.Context, c *pgx.Conn) error {
+			rows, err := c.Query(ctx, sql, args...)
+			if err != nil {
+				return err
+			}
+			for rows.Next() {
+			}
+			rows.Close()
+			return rows.Err()
+		}
+	}
 	statements := []struct {
-		sql  string
+		name string
+		run  func(context.Context, *pgx.Conn) error
 		fail bool
 	}{
-		{"SELECT count(*) FROM diagnose('" + file + "', by := 'grp', at := 'day', value := 'v')", false},
-		{"SELECT 1 + 1", false},
-		{"SELECT sum(range) FROM range(1000)", false},
-		{"SELECT * FROM no_such_table", true},
-		{"SELECT difference([1, 4, 9, 16])", false},
-		{"SELECT 1 / 'x'::INTEGER", true},
-		{"SELECT unit_root(list(v ORDER BY day)).p_value FROM '" + file + "' WHERE grp = 'g0'", false},
-		{"VALUES (1), (2), (3)", false},
+		{"diagnose", query("SELECT count(*) FROM diagnose('" + file + "', by := 'grp', at := 'day', value := 'v')"), false},
+		{"select", query("SELECT 1 + 1"), false},
+		{"missing table", query("SELECT * FROM no_such_table"), true},
+		{"sum", query("SELECT sum(range) FROM range(1000)"), false},
+		{"difference", query("SELECT difference([1, 4, 9, 16])"), false},
+		{"bad cast", query("SELECT 1 / 'x'::INTEGER"), true},
+		{"unit_root", query("SELECT unit_root(list(v ORDER BY day)).p_value FROM '" + file + "' WHERE grp = 'g0'"), false},
+		{"values", query("VALUES (1), (2), (3)"), false},
+		{"SQLAlchemy connect", query("select pg_catalog.version()"), false},
+		{"SHOW", query("show transaction isolation level"), false},
+		{"JDBC getColumns", query(`SELECT a.attname, a.atttypid, t.typname, a.attnotnull FROM pg_catalog.pg_attribute a
+			JOIN pg_catalog.pg_type t ON a.atttypid = t.oid JOIN pg_catalog.pg_class c ON c.oid = a.attrelid WHERE c.relname LIKE 'load%'`), false},
+		{"untyped parameter into diagnose", query("SELECT count(*) FROM diagnose($1, by := 'grp', at := 'day', value := 'v')", "series.parquet"), false},
+		{"cursor", func(ctx context.Context, c *pgx.Conn) error {
+			tx, err := c.Begin(ctx)
+			if err != nil {
+				return err
+			}
+			defer tx.Rollback(ctx)
+			if _, err := tx.Exec(ctx, "DECLARE walk CURSOR FOR SELECT range FROM range(300)"); err != nil {
+				return err
+			}
+			for k := 0; k < 3; k++ {
+				if err := query("FETCH 100 FROM walk")(ctx, c); err != nil {
+					return err
+				}
+			}
+			return tx.Commit(ctx)
+		}, false},
+		{"COPY TO STDOUT", func(ctx context.Context, c *pgx.Conn) error {
+			_, err := c.PgConn().CopyTo(ctx, io.Discard, "COPY (SELECT range, range * 0.5 FROM range(2000)) TO STDOUT")
+			return err
+		}, false},
+		{"COPY FROM STDIN", func(ctx context.Context, c *pgx.Conn) error {
+			if _, err := c.Exec(ctx, "CREATE OR REPLACE TEMP TABLE load_in (i INTEGER, s VARCHAR)"); err != nil {
+				return err
+			}
+			_, err := c.PgConn().CopyFrom(ctx, strings.NewReader(strings.Repeat("1\tone\n2\t\\N\n", 100)), "COPY load_in FROM STDIN")
+			return err
+		}, false},
+		{"SAVEPOINT", func(ctx context.Context, c *pgx.Conn) error {
+			tx, err := c.Begin(ctx)
+			if err != nil {
+				return err
+			}
+			defer tx.Rollback(ctx)
+			_, err = tx.Exec(ctx, "SAVEPOINT s1")
+			return err
+		}, true},
 	}
 	var mu sync.Mutex
 	var latencies []time.Duration
@@ -60,18 +118,12 @@ func TestLoad(t *testing.T) {
 			for i := 0; i < each && ctx.Err() == nil; i++ {
 				st := statements[(c+i)%len(statements)]
 				start := time.Now()
-				rows, err := conn.Query(ctx, st.sql)
-				if err == nil {
-					for rows.Next() {
-					}
-					rows.Close()
-					err = rows.Err()
-				}
+				err := st.run(ctx, conn)
 				d := time.Since(start)
 				mu.Lock()
 				latencies = append(latencies, d)
 				if (err != nil) != st.fail {
-					unexpected = append(unexpected, fmt.Sprintf("client %d: %s: %v", c, st.sql, err))
+					unexpected = append(unexpected, fmt.Sprintf("client %d: %s: %v", c, st.name, err))
 				}
 				mu.Unlock()
 			}
@@ -86,8 +138,8 @@ func TestLoad(t *testing.T) {
 		t.Errorf("%d statements ran, want %d", len(latencies), clients*each)
 	}
 	p := func(q float64) time.Duration { return latencies[int(q*float64(len(latencies)-1))] }
-	t.Logf("%d clients x %d statements: p50 %v, p99 %v, max %v; peak RSS of the test process (server and clients) %s",
-		clients, each, p(0.50), p(0.99), latencies[len(latencies)-1], peakRSS())
+	t.Logf("%d clients x %d statements (%d kinds): p50 %v, p99 %v, max %v; peak RSS of the test process (server and clients) %s",
+		clients, each, len(statements), p(0.50), p(0.99), latencies[len(latencies)-1], peakRSS())
 }
 
 // peakRSS reads VmHWM from /proc/self/status.

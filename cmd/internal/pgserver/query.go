@@ -5,7 +5,6 @@ import (
 	"database/sql"
 	"errors"
 	"fmt"
-	"regexp"
 	"strings"
 	"time"
 
@@ -17,28 +16,43 @@ import (
 
 // prepared is a parsed statement of the extended protocol.
 type prepared struct {
-	sql    string
-	shape  shape
-	params []uint32 // OIDs the client gave, completed from the shape
+	sql       string       // as the client sent it
+	rewritten string       // after the compatibility rules, still with $n
+	toks      []token      // of rewritten
+	paths     map[int]bool // parameters that name files (rewrite.go)
+	own       bool         // a statement plumb answers itself (own.go)
+	shape     shape
+	params    []uint32 // OIDs for ParameterDescription
+	declared  []uint32 // OIDs the client gave in Parse, 0 where none
 }
 
-// portal is a bound statement ready to execute.
+// portal is a bound statement ready to execute: its SQL with the
+// parameters inlined, and its shape.
 type portal struct {
-	stmt    *prepared
-	args    []any
-	formats []int16
-	cursor  *cursor // open between Execute messages with a row limit (cursor.go)
+	stmt     *prepared
+	sql      string
+	shape    shape
+	formats  []int16
+	cursor   *cursor // open between Execute messages with a row limit (cursor.go)
+	hold     bool    // a cursor declared WITH HOLD outlives its transaction
+	declared bool    // opened by DECLARE
+	binary   bool    // DECLARE ... BINARY
+	done     bool    // a declared cursor's rows are used up
 }
 
-var beginVariant = regexp.MustCompile(`(?is)^\s*(BEGIN|START\s+TRANSACTION)\b.*$`)
-
-// normalize maps statements PostgreSQL clients send to DuckDB's dialect.
-func normalize(sql string) string {
+// normalize maps statements PostgreSQL clients send to DuckDB's dialect:
+// whole-statement answers first (psql's \d steps), then the token rules.
+func normalize(sql, dataDir string) (string, map[int]bool) {
 	sql = strings.TrimSpace(sql)
-	if beginVariant.MatchString(sql) {
-		return "BEGIN TRANSACTION"
+	if r := rewrite(sql); r != sql {
+		return r, nil
 	}
-	return rewrite(sql)
+	return rewriteSQL(sql, dataDir)
+}
+
+// rewrite applies normalize with the session's data directory.
+func (sess *session) rewrite(sql string) (string, map[int]bool) {
+	return normalize(sql, sess.srv.cfg.DataDir)
 }
 
 // simpleQuery runs every statement of a Query message in order, stopping
@@ -49,7 +63,8 @@ func (sess *session) simpleQuery(text string) {
 		sess.be.Send(&pgproto3.EmptyQueryResponse{})
 	}
 	for _, s := range stmts {
-		if err := sess.run(s, nil, nil, true); err != nil {
+		sql, _ := sess.rewrite(s)
+		if err := sess.run(s, sql, nil, nil, true); err != nil {
 			sess.be.Send(responseFor(err))
 			break
 		}
@@ -58,46 +73,53 @@ func (sess *session) simpleQuery(text string) {
 	sess.be.Flush()
 }
 
-// run executes one statement: describe says whether to send its row
-// description (the simple protocol does; the extended one has Describe).
-func (sess *session) run(text string, args []any, formats []int16, describe bool) (err error) {
+// run executes one rewritten statement, logs it (with the client's own
+// text) and marks a transaction failed on an error. sh is its shape if
+// known; describe says whether to send its row description (the simple
+// protocol does; the extended one has Describe).
+func (sess *session) run(original, sql string, sh *shape, formats []int16, describe bool) (err error) {
 	start := time.Now()
 	rows := int64(0)
-	defer func() {
-		attrs := []any{"sql", truncate(text, 300), "duration", time.Since(start).String(), "rows", rows}
-		if err != nil {
-			attrs = append(attrs, "error", firstLine(err.Error()))
-			if sess.txn == 'T' {
-				sess.txn = 'E'
-			}
-		}
-		sess.log.Info("statement", attrs...)
-	}()
-	if handled, err := sess.special(text, describe); handled {
+	defer func() { sess.logStatement("execute", original, start, rows, err) }()
+	if handled, n, err := sess.own(sql, formats, describe); handled {
+		rows = n
 		return err
 	}
-	if copyFromStdin.MatchString(text) {
-		return pgError{stateFeatureNotSupport, "COPY FROM STDIN is not supported by plumb serve; load files under the data directory with COPY ... FROM 'file'"}
-	}
-	if m := copyToStdout.FindStringSubmatch(text); m != nil {
-		rows, err = sess.copyOut(m[1], parseCopyOptions(m[2]))
-		return err
-	}
-	sql := normalize(text)
 	ctx := sess.begin()
 	defer sess.end()
-	sh, err := sess.describeSQL(ctx, sql)
-	if err != nil {
-		return err
+	if sh == nil {
+		described, err := sess.describeSQL(ctx, sql)
+		if err != nil {
+			return err
+		}
+		sh = &described
 	}
-	rows, err = sess.execute1(ctx, sql, sh, args, formats, describe)
+	rows, err = sess.execute1(ctx, sql, *sh, formats, describe)
 	return err
 }
 
+// logStatement writes one log line for a statement at a protocol step
+// and, after an error inside a transaction block, marks it failed.
+func (sess *session) logStatement(step, sql string, start time.Time, rows int64, err error, more ...any) {
+	var attrs []any
+	if step != "execute" {
+		attrs = append(attrs, "step", step)
+	}
+	attrs = append(attrs, "sql", truncate(sql, 300), "duration", time.Since(start).String(), "rows", rows)
+	attrs = append(attrs, more...)
+	if err != nil {
+		attrs = append(attrs, "error", firstLine(err.Error()))
+		if sess.txn == 'T' {
+			sess.txn = 'E'
+		}
+	}
+	sess.log.Info("statement", attrs...)
+}
+
 // execute1 runs a described statement and streams its result.
-func (sess *session) execute1(ctx context.Context, sql string, sh shape, args []any, formats []int16, describe bool) (int64, error) {
+func (sess *session) execute1(ctx context.Context, sql string, sh shape, formats []int16, describe bool) (int64, error) {
 	if !sh.returnsRows() {
-		res, err := sess.db.ExecContext(ctx, sql, args...)
+		res, err := sess.db.ExecContext(ctx, sql)
 		if err != nil {
 			return 0, sess.wrap(ctx, err)
 		}
@@ -109,7 +131,7 @@ func (sess *session) execute1(ctx context.Context, sql string, sh shape, args []
 	if describe {
 		sess.be.Send(rowDescription(sh.columns, formats))
 	}
-	rows, err := sess.db.QueryContext(ctx, sql, args...)
+	rows, err := sess.db.QueryContext(ctx, sql)
 	if err != nil {
 		return 0, sess.wrap(ctx, err)
 	}
@@ -207,7 +229,7 @@ func (sess *session) track(sql string, kind duckdb.StmtType) {
 		sess.txn = 'T'
 	case "COMMIT", "END", "ROLLBACK", "ABORT":
 		sess.txn = 'I'
-		sess.dropPortals()
+		sess.endTransactionPortals()
 	}
 }
 
@@ -264,45 +286,4 @@ func truncate(s string, n int) string {
 func firstLine(s string) string {
 	line, _, _ := strings.Cut(s, "\n")
 	return line
-}
-
-// special answers statements plumb handles itself: client SET, SHOW and
-// RESET of PostgreSQL session parameters.
-func (sess *session) special(sql string, describe bool) (bool, error) {
-	if name, value, ok := setParameter(sql); ok {
-		sess.params[name] = value
-		sess.be.Send(&pgproto3.CommandComplete{CommandTag: []byte("SET")})
-		return true, nil
-	}
-	if name, ok := showParameter(sql); ok {
-		if describe {
-			sess.be.Send(rowDescription([]column{{name: name, oid: oidText}}, nil))
-		}
-		sess.be.Send(&pgproto3.DataRow{Values: [][]byte{[]byte(sess.param(name))}})
-		sess.be.Send(&pgproto3.CommandComplete{CommandTag: []byte("SHOW")})
-		return true, nil
-	}
-	if m := resetStmt.FindStringSubmatch(sql); m != nil {
-		tag := strings.Fields(strings.ToUpper(m[1]))[0]
-		if tag == "DISCARD" {
-			tag = "DISCARD ALL"
-		}
-		sess.be.Send(&pgproto3.CommandComplete{CommandTag: []byte(tag)})
-		return true, nil
-	}
-	return false, nil
-}
-
-// specialShape is the shape of a statement special answers, for Describe.
-func specialShape(sql string) (shape, bool) {
-	if _, _, ok := setParameter(sql); ok {
-		return shape{}, true
-	}
-	if name, ok := showParameter(sql); ok {
-		return shape{columns: []column{{name: name, oid: oidText}}}, true
-	}
-	if resetStmt.MatchString(sql) {
-		return shape{}, true
-	}
-	return shape{}, false
 }

@@ -10,6 +10,8 @@ import (
 	"fmt"
 	"log/slog"
 	"net"
+	"sort"
+	"strings"
 	"sync"
 	"sync/atomic"
 	"time"
@@ -29,6 +31,7 @@ type Server struct {
 	ln       net.Listener
 	sessions map[uint32]*session
 	closing  atomic.Bool
+	version  string // what version() answers
 	wg       sync.WaitGroup
 	nextPID  atomic.Uint32
 }
@@ -62,6 +65,15 @@ func New(ctx context.Context, cfg Config, log *slog.Logger) (*Server, error) {
 		return nil, err
 	}
 	s.db = db
+	// Sessions' connections are closed when they end (session.closeDB);
+	// none is kept idle for the next.
+	db.SetMaxIdleConns(0)
+	var duckdbVersion string
+	if err := db.QueryRowContext(ctx, "SELECT library_version FROM pragma_version()").Scan(&duckdbVersion); err != nil {
+		db.Close()
+		return nil, err
+	}
+	s.version = fmt.Sprintf("PostgreSQL %s (plumb, DuckDB %s)", strings.TrimSuffix(clientParameters["server_version"], " (plumb)"), duckdbVersion)
 	s.nextPID.Store(uint32(time.Now().UnixNano()%100000) + 1000)
 	return s, nil
 }
@@ -113,6 +125,14 @@ func (s *Server) Serve(ln net.Listener) error {
 		s.wg.Add(1)
 		go func() {
 			defer s.wg.Done()
+			defer func() {
+				// A bug met by one client's input ends that session, not
+				// the server and everyone else's.
+				if r := recover(); r != nil {
+					s.log.Error("session ended by an internal error", "remote", c.RemoteAddr().String(), "panic", fmt.Sprint(r))
+					c.Close()
+				}
+			}()
 			s.handle(c)
 		}()
 	}
@@ -196,6 +216,19 @@ func (s *Server) busy() bool {
 		}
 	}
 	return false
+}
+
+// userNames lists the configured users, sorted, for pg_roles.
+func (s *Server) userNames() []string {
+	names := make([]string, 0, len(s.cfg.Users))
+	for u := range s.cfg.Users {
+		names = append(names, u)
+	}
+	sort.Strings(names)
+	if len(names) == 0 {
+		names = []string{"plumb"}
+	}
+	return names
 }
 
 // randomSecret is a session's cancel key (4 bytes, as protocol 3.0 has it).

@@ -26,6 +26,12 @@ type testServer struct {
 
 func startServer(t *testing.T, cfg Config) *testServer {
 	t.Helper()
+	return startServerLogging(t, cfg, nil)
+}
+
+// startServerLogging is startServer with the server's log going to log.
+func startServerLogging(t *testing.T, cfg Config, log *slog.Logger) *testServer {
+	t.Helper()
 	if cfg.Addr == "" {
 		cfg.Addr = "127.0.0.1:0"
 	}
@@ -40,7 +46,9 @@ func startServer(t *testing.T, cfg Config) *testServer {
 	if cfg.Grace == 0 {
 		cfg.Grace = 2 * time.Second
 	}
-	log := slog.New(slog.NewTextHandler(io.Discard, nil))
+	if log == nil {
+		log = slog.New(slog.NewTextHandler(io.Discard, nil))
+	}
 	if os.Getenv("PLUMB_SERVER_LOG") != "" {
 		log = slog.New(slog.NewTextHandler(os.Stderr, nil))
 	}
@@ -169,7 +177,7 @@ func TestPgxSimpleAndExtended(t *testing.T) {
 	if err := c.QueryRow(ctx, "SHOW application_name").Scan(&got); err != nil || got != "notebook" {
 		t.Errorf("SHOW application_name: %q %v", got, err)
 	}
-	if err := c.QueryRow(ctx, "SELECT version()").Scan(&got); err != nil || !strings.HasPrefix(got, "v1.") {
+	if err := c.QueryRow(ctx, "SELECT version()").Scan(&got); err != nil || !strings.HasPrefix(got, "PostgreSQL 15.0 (plumb, DuckDB v1.") {
 		t.Errorf("version(): %q %v", got, err)
 	}
 }
@@ -247,6 +255,10 @@ func TestSandbox(t *testing.T) {
 		"SET lock_configuration = false",
 		"ATTACH '/tmp/plumb_other.duckdb'",
 		"SELECT * FROM read_csv('" + ts.data + "/../../etc/passwd')",
+		// relative paths resolve against --data, and may not climb out of it
+		"SELECT * FROM read_csv('../../../../../../etc/passwd')",
+		"SELECT * FROM '../../../../../../etc/passwd.csv'",
+		"COPY (SELECT 1) TO '../../../../../../tmp/plumb_sandbox_test.csv'",
 	} {
 		if _, err := c.Exec(ctx, q); err == nil {
 			t.Errorf("%s: allowed", q)
@@ -260,6 +272,14 @@ func TestSandbox(t *testing.T) {
 	var n int64
 	if err := c.QueryRow(ctx, "SELECT count(*) FROM read_csv('"+filepath.Join(ts.data, "ok.csv")+"')").Scan(&n); err != nil || n != 1 {
 		t.Errorf("reading under --data: %d %v", n, err)
+	}
+	if err := c.QueryRow(ctx, "SELECT count(*) FROM 'ok.csv'").Scan(&n); err != nil || n != 1 {
+		t.Errorf("reading a path relative to --data: %d %v", n, err)
+	}
+	if _, err := c.Exec(ctx, "COPY (SELECT 2 AS y) TO 'relative_out.csv'"); err != nil {
+		t.Errorf("writing a path relative to --data: %v", err)
+	} else if _, err := os.Stat(filepath.Join(ts.data, "relative_out.csv")); err != nil {
+		t.Errorf("COPY TO a relative path did not write under --data: %v", err)
 	}
 	if _, err := c.Exec(ctx, "COPY (SELECT 1 AS x) TO '"+filepath.Join(ts.data, "out.csv")+"'"); err != nil {
 		t.Errorf("writing under --data: %v", err)

@@ -4,6 +4,7 @@ import (
 	"context"
 	"crypto/tls"
 	"database/sql"
+	"database/sql/driver"
 	"errors"
 	"fmt"
 	"io"
@@ -18,19 +19,21 @@ import (
 
 // session is one client connection and its own DuckDB connection.
 type session struct {
-	srv    *Server
-	conn   net.Conn
-	be     *pgproto3.Backend
-	db     *sql.Conn
-	log    *slog.Logger
-	pid    uint32
-	secret []byte
-	user   string
-	txn    byte // 'I' idle, 'T' in a transaction, 'E' in a failed transaction
-	params map[string]string
+	srv      *Server
+	conn     net.Conn
+	be       *pgproto3.Backend
+	db       *sql.Conn
+	log      *slog.Logger
+	pid      uint32
+	secret   []byte
+	user     string
+	database string
+	txn      byte // 'I' idle, 'T' in a transaction, 'E' in a failed transaction
+	params   map[string]string
 
 	statements map[string]*prepared
 	portals    map[string]*portal
+	cursors    int  // cursors opened, to name their tables
 	skipping   bool // after an extended-protocol error, until Sync
 
 	mu     sync.Mutex
@@ -53,7 +56,7 @@ func (s *Server) handle(c net.Conn) {
 		return
 	}
 	defer s.unregister(sess)
-	defer sess.db.Close()
+	defer sess.closeDB()
 	defer sess.dropPortals() // before the connection: open rows would block its Close
 	sess.log = sess.log.With("user", sess.user, "pid", sess.pid)
 	sess.log.Info("connection opened")
@@ -158,6 +161,17 @@ func (sess *session) login(m *pgproto3.StartupMessage) (bool, error) {
 			sess.params[strings.ToLower(k)] = v
 		}
 	}
+	sess.database = m.Parameters["database"]
+	if sess.database == "" {
+		sess.database = sess.user
+	}
+	id := identity{user: sess.user, database: sess.database, version: srv.version, pid: sess.pid, users: srv.userNames()}
+	if err := setupCompat(context.Background(), db, id, sess.params); err != nil {
+		sess.closeDB()
+		srv.unregister(sess)
+		sess.fatal(stateInternal, err.Error())
+		return false, nil
+	}
 	sess.be.Send(&pgproto3.AuthenticationOk{})
 	for _, name := range startupParameters {
 		sess.be.Send(&pgproto3.ParameterStatus{Name: name, Value: sess.param(strings.ToLower(name))})
@@ -192,11 +206,11 @@ func (sess *session) loop() error {
 		case *pgproto3.Query:
 			sess.simpleQuery(m.String)
 		case *pgproto3.Parse:
-			sess.handle(sess.parse(m))
+			sess.step("parse", m.Query, func() error { return sess.parse(m) })
 		case *pgproto3.Bind:
-			sess.handle(sess.bind(m))
+			sess.step("bind", sess.statementText(m.PreparedStatement), func() error { return sess.bind(m) })
 		case *pgproto3.Describe:
-			sess.handle(sess.describe(m))
+			sess.step("describe", sess.describedText(m), func() error { return sess.describe(m) })
 		case *pgproto3.Execute:
 			sess.handle(sess.execute(m))
 		case *pgproto3.Close:
@@ -210,7 +224,7 @@ func (sess *session) loop() error {
 		case *pgproto3.Sync:
 			sess.skipping = false
 			if sess.txn == 'I' { // the implicit transaction ends with its portals
-				sess.dropPortals()
+				sess.endTransactionPortals()
 			}
 			sess.be.Send(&pgproto3.ReadyForQuery{TxStatus: sess.txn})
 			if err := sess.be.Flush(); err != nil {
@@ -222,6 +236,9 @@ func (sess *session) loop() error {
 			}
 		case *pgproto3.Terminate:
 			return nil
+		case *pgproto3.CopyData, *pgproto3.CopyDone, *pgproto3.CopyFail:
+			// the rest of a COPY the server already ended with an error;
+			// PostgreSQL ignores these outside copy mode too
 		default:
 			sess.be.Send(&pgproto3.ErrorResponse{Severity: "ERROR", SeverityUnlocalized: "ERROR", Code: stateProtocolViolation,
 				Message: fmt.Sprintf("plumb does not support the %T message", msg)})
@@ -231,6 +248,54 @@ func (sess *session) loop() error {
 			}
 		}
 	}
+}
+
+// step runs one extended-protocol step; a failure is logged with the
+// statement it concerns (Execute logs its own) and answered by handle.
+func (sess *session) step(name, sql string, run func() error) {
+	if sess.skipping {
+		return
+	}
+	start := time.Now()
+	err := run()
+	if err != nil {
+		sess.logStatement(name, sql, start, 0, err)
+	}
+	sess.handle(err)
+}
+
+func (sess *session) statementText(name string) string {
+	if p, ok := sess.statements[name]; ok {
+		return p.sql
+	}
+	return ""
+}
+
+func (sess *session) describedText(m *pgproto3.Describe) string {
+	if m.ObjectType == 'S' {
+		return sess.statementText(m.Name)
+	}
+	if pt, ok := sess.portals[m.Name]; ok {
+		return pt.stmt.sql
+	}
+	return ""
+}
+
+// closeDB ends the session's DuckDB connection: an open transaction is
+// rolled back, and the connection is closed instead of going back to
+// database/sql's pool, so no TEMP table, prepared statement or transaction
+// of this session can reach another (Conn.Raw returning ErrBadConn makes
+// database/sql discard the connection).
+func (sess *session) closeDB() {
+	if sess.db == nil {
+		return
+	}
+	ctx, cancel := context.WithTimeout(context.Background(), 5*time.Second)
+	defer cancel()
+	sess.db.ExecContext(ctx, "ROLLBACK") // fails harmlessly when no transaction is open
+	sess.db.Raw(func(any) error { return driver.ErrBadConn })
+	sess.db.Close()
+	sess.db = nil
 }
 
 // handle sends the error of an extended-protocol step; after an error the

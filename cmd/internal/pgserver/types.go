@@ -42,13 +42,21 @@ const (
 	oidInterval    = 1186
 	oidNumeric     = 1700
 	oidUUID        = 2950
+	// oidJSONText is how STRUCTs, MAPs and lists without an array type are
+	// described: JSON in a text column.
+	oidJSONText = oidText
 )
 
 // arrayOf maps an element OID to its one-dimensional array OID.
-var arrayOf = map[uint32]uint32{
-	oidBool: oidBoolArray, oidInt2: oidInt2Array, oidInt4: oidInt4Array, oidInt8: oidInt8Array,
-	oidFloat4: oidFloat4Array, oidFloat8: oidFloat8Array, oidText: oidTextArray,
-}
+var arrayOf = func() map[uint32]uint32 {
+	m := map[uint32]uint32{}
+	for _, t := range pgTypes {
+		if t.elem != 0 && t.oid != 1015 && t.oid != 199 { // VARCHAR lists are sent as text[], lists of STRUCTs as json
+			m[t.elem] = t.oid
+		}
+	}
+	return m
+}()
 
 var elementOf = func() map[uint32]uint32 {
 	m := map[uint32]uint32{}
@@ -60,20 +68,21 @@ var elementOf = func() map[uint32]uint32 {
 
 // typeOID maps a DuckDB type name to a PostgreSQL type OID. Lists of types
 // with a PostgreSQL array type become arrays; other lists, STRUCTs and MAPs
-// become json text.
+// are sent as JSON in a text column (oidJSONText), which every client reads
+// (RPostgreSQL warns on json columns).
 func typeOID(name string) uint32 {
 	name = strings.ToUpper(strings.TrimSpace(name))
 	if strings.HasSuffix(name, "[]") {
 		if a, ok := arrayOf[typeOID(strings.TrimSuffix(name, "[]"))]; ok {
 			return a
 		}
-		return oidJSON
+		return oidJSONText
 	}
 	switch {
 	case strings.HasPrefix(name, "DECIMAL"), name == "HUGEINT", name == "UHUGEINT", name == "UBIGINT", name == "BIGNUM", name == "VARINT":
 		return oidNumeric
 	case strings.HasPrefix(name, "STRUCT"), strings.HasPrefix(name, "MAP"), strings.HasPrefix(name, "UNION"), strings.HasSuffix(name, "]"), name == "JSON":
-		return oidJSON
+		return oidJSONText
 	case strings.HasPrefix(name, "TIMESTAMP WITH TIME ZONE"), name == "TIMESTAMPTZ":
 		return oidTimestampTZ
 	case strings.HasPrefix(name, "TIMESTAMP"):
@@ -145,6 +154,9 @@ func textOf(v any, oid uint32) string {
 	case string:
 		return x
 	case []byte:
+		if oid == oidUUID && len(x) == 16 {
+			return uuidText(x)
+		}
 		return `\x` + fmt.Sprintf("%x", x)
 	case time.Time:
 		switch oid {
@@ -242,6 +254,11 @@ func encodeBinary(v any, oid uint32) []byte {
 	if v == nil {
 		return nil
 	}
+	if elem, ok := elementOf[oid]; ok {
+		if list, ok := v.([]any); ok {
+			return arrayBinary(list, elem)
+		}
+	}
 	switch oid {
 	case oidBool:
 		if b, _ := v.(bool); b {
@@ -276,6 +293,10 @@ func encodeBinary(v any, oid uint32) []byte {
 		return binary.BigEndian.AppendUint32(b, uint32(i.Months))
 	case oidUUID:
 		switch u := v.(type) {
+		case []byte:
+			if len(u) == 16 {
+				return u
+			}
 		case duckdb.UUID:
 			return u[:]
 		case *duckdb.UUID:
@@ -283,10 +304,6 @@ func encodeBinary(v any, oid uint32) []byte {
 		}
 	case oidNumeric:
 		return numericBinary(textOf(v, oid))
-	case oidBoolArray, oidInt2Array, oidInt4Array, oidInt8Array, oidFloat4Array, oidFloat8Array, oidTextArray:
-		if list, ok := v.([]any); ok {
-			return arrayBinary(list, elementOf[oid])
-		}
 	case oidBytea:
 		if b, ok := v.([]byte); ok {
 			return b
@@ -399,72 +416,8 @@ func numericBinary(s string) []byte {
 	return b
 }
 
-// decodeParam turns a bound parameter into a Go value for DuckDB.
-func decodeParam(data []byte, format int16, oid uint32) (any, error) {
-	if data == nil {
-		return nil, nil
-	}
-	if format == 0 {
-		s := string(data)
-		switch oid {
-		case oidInt2, oidInt4, oidInt8:
-			return strconv.ParseInt(strings.TrimSpace(s), 10, 64)
-		case oidFloat4, oidFloat8:
-			return strconv.ParseFloat(strings.TrimSpace(s), 64)
-		case oidBool:
-			switch strings.ToLower(strings.TrimSpace(s)) {
-			case "t", "true", "1", "yes", "on":
-				return true, nil
-			case "f", "false", "0", "no", "off":
-				return false, nil
-			}
-			return nil, fmt.Errorf("invalid boolean %q", s)
-		}
-		return s, nil
-	}
-	switch oid {
-	case oidBool:
-		if len(data) != 1 {
-			return nil, fmt.Errorf("binary boolean of %d bytes", len(data))
-		}
-		return data[0] != 0, nil
-	case oidInt2:
-		if len(data) != 2 {
-			return nil, fmt.Errorf("binary int2 of %d bytes", len(data))
-		}
-		return int64(int16(binary.BigEndian.Uint16(data))), nil
-	case oidInt4:
-		if len(data) != 4 {
-			return nil, fmt.Errorf("binary int4 of %d bytes", len(data))
-		}
-		return int64(int32(binary.BigEndian.Uint32(data))), nil
-	case oidInt8:
-		if len(data) != 8 {
-			return nil, fmt.Errorf("binary int8 of %d bytes", len(data))
-		}
-		return int64(binary.BigEndian.Uint64(data)), nil
-	case oidFloat4:
-		if len(data) != 4 {
-			return nil, fmt.Errorf("binary float4 of %d bytes", len(data))
-		}
-		return float64(math.Float32frombits(binary.BigEndian.Uint32(data))), nil
-	case oidFloat8:
-		if len(data) != 8 {
-			return nil, fmt.Errorf("binary float8 of %d bytes", len(data))
-		}
-		return math.Float64frombits(binary.BigEndian.Uint64(data)), nil
-	case oidDate:
-		if len(data) != 4 {
-			return nil, fmt.Errorf("binary date of %d bytes", len(data))
-		}
-		return pgEpoch.AddDate(0, 0, int(int32(binary.BigEndian.Uint32(data)))), nil
-	case oidTimestamp, oidTimestampTZ:
-		if len(data) != 8 {
-			return nil, fmt.Errorf("binary timestamp of %d bytes", len(data))
-		}
-		return pgEpoch.Add(time.Duration(int64(binary.BigEndian.Uint64(data))) * time.Microsecond), nil
-	case oidBytea:
-		return append([]byte(nil), data...), nil
-	}
-	return string(data), nil
+// uuidText writes 16 bytes in the canonical 8-4-4-4-12 form.
+func uuidText(b []byte) string {
+	h := fmt.Sprintf("%x", b)
+	return h[0:8] + "-" + h[8:12] + "-" + h[12:16] + "-" + h[16:20] + "-" + h[20:]
 }
