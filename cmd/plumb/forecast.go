@@ -10,7 +10,6 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/plumb-sql/plumb/cmd/internal/output"
-	"github.com/plumb-sql/plumb/udf"
 )
 
 func newForecastCommand() *cobra.Command {
@@ -43,18 +42,9 @@ coverage.`,
 			defer db.Close()
 			defer conn.Close()
 			s := flags.spec
-			by := make([]string, len(s.By))
-			for i, b := range s.By {
-				by[i] = udf.QuoteLiteral(b)
-			}
-			period := "NULL"
-			if s.Period > 0 {
-				period = fmt.Sprint(s.Period)
-			}
 			call := func(fn string) string {
-				return fmt.Sprintf("%s(%s, by := [%s], at := %s, value := %s, horizon := %d, coverage := %v, period := %s, alpha := %v, fill := %s, holdout := %d, bias_adjust := %v)",
-					fn, udf.QuoteLiteral(s.Source), strings.Join(by, ", "), udf.QuoteLiteral(s.At), udf.QuoteLiteral(s.Value),
-					horizon, coverage, period, s.Alpha, udf.QuoteLiteral(s.Fill), holdout, biasAdjust)
+				return fmt.Sprintf("%s(%s, horizon := %d, coverage := %v, holdout := %d, bias_adjust := %v)",
+					fn, s.Args(), horizon, coverage, holdout, biasAdjust)
 			}
 			const table = "plumb_cli_forecast"
 			if _, err := conn.ExecContext(ctx, "CREATE OR REPLACE TEMP TABLE "+table+" AS FROM "+call("forecast")); err != nil {

@@ -33,25 +33,12 @@ import numpy as np  # noqa: E402 (after the thread setting)
 import statsmodels  # noqa: E402
 from statsmodels.tsa.stattools import zivot_andrews  # noqa: E402
 
+from long_csv import read_long, write_long  # noqa: E402
+
 out = sys.argv[1] if len(sys.argv) > 1 else "."
 assert statsmodels.__version__.startswith("0.13.5"), statsmodels.__version__
 
 
-def read_long(path):
-    named = {}
-    with open(path) as f:
-        for row in csv.DictReader(f):
-            named.setdefault(row["dataset"].strip(), []).append(float(row["value"]))
-    return [(k, np.array(v)) for k, v in named.items()]
-
-
-def write_long(path, named):
-    with open(path, "w", newline="") as f:
-        w = csv.writer(f)
-        w.writerow(["dataset", "t", "value"])
-        for name, x in named:
-            for i, v in enumerate(x, 1):
-                w.writerow([name, i, repr(float(v))])
 
 
 def ar1(rng, n, phi):

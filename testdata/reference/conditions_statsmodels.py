@@ -11,14 +11,12 @@ from statsmodels.stats.diagnostic import acorr_ljungbox
 from statsmodels.stats.multitest import multipletests
 from statsmodels.tsa.seasonal import STL
 
+from long_csv import read_long
+
 out = sys.argv[1] if len(sys.argv) > 1 else "."
 assert statsmodels.__version__.startswith("0.13.5"), statsmodels.__version__
 
-series = {}
-for f in ("datasets_r.csv", "datasets_statsmodels.csv"):
-    with open(out + "/" + f) as fh:
-        for row in csv.DictReader(fh):
-            series.setdefault(row["dataset"], []).append(float(row["value"]))
+series = dict(read_long(out + "/datasets_r.csv") + read_long(out + "/datasets_statsmodels.csv"))
 
 rows = []
 for name, x in series.items():

@@ -31,14 +31,12 @@ import statsmodels
 from statsmodels.tsa.ar_model import AutoReg, ar_select_order
 from statsmodels.tsa.statespace.sarimax import SARIMAX
 
+from long_csv import read_long
+
 out = sys.argv[1] if len(sys.argv) > 1 else "."
 assert statsmodels.__version__.startswith("0.13.5"), statsmodels.__version__
 
-series = {}
-for f in ("datasets_r.csv", "datasets_statsmodels.csv"):
-    with open(out + "/" + f) as fh:
-        for row in csv.DictReader(fh):
-            series.setdefault(row["dataset"].strip(), []).append(float(row["value"]))
+series = dict(read_long(out + "/datasets_r.csv") + read_long(out + "/datasets_statsmodels.csv"))
 
 rng = np.random.default_rng(20260715)
 t = np.arange(240)

@@ -26,6 +26,12 @@ type Spec struct {
 
 // Call returns the SQL table expression diagnose(...) for s.
 func (s Spec) Call() string {
+	return "diagnose(" + s.Args() + ")"
+}
+
+// Args renders the arguments every plumb table function over a series
+// takes, as SQL: source, by, at, value, period, alpha and fill.
+func (s Spec) Args() string {
 	by := make([]string, len(s.By))
 	for i, b := range s.By {
 		by[i] = udf.QuoteLiteral(b)
@@ -42,7 +48,7 @@ func (s Spec) Call() string {
 	if fill == "" {
 		fill = "none"
 	}
-	return fmt.Sprintf("diagnose(%s, by := [%s], at := %s, value := %s, period := %s, alpha := %v, fill := %s)",
+	return fmt.Sprintf("%s, by := [%s], at := %s, value := %s, period := %s, alpha := %v, fill := %s",
 		udf.QuoteLiteral(s.Source), strings.Join(by, ", "), udf.QuoteLiteral(s.At), udf.QuoteLiteral(s.Value),
 		period, alpha, udf.QuoteLiteral(fill))
 }

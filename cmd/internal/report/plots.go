@@ -59,49 +59,70 @@ func seriesSVG(x axis, y, mean, sd []float64, yLabel string, width int) (string,
 		mid = append(mid, plotter.XY{X: x.x[i], Y: mean[i]})
 	}
 	if len(mid) > 1 {
-		band := append(plotter.XYs{}, upper...)
-		for i := len(lower) - 1; i >= 0; i-- {
-			band = append(band, lower[i])
-		}
-		poly, err := plotter.NewPolygon(band)
-		if err != nil {
+		if err := addBand(p, upper, lower); err != nil {
 			return "", err
 		}
-		poly.Color = bandColor
-		poly.LineStyle.Width = 0
-		p.Add(poly)
 	}
-	line, err := plotter.NewLine(points(x.x, y))
-	if err != nil {
+	if err := addSeries(p, points(x.x, y)); err != nil {
 		return "", err
+	}
+	if len(mid) > 1 {
+		if err := addHighlight(p, mid, "rolling mean"); err != nil {
+			return "", err
+		}
+	}
+	return render(p)
+}
+
+// addBand fills the area between upper and lower (each in x order).
+func addBand(p *plot.Plot, upper, lower plotter.XYs) error {
+	band := append(plotter.XYs{}, upper...)
+	for i := len(lower) - 1; i >= 0; i-- {
+		band = append(band, lower[i])
+	}
+	poly, err := plotter.NewPolygon(band)
+	if err != nil {
+		return err
+	}
+	poly.Color = bandColor
+	poly.LineStyle.Width = 0
+	p.Add(poly)
+	return nil
+}
+
+// addSeries draws the series itself, thin.
+func addSeries(p *plot.Plot, xy plotter.XYs) error {
+	line, err := plotter.NewLine(xy)
+	if err != nil {
+		return err
 	}
 	line.Color = seriesColor
 	line.Width = vg.Points(0.7)
 	p.Add(line)
-	if len(mid) > 1 {
-		m, err := plotter.NewLine(mid)
-		if err != nil {
-			return "", err
-		}
-		m.Color = meanColor
-		m.Width = vg.Points(1.4)
-		p.Add(m)
-		p.Legend.Add("rolling mean", m)
-		p.Legend.Top = true
+	return nil
+}
+
+// addHighlight draws a line over the series in the highlight colour, with
+// a legend entry.
+func addHighlight(p *plot.Plot, xy plotter.XYs, name string) error {
+	m, err := plotter.NewLine(xy)
+	if err != nil {
+		return err
 	}
-	return render(p)
+	m.Color = meanColor
+	m.Width = vg.Points(1.4)
+	p.Add(m)
+	p.Legend.Add(name, m)
+	p.Legend.Top = true
+	return nil
 }
 
 // lineSVG draws one series.
 func lineSVG(title string, x axis, y []float64, yLabel string) (string, error) {
 	p := newPlot(title, x, yLabel)
-	line, err := plotter.NewLine(points(x.x, y))
-	if err != nil {
+	if err := addSeries(p, points(x.x, y)); err != nil {
 		return "", err
 	}
-	line.Color = seriesColor
-	line.Width = vg.Points(0.7)
-	p.Add(line)
 	return render(p)
 }
 
@@ -109,42 +130,18 @@ func lineSVG(title string, x axis, y []float64, yLabel string) (string, error) {
 // their prediction interval as a band.
 func forecastSVG(title string, x axis, y []float64, fx axis, mean, lower, upper []float64, yLabel string) (string, error) {
 	p := newPlot(title, x, yLabel)
-	var band plotter.XYs
-	for i := range mean {
-		if !math.IsNaN(upper[i]) && !math.IsInf(upper[i], 0) {
-			band = append(band, plotter.XY{X: fx.x[i], Y: upper[i]})
-		}
-	}
-	for i := len(mean) - 1; i >= 0; i-- {
-		if !math.IsNaN(lower[i]) && !math.IsInf(lower[i], 0) {
-			band = append(band, plotter.XY{X: fx.x[i], Y: lower[i]})
-		}
-	}
-	if len(band) > 2 {
-		poly, err := plotter.NewPolygon(band)
-		if err != nil {
+	hi, lo := points(fx.x, upper), points(fx.x, lower)
+	if len(hi) > 1 && len(lo) > 1 {
+		if err := addBand(p, hi, lo); err != nil {
 			return "", err
 		}
-		poly.Color = bandColor
-		poly.LineStyle.Width = 0
-		p.Add(poly)
 	}
-	line, err := plotter.NewLine(points(x.x, y))
-	if err != nil {
+	if err := addSeries(p, points(x.x, y)); err != nil {
 		return "", err
 	}
-	line.Color = seriesColor
-	line.Width = vg.Points(0.7)
-	p.Add(line)
-	f, err := plotter.NewLine(points(fx.x, mean))
-	if err != nil {
+	if err := addHighlight(p, points(fx.x, mean), "forecast"); err != nil {
 		return "", err
 	}
-	f.Color = meanColor
-	f.Width = vg.Points(1.4)
-	p.Add(f)
-	p.Legend.Add("forecast", f)
-	p.Legend.Top = true
 	return render(p)
 }
 
