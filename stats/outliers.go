@@ -60,6 +60,11 @@ type OutlierResult struct {
 //     flagging ordinary noise. (The scale is not taken from r, which is 0
 //     whenever a point lies between its two sides.)
 //
+// A cheap screen runs first (mayHaveOutliers): a series in which no value
+// differs strongly from both the value a lag before and the value a lag
+// after cannot hold an isolated outlier, and is passed without the
+// windows' medians.
+//
 // Runs of more than MaxRun consecutive extreme points (flagged, or standing
 // apart from their far side in the same direction as a flagged neighbour)
 // are a change of level, not outliers, and are not reported. Each reported point is replaced in
@@ -79,6 +84,9 @@ func Outliers(x []float64, opts OutlierOptions) OutlierResult {
 	n := len(x)
 	res := OutlierResult{Cleaned: x, Scale: math.NaN()}
 	if n < 10 {
+		return res
+	}
+	if !mayHaveOutliers(x, opts.Period) {
 		return res
 	}
 	k := 3
@@ -340,4 +348,44 @@ func medianOfFew(v []float64) float64 {
 		return s[m/2]
 	}
 	return (s[m/2-1] + s[m/2]) / 2
+}
+
+// mayHaveOutliers is Outliers' screen. With L the period (1 without one)
+// and d_t = x_t - x_{t-L}, an isolated outlier at t makes both d_t and
+// d_{t+L} large, with opposite signs; a change of level makes only one of
+// them large, a seasonal pattern neither (L is its period). The series is
+// passed when no t has min(|d_t|, |d_{t+L}|) above 2.5 robust standard
+// deviations of d (1.4826 times the median of |d|): a point the full rule
+// flags stands more than 5 robust deviations from the medians of both its
+// sides, so its differences with its neighbours at lag L are large too. The
+// screen is loose on purpose: it only saves the full rule's work.
+func mayHaveOutliers(x []float64, period int) bool {
+	L := 1
+	if period >= 2 && len(x) > 3*period {
+		L = period
+	}
+	n := len(x)
+	if n <= 2*L {
+		return true
+	}
+	d := getScratch(n - L)
+	defer putScratch(d)
+	for t := L; t < n; t++ {
+		d[t-L] = math.Abs(x[t] - x[t-L])
+	}
+	buf := getScratch(len(d))
+	defer putScratch(buf)
+	copy(buf, d)
+	limit := 2.5 * 1.4826 * medianInPlace(buf)
+	if !(limit > 0) {
+		return true
+	}
+	// d[j] = |x_{j+L} - x_j|: a point t has d[t-L] and d[t]; the first and
+	// last L points have only one of them.
+	for j, v := range d {
+		if v > limit && (j < L || j >= len(d)-L || d[j-L] > limit) {
+			return true
+		}
+	}
+	return false
 }

@@ -161,13 +161,17 @@ func (j *judgement) rest(y, z []float64, o judgeOptions, stabilityPeriod int) (j
 		return *j, err
 	}
 	j.m = m
+	// The segment tests on the output (in whole periods when there is a
+	// period): its spread test is the verdict's, its mean test the cure
+	// check's.
 	if j.meanCause == "" {
-		// Nothing was done to the mean: the output is z itself.
-		j.mADF, j.mKPSS, j.mSeason = j.adf, j.kpss, j.zSeason
-	}
-	// The segment tests on the output: its spread test is the verdict's,
-	// its mean test the cure check's.
-	if j.mStability, err = stability(m, StabilityOptions{Segments: o.segments}, false); err != nil {
+		// Nothing was done to the mean: the output is z itself, and without
+		// a seasonal step z is the series itself.
+		j.mADF, j.mKPSS, j.mSeason, j.mStability = j.adf, j.kpss, j.zSeason, j.stability
+		if !j.seasonal {
+			j.mSeason = j.season
+		}
+	} else if j.mStability, err = stability(m, StabilityOptions{Segments: o.segments, Period: stabilityPeriod}, false); err != nil {
 		return *j, err
 	}
 	j.spreadP = j.mStability.SpreadPValue
@@ -181,7 +185,7 @@ func (j *judgement) rest(y, z []float64, o judgeOptions, stabilityPeriod int) (j
 		j.spreadCause = SpreadLevel
 	}
 	j.meanShare = segmentShare(z, segmentBounds(len(z), o.segments, stabilityPeriod), false)
-	j.spreadShare = segmentShare(m, segmentBounds(len(m), o.segments, 0), true)
+	j.spreadShare = segmentShare(m, segmentBounds(len(m), o.segments, stabilityPeriod), true)
 	if o.secondPeriods && j.season.Status == StatusOK {
 		if err := j.secondPeriodCheck(y, m, o); err != nil {
 			return *j, err
@@ -248,7 +252,7 @@ func (j *judgement) meanDecision(z []float64, o judgeOptions, stabilityPeriod in
 	j.brk = MeanBreakResult{Status: StatusSeasonUnknown, Index: -1, Statistic: math.NaN(), PValue: math.NaN(),
 		Before: math.NaN(), After: math.NaN(), Size: math.NaN(), SizeSD: math.NaN(), SSR: math.NaN()}
 	deterministic := j.recipe.SeasonalDifferences == 0
-	line := lineFit{a: math.NaN(), b: math.NaN(), p: math.NaN()}
+	line := &lineFit{a: math.NaN(), b: math.NaN(), p: math.NaN()}
 	if deterministic {
 		j.brk = MeanBreak(z)
 		line = fitLine(z)
@@ -262,11 +266,11 @@ func (j *judgement) meanDecision(z []float64, o judgeOptions, stabilityPeriod in
 	var trendOK, shiftOK bool
 	switch {
 	case unitRoot && deterministic:
-		if line.p < alpha {
-			if adf, err := ADF(z, ADFOptions{Deterministic: DeterministicTrend}); err == nil && adf.Status == StatusOK && adf.PValue < alpha {
-				kpss, err := KPSS(z, KPSSOptions{Deterministic: DeterministicTrend})
-				trendOK = err == nil && kpss.Status == StatusOK && !(kpss.PValue < alpha)
-			}
+		// Cheapest first: ADF with a trend rejects a unit root only for a
+		// few series with one, so most never need the slope's Newey-West t.
+		if adf, err := ADF(z, ADFOptions{Deterministic: DeterministicTrend}); err == nil && adf.Status == StatusOK && adf.PValue < alpha {
+			kpss, err := KPSS(z, KPSSOptions{Deterministic: DeterministicTrend})
+			trendOK = err == nil && kpss.Status == StatusOK && !(kpss.PValue < alpha) && line.pValue() < alpha
 		}
 		if shiftP < alpha {
 			// The lag ADF chose for the differencing sequence, fixed: one
@@ -283,7 +287,7 @@ func (j *judgement) meanDecision(z []float64, o judgeOptions, stabilityPeriod in
 			}
 		}
 	case !unitRoot && deterministic && j.stability.MeanPValue < each:
-		trendOK, shiftOK = line.p < alpha, shiftP < alpha
+		trendOK, shiftOK = line.pValue() < alpha, shiftP < alpha
 		unitRoot = !trendOK && !shiftOK
 	case !unitRoot:
 		unitRoot = j.stability.MeanPValue < each
@@ -354,21 +358,40 @@ func withoutShift(z []float64, index int, size float64) []float64 {
 }
 
 // lineFit is the least-squares line a + b·t (t = 0, 1, ...) through a
-// series, its residual sum of squares, and the two-sided p-value of the
-// slope with a prewhitened Newey-West standard error (trendSlope).
-type lineFit struct{ a, b, ssr, p float64 }
+// series and its residual sum of squares; pValue gives the two-sided
+// p-value of the slope with a prewhitened Newey-West standard error
+// (trendSlope), computed when first asked for.
+type lineFit struct {
+	a, b, ssr, p float64
+	z            []float64
+}
 
-func fitLine(z []float64) lineFit {
+func fitLine(z []float64) *lineFit {
 	n := float64(len(z))
-	b, _, p := trendSlope(z)
+	tbar := (n - 1) / 2
 	mean := sum(z) / n
-	a := mean - b*(n-1)/2
+	var sxy, sxx float64
+	for t, v := range z {
+		d := float64(t) - tbar
+		sxy += d * (v - mean)
+		sxx += d * d
+	}
+	b := sxy / sxx
+	a := mean - b*tbar
 	ssr := 0.0
 	for t, v := range z {
 		e := v - a - b*float64(t)
 		ssr += e * e
 	}
-	return lineFit{a: a, b: b, ssr: ssr, p: p}
+	return &lineFit{a: a, b: b, ssr: ssr, p: math.NaN(), z: z}
+}
+
+func (l *lineFit) pValue() float64 {
+	if math.IsNaN(l.p) && l.z != nil {
+		_, _, l.p = trendSlope(l.z)
+		l.z = nil
+	}
+	return l.p
 }
 
 // spreadFollowsLevel reports whether the segment standard deviations of m
