@@ -88,9 +88,10 @@ func ADF(x []float64, opts ADFOptions) (UnitRootResult, error) {
 	if !ok {
 		return fail(StatusSingular)
 	}
+	p, bound := mackinnonPValue(tau, d)
 	return UnitRootResult{
 		Method: "adf", Deterministic: d, NullHypothesis: NullUnitRoot, Status: StatusOK,
-		Statistic: tau, PValue: MacKinnonP(tau, d), PValueBound: PValueEstimate,
+		Statistic: tau, PValue: p, PValueBound: bound,
 		CriticalValues: MacKinnonCritical(d, n), Lags: lags, NObs: n,
 	}, nil
 }

@@ -1,6 +1,10 @@
 package stats
 
-import "math"
+import (
+	"math"
+
+	"gonum.org/v1/gonum/stat/distuv"
+)
 
 // DFGLSOptions configure the DF-GLS test. The zero value fits a constant and
 // chooses the lag by AIC up to Schwert's maximum, as ADFOptions does.
@@ -37,9 +41,10 @@ var ersTrend = []struct {
 // deterministic terms (ERS 1996), so p-value and critical values are
 // MacKinnon's for "none". With a trend the critical values come from ERS
 // Table 1 (the row for 50 below T = 50, 100 below 100, 200 up to 200, ∞
-// beyond, as r-cran-urca 1.3-3 picks it), and the
-// p-value interpolates linearly between its 1, 5 and 10% points, reported as
-// a bound outside them.
+// beyond, as r-cran-urca 1.3-3 picks it), and the p-value from plumb's own
+// simulation of the statistic's null distribution (dfglsTrendPValue), so
+// that it is a number a false-discovery rule can use rather than an
+// interpolation between three table points.
 func DFGLS(x []float64, opts DFGLSOptions) (UnitRootResult, error) {
 	d, err := opts.Deterministic.normalize()
 	if err != nil {
@@ -86,28 +91,56 @@ func DFGLS(x []float64, opts DFGLSOptions) (UnitRootResult, error) {
 		}
 		crit := ersTrend[row].crit
 		r.CriticalValues = crit
-		r.PValue, r.PValueBound = interpolateLowerTail(r.Statistic, crit)
+		r.PValue, r.PValueBound = dfglsTrendPValue(r.Statistic, T)
 	}
 	return r, nil
 }
 
-// interpolateLowerTail returns a p-value by linear interpolation between
-// lower-tail 1, 5 and 10% critical values; beyond them it is the nearest end
-// with a bound.
-func interpolateLowerTail(stat float64, crit [3]float64) (float64, PValueBound) {
-	levels := [3]float64{0.01, 0.05, 0.10}
-	switch {
-	case math.IsNaN(stat):
+// dfglsTrendPValue returns P(τ < stat) under the null hypothesis for the
+// DF-GLS statistic with a trend on T observations, from the response
+// surface dfglsTrendQuantiles (testdata/dfgls/simulate.go): the quantiles
+// at T (at 50 for shorter series, the shortest length simulated) and
+// Φ⁻¹(p) interpolated linearly in τ between them. Below the smallest
+// tabulated probability, 1e-4, Φ⁻¹(p) continues along the least-squares
+// line through the quantiles at p ≤ 0.01 (the normal-quantile tail form
+// MacKinnon (1994) fits to his simulations), an extrapolation; the p-value
+// is floored at 1e-300 with PValueAtMost. Above the largest, 0.9999, it is
+// 0.9999 with PValueAtLeast.
+func dfglsTrendPValue(stat float64, T int) (float64, PValueBound) {
+	if math.IsNaN(stat) {
 		return math.NaN(), PValueEstimate
-	case stat <= crit[0]:
-		return 0.01, PValueAtMost
-	case stat >= crit[2]:
-		return 0.10, PValueAtLeast
-	case stat <= crit[1]:
-		return levels[0] + (stat-crit[0])/(crit[1]-crit[0])*(levels[1]-levels[0]), PValueEstimate
-	default:
-		return levels[1] + (stat-crit[1])/(crit[2]-crit[1])*(levels[2]-levels[1]), PValueEstimate
 	}
+	inv := 1 / float64(max(T, 50))
+	n := len(dfglsTrendQuantiles)
+	quantile := func(i int) float64 {
+		c := dfglsTrendQuantiles[i].c
+		return c[0] + inv*(c[1]+inv*c[2])
+	}
+	z := func(i int) float64 { return distuv.UnitNormal.Quantile(dfglsTrendQuantiles[i].p) }
+	if stat >= quantile(n-1) {
+		return dfglsTrendQuantiles[n-1].p, PValueAtLeast
+	}
+	if stat < quantile(0) {
+		// Least squares of Φ⁻¹(p) on c over the lower tail.
+		var sc, sz, scc, scz, k float64
+		for i := 0; i < n && dfglsTrendQuantiles[i].p <= 0.01; i++ {
+			c, zi := quantile(i), z(i)
+			sc, sz, scc, scz, k = sc+c, sz+zi, scc+c*c, scz+c*zi, k+1
+		}
+		slope := (k*scz - sc*sz) / (k*scc - sc*sc)
+		p := distuv.UnitNormal.CDF(sz/k + slope*(stat-sc/k))
+		if !(p >= 1e-300) {
+			return 1e-300, PValueAtMost
+		}
+		return p, PValueEstimate
+	}
+	i := 1
+	for stat >= quantile(i) {
+		i++
+	}
+	lo, hi := quantile(i-1), quantile(i)
+	f := (stat - lo) / (hi - lo)
+	return distuv.UnitNormal.CDF(z(i-1) + f*(z(i)-z(i-1))), PValueEstimate
 }
 
 // glsDetrend returns y - z·β̂ with β̂ from the quasi-differenced regression

@@ -1,7 +1,5 @@
 package stats
 
-import "math"
-
 // KPSSOptions configure the KPSS test. The zero value tests level
 // stationarity with the automatic bandwidth.
 type KPSSOptions struct {
@@ -13,15 +11,6 @@ type KPSSOptions struct {
 	Bandwidth *int
 }
 
-// kpssTable is Kwiatkowski, Phillips, Schmidt & Shin (1992), Table 1: upper
-// tail critical values at 10, 5, 2.5 and 1%.
-var kpssTable = map[Deterministic][4]float64{
-	DeterministicConstant: {0.347, 0.463, 0.574, 0.739},
-	DeterministicTrend:    {0.119, 0.146, 0.176, 0.216},
-}
-
-var kpssLevels = [4]float64{0.10, 0.05, 0.025, 0.01}
-
 // KPSS performs the test of Kwiatkowski, Phillips, Schmidt & Shin (1992) of
 // the null hypothesis that x is stationary around a level (or a linear
 // trend). With e_t the residuals of x on a constant (and trend), S_t their
@@ -29,9 +18,15 @@ var kpssLevels = [4]float64{0.10, 0.05, 0.025, 0.01}
 //
 //	η = Σ S_t² / (T²·λ²).
 //
-// The p-value interpolates linearly in the paper's Table 1; beyond the table
-// it is the table's end with PValueBound saying which way the truth lies
-// (at_most 0.01, at_least 0.10).
+// The p-value and the critical values come from η's asymptotic
+// distribution under the null hypothesis, computed to about 1e-8 relative
+// accuracy (KPSSPValue, kpss_limit.go), not from the four points of the
+// paper's Table 1, so that p-values far into the tail stay usable by a
+// false-discovery rule. They are asymptotic: how well they hold in finite
+// samples, with the automatic bandwidth, is measured in
+// TestKPSSUniform (README, "How far the p-values can be trusted"). Beyond
+// P(η > x) = 1e-300 the p-value is reported as 1e-300 with PValueBound
+// at_most.
 func KPSS(x []float64, opts KPSSOptions) (UnitRootResult, error) {
 	d, err := opts.Deterministic.normalize()
 	if err != nil {
@@ -76,34 +71,14 @@ func KPSS(x []float64, opts KPSSOptions) (UnitRootResult, error) {
 		eta += s * s
 	}
 	stat := eta / (float64(T) * float64(T) * lrv)
-	table := kpssTable[d]
-	p, bound := interpolateUpperTail(stat, table, kpssLevels)
+	limit := kpssLimitFor(d)
+	p, bound := limit.pValueBound(stat)
 	return UnitRootResult{
 		Method: "kpss", Deterministic: d, NullHypothesis: NullStationary, Status: StatusOK,
 		Statistic: stat, PValue: p, PValueBound: bound,
-		CriticalValues: [3]float64{table[3], table[1], table[0]},
+		CriticalValues: limit.critical,
 		Lags:           l, NObs: T,
 	}, nil
-}
-
-// interpolateUpperTail returns the p-value of stat by linear interpolation in
-// a table of increasing critical values crit with their decreasing levels.
-func interpolateUpperTail(stat float64, crit, levels [4]float64) (float64, PValueBound) {
-	switch {
-	case math.IsNaN(stat):
-		return math.NaN(), PValueEstimate
-	case stat <= crit[0]:
-		return levels[0], PValueAtLeast
-	case stat >= crit[3]:
-		return levels[3], PValueAtMost
-	}
-	for i := 1; i < 4; i++ {
-		if stat <= crit[i] {
-			f := (stat - crit[i-1]) / (crit[i] - crit[i-1])
-			return levels[i-1] + f*(levels[i]-levels[i-1]), PValueEstimate
-		}
-	}
-	return levels[3], PValueAtMost
 }
 
 // detrend returns the residuals of x regressed on a constant, or on a

@@ -87,6 +87,28 @@ func MacKinnonP(tau float64, d Deterministic) float64 {
 	return distuv.UnitNormal.CDF(z)
 }
 
+// mackinnonPValue is MacKinnonP with the honest treatment of the fits'
+// ends: beyond τmin the p-value is the small-p fit's value at τmin with
+// PValueAtMost (MacKinnonP returns 0 there, as statsmodels does, though the
+// truth is a small positive number: about 2e-30 with a constant), and
+// beyond τmax it is the large-p fit's value at τmax with PValueAtLeast
+// (MacKinnonP returns 1). So no table end reaches a false-discovery rule
+// unmarked, and no p-value is exactly 0.
+func mackinnonPValue(tau float64, d Deterministic) (float64, PValueBound) {
+	d, err := d.normalize()
+	if err != nil || math.IsNaN(tau) {
+		return math.NaN(), PValueEstimate
+	}
+	m := mackinnon[d]
+	switch {
+	case tau < m.min:
+		return MacKinnonP(m.min, d), PValueAtMost
+	case tau > m.max:
+		return MacKinnonP(m.max, d), PValueAtLeast
+	}
+	return MacKinnonP(tau, d), PValueEstimate
+}
+
 // MacKinnonCritical returns the MacKinnon (2010) 1, 5 and 10% critical
 // values of the Dickey-Fuller τ statistic for a regression on nobs
 // observations; nobs ≤ 0 gives the asymptotic values.

@@ -54,3 +54,26 @@ func TestMacKinnonAgainstStatsmodels(t *testing.T) {
 		}
 	}
 }
+
+// TestMacKinnonPValueBounds: beyond the fits' ends the p-value is the fit's
+// value at the end, marked; inside, MacKinnonP unchanged.
+func TestMacKinnonPValueBounds(t *testing.T) {
+	for _, d := range []Deterministic{DeterministicNone, DeterministicConstant, DeterministicTrend} {
+		m := mackinnon[d]
+		p, bound := mackinnonPValue(m.min-5, d)
+		if bound != PValueAtMost || p != MacKinnonP(m.min, d) || !(p > 0) {
+			t.Errorf("%s below τmin: %v %s", d, p, bound)
+		}
+		t.Logf("%s: below τmin = %v, p at most %.3g", d, m.min, p)
+		if !math.IsInf(m.max, 1) {
+			p, bound = mackinnonPValue(m.max+1, d)
+			if bound != PValueAtLeast || p != MacKinnonP(m.max, d) || !(p < 1) {
+				t.Errorf("%s above τmax: %v %s", d, p, bound)
+			}
+			t.Logf("%s: above τmax = %v, p at least %.5f", d, m.max, p)
+		}
+		if p, bound = mackinnonPValue(-2, d); bound != PValueEstimate || p != MacKinnonP(-2, d) {
+			t.Errorf("%s at -2: %v %s", d, p, bound)
+		}
+	}
+}

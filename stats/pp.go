@@ -34,7 +34,8 @@ type PPResult struct {
 // paper's closed form through the moment matrix's determinant.
 //
 // Z(τ) has the Dickey-Fuller τ distribution, so its p-value and critical
-// values are MacKinnon's as for ADF.
+// values are MacKinnon's as for ADF (beyond the ends of MacKinnon's fits the
+// p-value is marked as a bound, see mackinnonPValue).
 func PhillipsPerron(x []float64, opts PPOptions) (PPResult, error) {
 	d, err := opts.Deterministic.normalize()
 	if err != nil {
@@ -99,10 +100,11 @@ func PhillipsPerron(x []float64, opts PPOptions) (PPResult, error) {
 	}
 	zTau := math.Sqrt(gamma0/lambda2)*tRho - f*(lambda2-gamma0)*nf*se/(2*lambda*s)
 	zAlpha := nf*(rho-1) - f*f*nf*nf*se*se*(lambda2-gamma0)/(2*s*s)
+	p, bound := mackinnonPValue(zTau, d)
 	return PPResult{
 		UnitRootResult: UnitRootResult{
 			Method: "pp", Deterministic: d, NullHypothesis: NullUnitRoot, Status: StatusOK,
-			Statistic: zTau, PValue: MacKinnonP(zTau, d), PValueBound: PValueEstimate,
+			Statistic: zTau, PValue: p, PValueBound: bound,
 			CriticalValues: MacKinnonCritical(d, n), Lags: l, NObs: n,
 		},
 		ZAlpha: zAlpha,

@@ -61,12 +61,13 @@ type StabilityResult struct {
 // badly inflated: an AR(1) with φ = 0.6 is flagged most of the time. plumb
 // therefore uses the Wald statistic with a long-run variance,
 //
-//	Q = Σ_j m_j (x̄_j - x̄)² / λ²,
+//	Q = Σ_j m_j (x̄_j - x̄)² / (c·λ̂²),
 //
-// where λ² is the long-run variance of the deviations from the segment
-// means (blockAR1LongRunVariance: an AR(1) approximation, bias-corrected for
-// the demeaning); under a constant mean and AR(1)-like short-run dependence
-// Q is asymptotically χ² with k-1 degrees of freedom.
+// where λ̂² is the long-run variance of the deviations from the segment
+// means (an AR(1) approximation, bias-corrected for the demeaning) and c
+// corrects for short segments; the p-value is P(F(k-1, ν) > Q/(k-1)), with
+// ν the degrees of freedom of λ̂² (segment_wald.go has the formulas and the
+// measurements behind them).
 //
 // Equal spreads: the same statistic on z_t = |x_t - M_j|, the absolute
 // deviations from the segment medians that Brown & Forsythe (1974) compare,
@@ -128,8 +129,8 @@ func stability(x []float64, opts StabilityOptions, full bool) (StabilityResult, 
 			zs[i] = math.Abs(v - med)
 		}
 	}
-	r.MeanStatistic, r.MeanPValue = segmentWald(xs, bounds)
-	r.SpreadStatistic, r.SpreadPValue = segmentWald(z, bounds)
+	r.MeanStatistic, r.MeanPValue = segmentWald(xs, bounds, 0)
+	r.SpreadStatistic, r.SpreadPValue = segmentWald(z, bounds, spreadCentringInflation)
 	minSD, maxSD := math.Inf(1), 0.0
 	for _, s := range sds {
 		minSD, maxSD = math.Min(minSD, s), math.Max(maxSD, s)
@@ -179,7 +180,7 @@ func segmentSpreadPValue(x []float64, bounds []int) float64 {
 			zs[i] = math.Abs(v - med)
 		}
 	}
-	_, p := segmentWald(z, bounds)
+	_, p := segmentWald(z, bounds, spreadCentringInflation)
 	return p
 }
 
@@ -205,30 +206,6 @@ func segmentBounds(T, k, period int) []int {
 		bounds[j] = bounds[j+1] - length
 	}
 	return bounds
-}
-
-// segmentWald returns Q = Σ m_j (ȳ_j - ȳ)² / λ² and its χ²(k-1) p-value, λ²
-// the block-AR(1) long-run variance of y about its segment means.
-func segmentWald(y []float64, bounds []int) (float64, float64) {
-	k := len(bounds) - 1
-	grand := sum(y) / float64(len(y))
-	e := getScratch(len(y))
-	defer putScratch(e)
-	q := 0.0
-	for j := 0; j < k; j++ {
-		seg := y[bounds[j]:bounds[j+1]]
-		m := sum(seg) / float64(len(seg))
-		for i, v := range seg {
-			e[bounds[j]+i] = v - m
-		}
-		q += float64(len(seg)) * (m - grand) * (m - grand)
-	}
-	lrv := blockAR1LongRunVariance(e, bounds[k]-bounds[k-1])
-	if !(lrv > 0) {
-		return math.NaN(), math.NaN()
-	}
-	q /= lrv
-	return q, distuv.ChiSquared{K: float64(k - 1)}.Survival(q)
 }
 
 // brownForsythe is the classic one-way ANOVA F on z across segments.
