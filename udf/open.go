@@ -110,6 +110,8 @@ func allFunctions() ([]*function, error) {
 		diagnoseFunctions(t),
 		rollingDispersionFunctions(t),
 		stationarizeFunctions(t),
+		batchFunctions(t),
+		shardFunctions(t),
 	} {
 		all = append(all, group...)
 	}
@@ -125,6 +127,7 @@ var macros = strings.Join([]string{
 	diagnoseMacro,
 	rollingDispersionMacro,
 	stationarizeMacros,
+	shardMacros,
 }, "\n")
 
 // createMacros creates plumb's TEMP macros on one connection.

@@ -87,6 +87,7 @@ func TestOpenRegistersEverything(t *testing.T) {
 		"rolling_mean": "macro", "box_cox": "macro", "inverse_box_cox": "macro", "box_cox_lambda": "macro",
 		"stationarity": "macro", "diagnose": "table_macro", "rolling_dispersion": "table_macro",
 		"stationarize": "table_macro", "stationarize_recipes": "table_macro", "restore": "table_macro",
+		"combine_diagnoses": "table_macro",
 	} {
 		if got[name] != kind {
 			t.Errorf("%s: registered as %q, want %q", name, got[name], kind)

@@ -4,6 +4,7 @@ import (
 	"database/sql/driver"
 	"fmt"
 	"math"
+	"strings"
 
 	"github.com/duckdb/duckdb-go/v2"
 
@@ -237,19 +238,20 @@ func restoreGroup(args []driver.Value) (any, error) {
 }
 
 func stationarizeSQL(q seriesQuery, period, alpha string, recipes bool) string {
-	base := fmt.Sprintf(`WITH %[1]s, plumb_done AS (
-    SELECT *, plumb_stationarize(plumb_value, %[2]s, %[3]s) AS plumb_s FROM plumb_series
-)
-`, q.groupsCTE(), period, alpha)
 	if recipes {
-		return base + fmt.Sprintf(`SELECT %[1]s, plumb_at[len(plumb_at)] AS last_at, plumb_s.status AS status,
-       plumb_s.box_cox_lambda AS box_cox_lambda, plumb_s.period AS period,
-       plumb_s.seasonal_differences AS seasonal_differences, plumb_s.differences AS differences,
-       plumb_s.head AS head, plumb_s.tail AS tail
-FROM plumb_done`, q.byList(""))
+		perGroup := fmt.Sprintf(`SELECT %[1]s, plumb_at[len(plumb_at)] AS last_at, plumb_s.status AS status,
+                   plumb_s.box_cox_lambda AS box_cox_lambda, plumb_s.period AS period,
+                   plumb_s.seasonal_differences AS seasonal_differences, plumb_s.differences AS differences,
+                   plumb_s.head AS head, plumb_s.tail AS tail
+            FROM (SELECT *, plumb_stationarize(plumb_value, %[2]s, %[3]s) AS plumb_s FROM plumb_series)`,
+			q.byList(""), period, alpha)
+		return q.batchedCTEs(perGroup, gatherBytesPerRow) + "\nFROM plumb_done"
 	}
-	return base + fmt.Sprintf(`SELECT %[1]s, unnest(plumb_at) AS %[2]s, unnest(plumb_raw) AS %[3]s,
-       unnest(coalesce(plumb_s.values, list_resize([]::DOUBLE[], len(plumb_at)))) AS stationary_value
+	perGroup := fmt.Sprintf(`SELECT %[1]s, plumb_at, plumb_raw,
+                   coalesce(plumb_stationarize(plumb_value, %[2]s, %[3]s).values, list_resize([]::DOUBLE[], len(plumb_at))) AS plumb_stationary
+            FROM plumb_series`, q.byList(""), period, alpha)
+	return q.batchedCTEs(perGroup, rowBytes(3)) + fmt.Sprintf(`
+SELECT %[1]s, unnest(plumb_at) AS %[2]s, unnest(plumb_raw) AS %[3]s, unnest(plumb_stationary) AS stationary_value
 FROM plumb_done`, q.byList(""), quoteIdent(q.at), quoteIdent(q.value))
 }
 
@@ -258,17 +260,15 @@ func restoreSQL(q seriesQuery, recipes, anchor string) string {
 	for i, b := range q.by {
 		join[i] = fmt.Sprintf("plumb_r.%[1]s IS NOT DISTINCT FROM plumb_series.%[1]s", quoteIdent(b))
 	}
-	on := join[0]
-	for _, j := range join[1:] {
-		on += " AND " + j
-	}
-	return fmt.Sprintf(`WITH %[1]s
-SELECT %[2]s, unnest(plumb_at) AS %[3]s,
-       unnest(coalesce(plumb_restore(plumb_value, plumb_r.box_cox_lambda, plumb_r.period, plumb_r.seasonal_differences,
-                                     plumb_r.differences, plumb_r.head, plumb_r.tail, %[4]s),
-                       list_resize([]::DOUBLE[], len(plumb_at)))) AS %[5]s
-FROM plumb_series LEFT JOIN %[6]s AS plumb_r ON %[7]s`,
-		q.groupsCTE(), q.byList("plumb_series."), quoteIdent(q.at), quoteLiteral(anchor), quoteIdent(q.value), recipes, on)
+	perGroup := fmt.Sprintf(`SELECT %[1]s, plumb_at,
+                   coalesce(plumb_restore(plumb_value, plumb_r.box_cox_lambda, plumb_r.period, plumb_r.seasonal_differences,
+                                          plumb_r.differences, plumb_r.head, plumb_r.tail, %[2]s),
+                            list_resize([]::DOUBLE[], len(plumb_at))) AS plumb_restored
+            FROM plumb_series LEFT JOIN %[3]s AS plumb_r ON %[4]s`,
+		q.byList("plumb_series."), quoteLiteral(anchor), recipes, strings.Join(join, " AND "))
+	return q.batchedCTEs(perGroup, rowBytes(2)) + fmt.Sprintf(`
+SELECT %[1]s, unnest(plumb_at) AS %[2]s, unnest(plumb_restored) AS %[3]s
+FROM plumb_done`, q.byList(""), quoteIdent(q.at), quoteIdent(q.value))
 }
 
 const stationarizeMacros = `

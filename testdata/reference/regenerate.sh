@@ -2,7 +2,9 @@
 # Regenerates every reference value in this folder from Debian's packages:
 #   r-base-core 4.2.2 (datasets), r-cran-urca 1.3-3, r-cran-tseries 0.10-53,
 #   r-cran-forecast 8.20,
-#   python3-statsmodels 0.13.5 (run with /usr/bin/python3).
+#   python3-statsmodels 0.13.5 (run with /usr/bin/python3);
+# and, with plain /usr/bin/python3, shard_keys.py (plumb's shard definition
+# written again independently of the Go code).
 # Usage: regenerate.sh [OUT_DIR]   (default: this folder)
 # .ci/run writes into a temporary folder and fails if anything differs from
 # the committed files.
@@ -15,3 +17,4 @@ Rscript "$here/export_datasets.R" "$out/datasets_r.csv"
 Rscript "$here/unit_root_r.R" "$out"
 /usr/bin/python3 "$here/conditions_statsmodels.py" "$out"
 Rscript "$here/conditions_r.R" "$out"
+/usr/bin/python3 "$here/shard_keys.py" "$out"
