@@ -60,6 +60,14 @@ const (
 	chunkGroups       = 2048
 )
 
+// batchRowsCap bounds a batch even when memory_limit would allow more:
+// gathering more than a few GB at once only costs the kernel time to hand
+// out fresh pages. 1,000,000 groups × 365 rows on two cores (group-sorted
+// Parquet): one batch took 48 s, 68 s of user and 20 s of system CPU time
+// and 10.9 GB; batches of at most 73.5 million rows (memory_limit = '4GB')
+// 42 s, 67 s and 7 s, and 2.6 GB.
+const batchRowsCap = 1 << 26
+
 // rowBytes is what a batch of a function that returns a row per source row
 // needs per row, when its per-group output holds lists lists of 8-byte
 // values (at, the value, and its results): the gathering, plus its output
@@ -92,8 +100,8 @@ type batchBudget struct {
 }
 
 // batchRows is the most source rows one batch may hold: at least one, at
-// most 2^62. When the reserve and the chunks leave less than a tenth of the
-// limit, a tenth is taken as the rest.
+// most batchRowsCap. When the reserve and the chunks leave less than a
+// tenth of the limit, a tenth is taken as the rest.
 func (b batchBudget) batchRows() int64 {
 	var chunks float64
 	if b.groups > 0 {
@@ -102,7 +110,7 @@ func (b batchBudget) batchRows() int64 {
 	}
 	rest := math.Max(b.limit-batchReserve-chunks, b.limit/10)
 	rows := math.Floor(rest * batchMemoryShare / float64(max(b.perRow, 1)))
-	return int64(math.Max(1, math.Min(rows, 1<<62)))
+	return int64(math.Max(1, math.Min(rows, batchRowsCap)))
 }
 
 // batchFunctions provides
@@ -197,7 +205,7 @@ func (q seriesQuery) batchedCTEs(perGroup string, bytesPerRow int) string {
     FROM plumb_input
     GROUP BY %[2]s%[4]s
 ), plumb_plan AS MATERIALIZED (
-    SELECT %[2]s, plumb_null_key, dense_rank() OVER (ORDER BY plumb_start // plumb_batch_rows) - 1 AS plumb_batch
+    SELECT %[2]s, plumb_rows, plumb_null_key, dense_rank() OVER (ORDER BY plumb_start // plumb_batch_rows) - 1 AS plumb_batch
     FROM (
         SELECT *, sum(plumb_rows) OVER (ORDER BY %[2]s ROWS BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW) - plumb_rows AS plumb_start
         FROM plumb_keys
@@ -225,10 +233,10 @@ func (q seriesQuery) batchedCTEs(perGroup string, bytesPerRow int) string {
         ), plumb_batch_keys AS (
             SELECT plumb_plan.* FROM plumb_plan JOIN plumb_next USING (plumb_batch)
         ), plumb_batch_input AS (
-            SELECT plumb_input.*
+            SELECT plumb_input.*, plumb_k.plumb_rows AS plumb_counted
             FROM plumb_input JOIN (FROM plumb_batch_keys WHERE NOT plumb_null_key) AS plumb_k ON %[9]s
             UNION ALL
-            SELECT plumb_input.*
+            SELECT plumb_input.*, plumb_k.plumb_rows AS plumb_counted
             FROM plumb_input JOIN (FROM plumb_batch_keys WHERE plumb_null_key) AS plumb_k ON %[10]s
         ), %[7]s, plumb_out AS MATERIALIZED (
             %[8]s
@@ -240,6 +248,6 @@ func (q seriesQuery) batchedCTEs(perGroup string, bytesPerRow int) string {
 ), plumb_done AS (
     SELECT plumb_row.* FROM plumb_batches WHERE NOT plumb_marker
 )`, q.inputCTE(), by, "("+strings.Join(null, " OR ")+")", q.shardFilter(), bytesPerRow,
-		q.seriesCTEs("(FROM plumb_input LIMIT 0)", "plumb_no_series"), q.seriesCTEs("plumb_batch_input", "plumb_series"),
+		q.seriesCTEs("(SELECT *, NULL::BIGINT AS plumb_counted FROM plumb_input LIMIT 0)", "plumb_no_series"), q.seriesCTEs("plumb_batch_input", "plumb_series"),
 		perGroup, strings.Join(equal, " AND "), strings.Join(same, " AND "), q.chunkBytes())
 }

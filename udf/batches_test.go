@@ -41,18 +41,20 @@ func TestBatchRows(t *testing.T) {
 		budget batchBudget
 		want   int64
 	}{
-		// (4e9 - 40 MiB) * 0.6 / 32: no groups, no chunks
-		{batchBudget{limit: 4e9, threads: 2, perRow: gatherBytesPerRow}, 74213568},
+		// (2e9 - 40 MiB) * 0.6 / 32: no groups, no chunks
+		{batchBudget{limit: 2e9, threads: 2, perRow: gatherBytesPerRow}, 36713568},
 		// 1,000,000 groups of 365 rows on 2 threads: chunks of 2 × 2048 × 365 × 24 bytes;
-		// (4e9 - 40 MiB - 35,880,960) * 0.6 / 32 = 73540800
-		{batchBudget{limit: 4e9, threads: 2, groups: 1e6, rows: 365e6, perRow: gatherBytesPerRow, chunkPerRow: 24}, 73540800},
+		// (2e9 - 40 MiB - 35,880,960) * 0.6 / 32 = 36040800
+		{batchBudget{limit: 2e9, threads: 2, groups: 1e6, rows: 365e6, perRow: gatherBytesPerRow, chunkPerRow: 24}, 36040800},
+		// 4e9 would allow 74213568 rows: the cap
+		{batchBudget{limit: 4e9, threads: 2, perRow: gatherBytesPerRow}, batchRowsCap},
 		// 10 groups of 100 rows: the chunks hold the 10 groups only, 2 × 10 × 100 × 48 bytes;
 		// (100 MiB - 40 MiB - 96,000) * 0.6 / (32 + 4 * 24) = 294462
 		{batchBudget{limit: 100 << 20, threads: 2, groups: 10, rows: 1000, perRow: rowBytes(4), chunkPerRow: 48}, 294462},
 		// the reserve and the chunks leave less than a tenth: a tenth, 6.4 MiB * 0.6 / 32
 		{batchBudget{limit: 64 << 20, threads: 2, groups: 1e4, rows: 1e7, perRow: gatherBytesPerRow, chunkPerRow: 48}, 125829},
 		{batchBudget{limit: 1, threads: 1, perRow: gatherBytesPerRow}, 1}, // at least one row
-		{batchBudget{limit: 1e20, threads: 1, perRow: 1}, 1 << 62},        // at most 2^62 rows
+		{batchBudget{limit: 1e20, threads: 1, perRow: 1}, batchRowsCap},   // at most the cap
 	} {
 		if got := test.budget.batchRows(); got != test.want {
 			t.Errorf("%+v: %d rows, want %d", test.budget, got, test.want)
@@ -211,6 +213,20 @@ func TestBatchesEqualUnlimited(t *testing.T) {
 		}
 		if strings.HasPrefix(want, "0 rows") {
 			t.Errorf("%s: no rows", test.name)
+		}
+	}
+}
+
+// TestUnsteadySourceFails: a source that gives other rows on each read (a
+// random sample) fails with a message that says why, instead of mixing the
+// rows of two reads.
+func TestUnsteadySourceFails(t *testing.T) {
+	db := openTest(t)
+	exec(t, db, `CREATE TABLE s AS SELECT 'g' || (i % 8) AS g, i // 8 AS t, sin(i) + i % 5 AS v FROM range(8000) r(i)`)
+	for _, function := range []string{"diagnose", "differenced", "stationarize"} {
+		q := fmt.Sprintf(`FROM %s('(SELECT * FROM s USING SAMPLE 50%% (bernoulli))', by := 'g', at := 't', value := 'v')`, function)
+		if msg := queryError(t, db, q); !strings.Contains(msg, "reads its source more than once") {
+			t.Errorf("%s: %s", function, msg)
 		}
 	}
 }

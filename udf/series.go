@@ -78,8 +78,9 @@ func (q seriesQuery) inputCTE() string {
 }
 
 // seriesCTEs returns the common table expressions that turn input (a
-// relation with the source's needed columns) into one row per group, the
-// last of them called name:
+// relation with the source's needed columns and plumb_counted, the rows the
+// first pass counted in the row's group) into one row per group, the last
+// of them called name:
 //
 //	without points: the group columns, plumb_rows, plumb_at (the at values
 //	in order), plumb_raw (the value column in at order, in its own type) and
@@ -108,25 +109,37 @@ func (q seriesQuery) seriesCTEs(input, name string) string {
 	return fmt.Sprintf(`plumb_pairs AS (
     SELECT %[1]s,
            count(*) AS plumb_rows,
+           max(plumb_counted) AS plumb_counted,
            count(%[2]s) AS plumb_at_present,
            list_sort(list(struct_pack(t := %[2]s, v := %[3]s))) AS plumb_sorted
     FROM %[9]s
     GROUP BY %[1]s
 ), plumb_groups AS (
-    SELECT %[1]s, plumb_rows, plumb_at_present,
+    SELECT %[1]s, plumb_rows, plumb_counted, plumb_at_present,
            [p.t FOR p IN plumb_sorted] AS plumb_at,
            [p.v FOR p IN plumb_sorted] AS plumb_raw
     FROM plumb_pairs
 ), %[10]s AS (
     SELECT %[1]s, plumb_rows, plumb_at, plumb_raw,
            CASE
+               WHEN plumb_rows <> plumb_counted THEN %[4]s
                WHEN plumb_at_present < plumb_rows THEN %[8]s
                WHEN plumb_repeats(plumb_at) > 0 THEN
                    error(%[5]s || 'column ' || %[6]s || ' repeats a value in group ' || %[7]s || ' (' || plumb_repeats(plumb_at) || ' duplicates); each group needs one row per time point')
                ELSE plumb_raw::DOUBLE[]
            END AS plumb_value
     FROM plumb_groups
-)`, by, at, value, "", prefix, quoteLiteral(quoteIdent(q.at)), label, q.nullAtError(), input, name)
+)`, by, at, value, q.unsteadyError(), prefix, quoteLiteral(quoteIdent(q.at)), label, q.nullAtError(), input, name)
+}
+
+// unsteadyError is the SQL expression that fails when a group has another
+// number of rows (plumb_rows) than the first pass counted (plumb_counted):
+// the source does not give the same rows on every read.
+func (q seriesQuery) unsteadyError() string {
+	return fmt.Sprintf(`error(%s || 'the source gave group ' || %s || ' ' || plumb_counted || ' rows on one read and ' || plumb_rows || ' on another; '
+               || %s || ' reads its source more than once (to count each group''s rows, then once per batch of groups), so the source must give the same rows '
+               || 'on every read (no sampling, no LIMIT without ORDER BY); store it in a table first')`,
+		quoteLiteral(q.function+": "), q.groupLabel(), quoteLiteral(q.function))
 }
 
 // nullAtError is the SQL expression that fails with the group's name and
@@ -142,6 +155,7 @@ func (q seriesQuery) pointsCTEs(input, name string) string {
 	return fmt.Sprintf(`plumb_groups AS (
     SELECT %[1]s,
            count(*) AS plumb_rows,
+           max(plumb_counted) AS plumb_counted,
            count(%[2]s) AS plumb_at_present,
            min(%[2]s) AS plumb_first_at,
            max(%[2]s) AS plumb_last_at,
@@ -151,9 +165,10 @@ func (q seriesQuery) pointsCTEs(input, name string) string {
 ), %[6]s AS (
     SELECT %[1]s, plumb_rows, plumb_first_at, plumb_last_at,
            CASE
+               WHEN plumb_rows <> plumb_counted THEN %[7]s
                WHEN plumb_at_present < plumb_rows THEN %[4]s
                ELSE plumb_points
            END AS plumb_points
     FROM plumb_groups
-)`, q.byList(""), at, quoteIdent(q.value), q.nullAtError(), input, name)
+)`, q.byList(""), at, quoteIdent(q.value), q.nullAtError(), input, name, q.unsteadyError())
 }

@@ -22,6 +22,9 @@ type Spec struct {
 	Period int      // 0: detect
 	Alpha  float64  // 0: 0.05
 	Fill   string   // "": none
+	// Shards, when above zero, diagnoses only the groups of shard Shard
+	// (0 <= Shard < Shards) and returns them unranked, for combine_diagnoses.
+	Shard, Shards int
 }
 
 // Call returns the SQL table expression diagnose(...) for s.
@@ -42,9 +45,13 @@ func (s Spec) Call() string {
 	if fill == "" {
 		fill = "none"
 	}
-	return fmt.Sprintf("diagnose(%s, by := [%s], at := %s, value := %s, period := %s, alpha := %v, fill := %s)",
+	shards := ""
+	if s.Shards > 0 {
+		shards = fmt.Sprintf(", shard := %d, shards := %d", s.Shard, s.Shards)
+	}
+	return fmt.Sprintf("diagnose(%s, by := [%s], at := %s, value := %s, period := %s, alpha := %v, fill := %s%s)",
 		udf.QuoteLiteral(s.Source), strings.Join(by, ", "), udf.QuoteLiteral(s.At), udf.QuoteLiteral(s.Value),
-		period, alpha, udf.QuoteLiteral(fill))
+		period, alpha, udf.QuoteLiteral(fill), shards)
 }
 
 // Check verifies that the source can be read and has the named columns,
