@@ -46,17 +46,25 @@ import (
 // DuckDB holds while it works on a chunk of up to 2,048 groups on each of
 // its threads (chunkBytes per source row of those groups). What a batch
 // needs per source row is the table function's bytesPerRow:
-// gatherBytesPerRow to gather a group's (at, value) pairs (about 30 bytes
-// measured with BIGINT and DOUBLE columns: 100,000 groups × 365 rows needed
-// a memory_limit between 1.0 and 1.2 GB), and for the functions that
-// return a row per source row rowBytes, which adds their output. Under
-// memory_limit = '100MB', 8,000 groups of 350 rows on average on two
-// threads, stationarize_recipes ran out of memory until the chunks' lists
-// were counted.
+// gatherBytesPerRow to gather a group's (at, value) pairs, and for the
+// functions that return a row per source row rowBytes, which adds their
+// output.
+//
+// Gathering took about 30 bytes a row, measured with BIGINT and DOUBLE
+// columns: 100,000 groups × 365 rows needed a memory_limit between 1.0 and
+// 1.1 GB, in group order and in time order alike. But on a source in time
+// order every thread meets every group, and merging the threads' partial
+// lists copies them: 1,000,000 groups × 365 rows in time order ran out of
+// memory under memory_limit = '4GB' in batches of 67 million rows (30 bytes
+// a row would have allowed 74 million) and completed in batches of 36
+// million. gatherBytesPerRow allows for that copy. Under memory_limit =
+// '100MB', 8,000 groups of 350 rows on average on two threads,
+// stationarize_recipes ran out of memory until the chunks' lists were
+// counted.
 const (
 	batchMemoryShare  = 0.6
 	batchReserve      = 40 << 20
-	gatherBytesPerRow = 32
+	gatherBytesPerRow = 64
 	chunkGroups       = 2048
 )
 
@@ -64,8 +72,8 @@ const (
 // gathering more than a few GB at once only costs the kernel time to hand
 // out fresh pages. 1,000,000 groups × 365 rows on two cores (group-sorted
 // Parquet): one batch took 48 s, 68 s of user and 20 s of system CPU time
-// and 10.9 GB; batches of at most 73.5 million rows (memory_limit = '4GB')
-// 42 s, 67 s and 7 s, and 2.6 GB.
+// and 10.9 GB; batches of at most 73.5 million rows 42 s, 67 s and 7 s,
+// and 2.6 GB.
 const batchRowsCap = 1 << 26
 
 // rowBytes is what a batch of a function that returns a row per source row
@@ -73,9 +81,9 @@ const batchRowsCap = 1 << 26
 // values (at, the value, and its results): the gathering, plus its output
 // held twice while the next batch runs (the recursive CTE keeps the last
 // batch's rows beside the batch's own), plus a third for the lists'
-// overhead. Measured on 100,000 groups × 365 rows: differenced (3 lists)
-// completes under memory_limit = '300MB' with it; rolling_dispersion (7)
-// failed under 80 MB when every function was allowed 128 bytes a row.
+// overhead. rolling_dispersion (7 lists) ran out of memory under
+// memory_limit = '80MB' (8,000 groups) when every function was allowed 128
+// bytes a row.
 func rowBytes(lists int) int { return gatherBytesPerRow + 24*lists }
 
 // chunkBytes is, per source row, what DuckDB holds while one chunk of
@@ -175,12 +183,43 @@ func parseBytes(s string) (float64, error) {
 	return x * math.Pow(base, float64(p)), nil
 }
 
+// planCTEs returns the first tables of batchedCTEs: plumb_input (the
+// source's needed columns), plumb_keys (the rows of every group key; with
+// shards only the keys of the shard) and plumb_plan (each key's batch,
+// numbered from 0: the keys in order, cut into runs of about
+// plumb_batch_rows rows). SET VARIABLE plumb_batch_rows = n chooses the
+// rows per batch instead of memory_limit.
+func (q seriesQuery) planCTEs(bytesPerRow int) string {
+	by := q.byList("")
+	null := make([]string, len(q.by))
+	for i, b := range q.by {
+		null[i] = quoteIdent(b) + " IS NULL"
+	}
+	return fmt.Sprintf(`%[1]s, plumb_keys AS MATERIALIZED (
+    SELECT %[2]s, count(*) AS plumb_rows, (%[3]s) AS plumb_null_key
+    FROM plumb_input
+    GROUP BY %[2]s%[4]s
+), plumb_plan AS MATERIALIZED (
+    SELECT %[2]s, plumb_rows, plumb_null_key, dense_rank() OVER (ORDER BY plumb_start // plumb_batch_rows) - 1 AS plumb_batch
+    FROM (
+        SELECT *, sum(plumb_rows) OVER (ORDER BY %[2]s ROWS BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW) - plumb_rows AS plumb_start
+        FROM plumb_keys
+    ), (
+        SELECT CASE WHEN getvariable('plumb_batch_rows') IS NULL
+                    THEN plumb_batch_rows(current_setting('memory_limit'), current_setting('threads')::BIGINT,
+                                          count(*), sum(plumb_rows)::BIGINT, %[5]d, %[6]d)
+                    ELSE greatest(getvariable('plumb_batch_rows')::BIGINT, 1) END AS plumb_batch_rows
+        FROM plumb_keys
+    )
+)`, q.inputCTE(), by, strings.Join(null, " OR "), q.shardFilter(), bytesPerRow, q.chunkBytes())
+}
+
 // batchedCTEs returns a WITH RECURSIVE clause whose last table, plumb_done,
 // holds the rows perGroup makes of the groups of the source, gathered a
-// batch at a time. perGroup is a SELECT over plumb_series (seriesCTEs) that
-// returns at most one row per group; bytesPerRow is what a batch needs per
-// source row (gatherBytesPerRow or rowBytes). The caller appends its
-// own CTEs and final SELECT over plumb_done.
+// batch at a time (planCTEs). perGroup is a SELECT over plumb_series
+// (seriesCTEs) that returns at most one row per group; bytesPerRow is what
+// a batch needs per source row (gatherBytesPerRow or rowBytes). The caller
+// appends its own CTEs and final SELECT over plumb_done.
 //
 // plumb_batches holds, for each batch, one row per group with perGroup's
 // row packed in plumb_row, and one marker row (plumb_marker) that carries
@@ -190,39 +229,22 @@ func parseBytes(s string) (float64, error) {
 // DuckDB then runs perGroup's Go function on all its threads, where after a
 // GROUP BY it would often use one.
 func (q seriesQuery) batchedCTEs(perGroup string, bytesPerRow int) string {
-	by := q.byList("")
 	equal := make([]string, len(q.by))
 	same := make([]string, len(q.by))
-	null := make([]string, len(q.by))
 	for i, b := range q.by {
 		c := quoteIdent(b)
 		equal[i] = fmt.Sprintf("plumb_input.%[1]s = plumb_k.%[1]s", c)
 		same[i] = fmt.Sprintf("plumb_input.%[1]s IS NOT DISTINCT FROM plumb_k.%[1]s", c)
-		null[i] = c + " IS NULL"
 	}
-	return fmt.Sprintf(`WITH RECURSIVE %[1]s, plumb_keys AS MATERIALIZED (
-    SELECT %[2]s, count(*) AS plumb_rows, %[3]s AS plumb_null_key
-    FROM plumb_input
-    GROUP BY %[2]s%[4]s
-), plumb_plan AS MATERIALIZED (
-    SELECT %[2]s, plumb_rows, plumb_null_key, dense_rank() OVER (ORDER BY plumb_start // plumb_batch_rows) - 1 AS plumb_batch
-    FROM (
-        SELECT *, sum(plumb_rows) OVER (ORDER BY %[2]s ROWS BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW) - plumb_rows AS plumb_start
-        FROM plumb_keys
-    ), (
-        SELECT plumb_batch_rows(current_setting('memory_limit'), current_setting('threads')::BIGINT,
-                                count(*), sum(plumb_rows)::BIGINT, %[5]d, %[11]d) AS plumb_batch_rows
-        FROM plumb_keys
-    )
-), plumb_batches AS (
+	return fmt.Sprintf(`WITH RECURSIVE %[1]s, plumb_batches AS (
     SELECT -1::BIGINT AS plumb_batch, (SELECT count(DISTINCT plumb_batch) FROM plumb_plan) AS plumb_batch_count,
            true AS plumb_marker, plumb_out AS plumb_row
     FROM (
-        WITH %[6]s, plumb_series AS (
+        WITH %[2]s, plumb_series AS (
             SELECT plumb_no_series.* FROM (SELECT 1) AS plumb_one(plumb_x) LEFT JOIN plumb_no_series ON false
         )
         SELECT * FROM (
-            %[8]s
+            %[4]s
         ) LIMIT 1
     ) AS plumb_out
     UNION ALL (
@@ -234,12 +256,12 @@ func (q seriesQuery) batchedCTEs(perGroup string, bytesPerRow int) string {
             SELECT plumb_plan.* FROM plumb_plan JOIN plumb_next USING (plumb_batch)
         ), plumb_batch_input AS (
             SELECT plumb_input.*, plumb_k.plumb_rows AS plumb_counted
-            FROM plumb_input JOIN (FROM plumb_batch_keys WHERE NOT plumb_null_key) AS plumb_k ON %[9]s
+            FROM plumb_input JOIN (FROM plumb_batch_keys WHERE NOT plumb_null_key) AS plumb_k ON %[5]s
             UNION ALL
             SELECT plumb_input.*, plumb_k.plumb_rows AS plumb_counted
-            FROM plumb_input JOIN (FROM plumb_batch_keys WHERE plumb_null_key) AS plumb_k ON %[10]s
-        ), %[7]s, plumb_out AS MATERIALIZED (
-            %[8]s
+            FROM plumb_input JOIN (FROM plumb_batch_keys WHERE plumb_null_key) AS plumb_k ON %[6]s
+        ), %[3]s, plumb_out AS MATERIALIZED (
+            %[4]s
         )
         SELECT plumb_next.plumb_batch, plumb_next.plumb_batch_count, false, plumb_out FROM plumb_out, plumb_next
         UNION ALL
@@ -247,7 +269,8 @@ func (q seriesQuery) batchedCTEs(perGroup string, bytesPerRow int) string {
     )
 ), plumb_done AS (
     SELECT plumb_row.* FROM plumb_batches WHERE NOT plumb_marker
-)`, q.inputCTE(), by, "("+strings.Join(null, " OR ")+")", q.shardFilter(), bytesPerRow,
-		q.seriesCTEs("(SELECT *, NULL::BIGINT AS plumb_counted FROM plumb_input LIMIT 0)", "plumb_no_series"), q.seriesCTEs("plumb_batch_input", "plumb_series"),
-		perGroup, strings.Join(equal, " AND "), strings.Join(same, " AND "), q.chunkBytes())
+)`, q.planCTEs(bytesPerRow),
+		q.seriesCTEs("(SELECT *, NULL::BIGINT AS plumb_counted FROM plumb_input LIMIT 0)", "plumb_no_series"),
+		q.seriesCTEs("plumb_batch_input", "plumb_series"),
+		perGroup, strings.Join(equal, " AND "), strings.Join(same, " AND "))
 }

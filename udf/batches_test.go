@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"math"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -41,18 +42,18 @@ func TestBatchRows(t *testing.T) {
 		budget batchBudget
 		want   int64
 	}{
-		// (2e9 - 40 MiB) * 0.6 / 32: no groups, no chunks
-		{batchBudget{limit: 2e9, threads: 2, perRow: gatherBytesPerRow}, 36713568},
+		// (2e9 - 40 MiB) * 0.6 / 64: no groups, no chunks
+		{batchBudget{limit: 2e9, threads: 2, perRow: gatherBytesPerRow}, 18356784},
 		// 1,000,000 groups of 365 rows on 2 threads: chunks of 2 × 2048 × 365 × 24 bytes;
-		// (2e9 - 40 MiB - 35,880,960) * 0.6 / 32 = 36040800
-		{batchBudget{limit: 2e9, threads: 2, groups: 1e6, rows: 365e6, perRow: gatherBytesPerRow, chunkPerRow: 24}, 36040800},
-		// 4e9 would allow 74213568 rows: the cap
-		{batchBudget{limit: 4e9, threads: 2, perRow: gatherBytesPerRow}, batchRowsCap},
+		// (2e9 - 40 MiB - 35,880,960) * 0.6 / 64 = 18020400
+		{batchBudget{limit: 2e9, threads: 2, groups: 1e6, rows: 365e6, perRow: gatherBytesPerRow, chunkPerRow: 24}, 18020400},
+		// 8e9 would allow 74606784 rows: the cap
+		{batchBudget{limit: 8e9, threads: 2, perRow: gatherBytesPerRow}, batchRowsCap},
 		// 10 groups of 100 rows: the chunks hold the 10 groups only, 2 × 10 × 100 × 48 bytes;
-		// (100 MiB - 40 MiB - 96,000) * 0.6 / (32 + 4 * 24) = 294462
-		{batchBudget{limit: 100 << 20, threads: 2, groups: 10, rows: 1000, perRow: rowBytes(4), chunkPerRow: 48}, 294462},
-		// the reserve and the chunks leave less than a tenth: a tenth, 6.4 MiB * 0.6 / 32
-		{batchBudget{limit: 64 << 20, threads: 2, groups: 1e4, rows: 1e7, perRow: gatherBytesPerRow, chunkPerRow: 48}, 125829},
+		// (100 MiB - 40 MiB - 96,000) * 0.6 / (64 + 4 * 24) = 235569
+		{batchBudget{limit: 100 << 20, threads: 2, groups: 10, rows: 1000, perRow: rowBytes(4), chunkPerRow: 48}, 235569},
+		// the reserve and the chunks leave less than a tenth: a tenth, 6.4 MiB * 0.6 / 64
+		{batchBudget{limit: 64 << 20, threads: 2, groups: 1e4, rows: 1e7, perRow: gatherBytesPerRow, chunkPerRow: 48}, 62914},
 		{batchBudget{limit: 1, threads: 1, perRow: gatherBytesPerRow}, 1}, // at least one row
 		{batchBudget{limit: 1e20, threads: 1, perRow: 1}, batchRowsCap},   // at most the cap
 	} {
@@ -142,6 +143,18 @@ func sameRows(t *testing.T, what string, got, want []string) {
 	}
 }
 
+// batchCount is a query for the number of batches a table function cuts a
+// source (a FROM item) into: diagnose when points is set, the functions
+// that return rows (rowBytes(lists)) otherwise.
+func batchCount(source string, by []string, at, value string, points bool, lists int) string {
+	q := seriesQuery{function: "diagnose", source: source, by: by, at: at, value: value, points: points}
+	perRow := gatherBytesPerRow
+	if !points {
+		perRow = rowBytes(lists)
+	}
+	return "WITH RECURSIVE " + q.planCTEs(perRow) + " SELECT count(DISTINCT plumb_batch) FROM plumb_plan"
+}
+
 // rowsDigest runs q and returns its number of rows and the sum of the
 // hashes of its rows (DuckDB's hash of the row as a STRUCT, which hashes a
 // DOUBLE by its bits): two results with the same rows in any order have the
@@ -178,16 +191,13 @@ func TestBatchesEqualUnlimited(t *testing.T) {
 	}
 	defer limited.Close()
 	limited.SetMaxOpenConns(1)
-	var batches [2]int
-	q := fmt.Sprintf(`SELECT ceil(%[1]d / plumb_batch_rows(current_setting('memory_limit'), 2, 8000, %[1]d, %[2]d, 24)),
-	                         ceil(%[1]d / plumb_batch_rows(current_setting('memory_limit'), 2, 8000, %[1]d, %[3]d, 48))`, rows, gatherBytesPerRow, rowBytes(2))
-	if err := limited.QueryRow(q).Scan(&batches[0], &batches[1]); err != nil {
-		t.Fatal(err)
-	}
-	t.Logf("%d rows in 8000 groups; under memory_limit = '100MB' at least %d batches for diagnose, %d or more for the functions that return rows",
-		rows, batches[0], batches[1])
-	if batches[0] < 3 {
-		t.Fatalf("the panel fits in %d batches; the test needs several", batches[0])
+	by := []string{"store", "sku"}
+	batches := queryString(t, limited, batchCount("'"+shuffled+"'", by, "day", "units", true, 0))
+	rowBatches := queryString(t, limited, batchCount("'"+sorted+"'", by, "day", "units", false, 3))
+	t.Logf("%d rows in 8000 groups; under memory_limit = '100MB' diagnose takes %s batches, differenced %s",
+		rows, batches, rowBatches)
+	if n, _ := strconv.Atoi(batches); n < 3 {
+		t.Fatalf("the panel fits in %s batches; the test needs several", batches)
 	}
 
 	args := `by := ['store', 'sku'], at := 'day', value := 'units'`
@@ -228,5 +238,29 @@ func TestUnsteadySourceFails(t *testing.T) {
 		if msg := queryError(t, db, q); !strings.Contains(msg, "reads its source more than once") {
 			t.Errorf("%s: %s", function, msg)
 		}
+	}
+}
+
+// TestBatchRowsVariable: SET VARIABLE plumb_batch_rows chooses the batch
+// size; the rows stay the same.
+func TestBatchRowsVariable(t *testing.T) {
+	db := openTest(t)
+	exec(t, db, `CREATE TABLE s AS SELECT 'g' || (i % 40) AS g, i // 40 AS t, sin(i) + (i % 7) * (i // 40) / 100 AS v FROM range(40000) r(i)`)
+	q := `FROM diagnose('s', by := 'g', at := 't', value := 'v')`
+	want := textRows(t, db, q)
+	for _, test := range []struct {
+		rows    string
+		batches string
+	}{
+		{"NULL", "1"},  // unset: 40,000 rows fit one batch under DuckDB's default memory_limit
+		{"1000", "40"}, // the 40 groups have 1,000 rows each
+		{"5000", "8"},
+		{"0", "40"}, // at least one row a batch: a group a batch
+	} {
+		exec(t, db, "SET VARIABLE plumb_batch_rows = "+test.rows)
+		if got := queryString(t, db, batchCount(`"s"`, []string{"g"}, "t", "v", true, 0)); got != test.batches {
+			t.Errorf("plumb_batch_rows = %s: %s batches, want %s", test.rows, got, test.batches)
+		}
+		sameRows(t, "plumb_batch_rows = "+test.rows, textRows(t, db, q), want)
 	}
 }

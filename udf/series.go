@@ -79,8 +79,9 @@ func (q seriesQuery) inputCTE() string {
 
 // seriesCTEs returns the common table expressions that turn input (a
 // relation with the source's needed columns and plumb_counted, the rows the
-// first pass counted in the row's group) into one row per group, the last
-// of them called name:
+// first pass counted in the row's group; planCTEs) into one row per group,
+// the last of them called name. A group gathered with another number of
+// rows than counted fails (unsteadyError). The rows:
 //
 //	without points: the group columns, plumb_rows, plumb_at (the at values
 //	in order), plumb_raw (the value column in at order, in its own type) and
@@ -93,7 +94,10 @@ func (q seriesQuery) inputCTE() string {
 //	order with v cast to DOUBLE, after checking that at is never NULL.
 //
 // The value column is cast to DOUBLE, so any numeric type works; a column
-// DuckDB cannot cast fails with DuckDB's own conversion message.
+// DuckDB cannot cast fails with DuckDB's own conversion message. The
+// counted rows come with each row rather than by a join after the GROUP BY:
+// DuckDB built that join's hash table from the gathered lists, which took
+// 20% more time and 25% more memory at 10,000 groups × 1,000 rows.
 func (q seriesQuery) seriesCTEs(input, name string) string {
 	if q.points {
 		return q.pointsCTEs(input, name)
