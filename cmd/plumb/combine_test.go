@@ -24,11 +24,19 @@ func TestMain(m *testing.M) {
 	os.Exit(m.Run())
 }
 
-// writeShopPanel writes groups (store, sku) of 100 to 299 daily values each:
-// random walks, weekly patterns and noise, every number a hash of the group
-// and the day.
-func writeShopPanel(t *testing.T, db *sql.DB, path string, groups int) {
+// shopPanel opens an in-memory database and writes to a temporary folder
+// panel.parquet: groups (store, sku) of 100 to 299 daily values each, random
+// walks, weekly patterns and noise, every number a hash of the group and
+// the day. It returns the database, the folder and the file.
+func shopPanel(t *testing.T, groups int) (*sql.DB, string, string) {
 	t.Helper()
+	dir := t.TempDir()
+	db, err := udf.Open(context.Background(), udf.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { db.Close() })
+	path := filepath.Join(dir, "panel.parquet")
 	q := fmt.Sprintf(`COPY (
 		SELECT 'store-' || (g %% 41) AS store, g // 41 AS sku, DATE '2024-01-01' + t::INTEGER AS day,
 		       CASE WHEN g %% 3 = 0 THEN 50 + sum((hash(g, t) %% 1000)::DOUBLE / 1000 - 0.5) OVER (PARTITION BY g ORDER BY t)
@@ -40,6 +48,7 @@ func writeShopPanel(t *testing.T, db *sql.DB, path string, groups int) {
 	if _, err := db.Exec(q); err != nil {
 		t.Fatal(err)
 	}
+	return db, dir, path
 }
 
 // orderedRows returns the rows of q in their order, each as DuckDB's text
@@ -81,14 +90,7 @@ func sameOrderedRows(t *testing.T, what string, got, want []string) {
 // then plumb combine, writes the rows plumb diagnose writes; combine refuses
 // parts that are missing, doubled or not parts at all.
 func TestShardCommandsThenCombine(t *testing.T) {
-	dir := t.TempDir()
-	db, err := udf.Open(context.Background(), udf.Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer db.Close()
-	panel := filepath.Join(dir, "panel.parquet")
-	writeShopPanel(t, db, panel, 500)
+	db, dir, panel := shopPanel(t, 500)
 	parts := filepath.Join(dir, "parts")
 	os.Mkdir(parts, 0o755)
 	flags := []string{"--by", "store,sku", "--at", "day", "--value", "units", "--quiet"}
@@ -145,14 +147,7 @@ func TestDaskExample(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	dir := t.TempDir()
-	db, err := udf.Open(context.Background(), udf.Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer db.Close()
-	panel := filepath.Join(dir, "panel.parquet")
-	writeShopPanel(t, db, panel, 3000)
+	db, dir, panel := shopPanel(t, 3000)
 	out := filepath.Join(dir, "ranked.parquet")
 	cmd := exec.Command(python, "../../examples/distributed/diagnose_on_dask.py", "--local-workers", "2", "--plumb", self,
 		"--source", panel, "--by", "store,sku", "--at", "day", "--value", "units", "--period", "7",
