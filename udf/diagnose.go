@@ -15,7 +15,8 @@ import (
 
 // diagnoseFunctions provides the per-group work and the SQL of
 //
-//	diagnose(source, by := ..., at := ..., value := ..., period := NULL, alpha := 0.05, fill := 'none')
+//	diagnose(source, by := ..., at := ..., value := ..., period := NULL, alpha := 0.05, fill := 'none',
+//	         shard := NULL, shards := NULL)
 //
 // which returns one row per group: the group columns; n, first_at, last_at,
 // gaps (time points missing from the group's usual step), missing (NULL
@@ -23,6 +24,11 @@ import (
 // it; the Ljung-Box p-value of the series after its recommended transform;
 // Benjamini-Hochberg q-values across all groups for each test's p-value;
 // and rank, 1 for the group furthest from stationary.
+//
+// With shard := k, shards := n it judges only the groups of shard k
+// (shard.go) and returns their rows without q-values and rank, with shard
+// and shards columns instead; combine_diagnoses ranks the union of the n
+// parts.
 func diagnoseFunctions(t *types) []*function {
 	fields := append(verdictFields(t),
 		field{"n_used", t.bigint()}, field{"step", t.bigint()},
@@ -74,15 +80,18 @@ func diagnoseFunctions(t *types) []*function {
 		},
 	}, {
 		name:     "plumb_diagnose_sql",
-		params:   []duckdb.TypeInfo{t.varchar(), t.anyType(), t.varchar(), t.varchar(), t.bigint(), t.double(), t.varchar()},
+		params:   []duckdb.TypeInfo{t.varchar(), t.anyType(), t.varchar(), t.varchar(), t.bigint(), t.double(), t.varchar(), t.bigint(), t.bigint()},
 		result:   t.varchar(),
-		nullable: true, // period may be NULL
+		nullable: true, // period, shard and shards may be NULL
 		eval: func(args []driver.Value) (any, error) {
 			q, err := readSeriesQuery("diagnose", args[:4])
 			if err != nil {
 				return nil, err
 			}
 			q.points = true
+			if q.shard, q.shards, err = shardArgs(args[7], args[8]); err != nil {
+				return nil, err
+			}
 			if _, err := stationarityOptions(args[4], args[5]); err != nil {
 				return nil, err
 			}
@@ -188,9 +197,13 @@ func sqlLiteral(v driver.Value) string {
 // diagnoseTests are the p-value columns that get Benjamini-Hochberg q-values.
 var diagnoseTests = []string{"adf", "kpss", "mean", "spread", "ljung_box"}
 
-// diagnoseColumns are the per-group columns of diagnose after the group
-// columns, n, first_at and last_at, in order; status must come first.
-var diagnoseColumns = []string{"status", "reason", "gaps", "missing", "n_used",
+// diagnoseFields are diagnose's columns after the group columns, n,
+// first_at and last_at, in order; status must come first. Each is a field
+// of plumb_diagnose's STRUCT, except shift_at, which the query reads from
+// the group's points (diagnoseSQL). A new column of diagnose's rows is one
+// more name here (and a field of the STRUCT); sharded parts and
+// combine_diagnoses carry it through unchanged.
+var diagnoseFields = []string{"status", "reason", "gaps", "missing", "n_used",
 	"mean_stable", "spread_stable", "seasonal", "stationary", "violations",
 	"mean_cause", "shift_at", "shift_size", "trend_slope", "spread_cause", "seasonal_kind", "second_period",
 	"zero_share", "demand_class", "outliers",
@@ -199,49 +212,74 @@ var diagnoseColumns = []string{"status", "reason", "gaps", "missing", "n_used",
 	"adf_statistic", "adf_p_value", "adf_lags", "kpss_statistic", "kpss_p_value", "kpss_lags",
 	"mean_p_value", "spread_p_value", "ljung_box_p_value"}
 
+// diagnoseSQL judges every group a batch at a time (batchedCTEs), then
+// ranks them (rankedSQL); with shards set it returns the groups of one shard
+// with their raw p-values, for combine_diagnoses. A level shift's shift_at
+// is the at value of the point plumb_diagnose names by its place in the
+// aggregated list (shift_point), in the at column's own type; the verdict
+// is computed in a subquery so that DuckDB calls plumb_diagnose once per
+// group (TestDiagnoseShiftAt counts the calls).
 func diagnoseSQL(q seriesQuery, period, alpha, fill string) string {
 	by := q.byList("")
-	picks := make([]string, len(diagnoseColumns))
-	for i, f := range diagnoseColumns {
+	perGroup := fmt.Sprintf(`SELECT %[1]s, n, first_at, last_at, plumb_d,
+                   CASE WHEN plumb_d.shift_point IS NOT NULL THEN plumb_points[plumb_d.shift_point + 1].t END AS plumb_shift_at
+            FROM (SELECT %[1]s, plumb_points, plumb_rows AS n, plumb_first_at AS first_at, plumb_last_at AS last_at,
+                         plumb_diagnose(plumb_points, %[2]s, %[3]s, %[4]s) AS plumb_d
+                  FROM plumb_series)`, by, period, alpha, fill)
+	picks := make([]string, len(diagnoseFields))
+	for i, f := range diagnoseFields {
 		picks[i] = fmt.Sprintf("plumb_d.%s AS %s", f, f)
 		if f == "shift_at" {
 			picks[i] = "plumb_shift_at AS shift_at"
 		}
 	}
 	picks[0] = q.duplicateAtCheck("plumb_d.status") + " AS status"
-	// The q-values come from one list per test, in the groups' row order,
-	// adjusted in Go (plumb_q_values), unnested beside their positions and
-	// joined back: ten window sorts that carried every column took about
-	// 0.1 s at 10,000 groups, single-threaded.
+	judged := fmt.Sprintf(`, plumb_judged AS (
+    SELECT %s, n, first_at, last_at, %s
+    FROM plumb_done
+)`, by, strings.Join(picks, ", "))
+	if q.shards > 0 {
+		return q.batchedCTEs(perGroup, gatherBytesPerRow) + judged + fmt.Sprintf(`
+SELECT *, %d AS shard, %d AS shards FROM plumb_judged ORDER BY %s`, q.shard, q.shards, by)
+	}
+	return q.batchedCTEs(perGroup, gatherBytesPerRow) + judged + rankedSQL(by)
+}
+
+// rankedSQL finishes diagnose and combine_diagnoses. It follows CTEs that
+// end in plumb_judged, one row per group with the p-value columns of
+// diagnoseTests and score, and adds a Benjamini-Hochberg q-value column per
+// test and rank (1 for the highest score), ordered by rank and then by
+// orderTail (the group columns).
+//
+// The q-values come from one list per test, in the groups' row order,
+// adjusted in Go (plumb_q_values), unnested beside their positions and
+// joined back: ten window sorts that carried every column took about 0.1 s
+// at 10,000 groups, single-threaded.
+func rankedSQL(orderTail string) string {
 	var lists, qs []string
 	for _, test := range diagnoseTests {
 		lists = append(lists, fmt.Sprintf("plumb_q_values(list(%[1]s_p_value ORDER BY plumb_row)) AS %[1]s", test))
 		qs = append(qs, fmt.Sprintf("unnest(%[1]s) AS %[1]s_q_value", test))
 	}
-	return fmt.Sprintf(`WITH %[1]s, plumb_judged AS MATERIALIZED (
-    SELECT %[2]s, n, first_at, last_at, plumb_d,
-           CASE WHEN plumb_d.shift_point IS NOT NULL THEN plumb_points[plumb_d.shift_point + 1].t END AS plumb_shift_at
-    FROM (SELECT %[2]s, plumb_points, plumb_rows AS n, plumb_first_at AS first_at, plumb_last_at AS last_at,
-                 plumb_diagnose(plumb_points, %[3]s, %[4]s, %[5]s) AS plumb_d
-          FROM plumb_series)
-), plumb_flat AS MATERIALIZED (
-    SELECT %[2]s, n, first_at, last_at, %[6]s, row_number() OVER () AS plumb_row
-    FROM plumb_judged
+	return fmt.Sprintf(`, plumb_numbered AS MATERIALIZED (
+    SELECT *, row_number() OVER () AS plumb_row FROM plumb_judged
 ), plumb_lists AS (
-    SELECT count(*) AS plumb_count, %[7]s
-    FROM plumb_flat
+    SELECT count(*) AS plumb_count, %[1]s
+    FROM plumb_numbered
 ), plumb_q AS (
-    SELECT unnest(range(1, plumb_count + 1)) AS plumb_row, %[8]s
+    SELECT unnest(range(1, plumb_count + 1)) AS plumb_row, %[2]s
     FROM plumb_lists
 )
-SELECT plumb_flat.* EXCLUDE (plumb_row), plumb_q.* EXCLUDE (plumb_row),
-       rank() OVER (ORDER BY score DESC NULLS LAST) AS rank
-FROM plumb_flat JOIN plumb_q USING (plumb_row)
-ORDER BY rank, %[2]s`, q.groupsCTE(), by, period, alpha, fill,
-		strings.Join(picks, ", "), strings.Join(lists, ",\n           "), strings.Join(qs, ",\n       "))
+SELECT * FROM (
+    SELECT plumb_numbered.* EXCLUDE (plumb_row), plumb_q.* EXCLUDE (plumb_row),
+           rank() OVER (ORDER BY score DESC NULLS LAST) AS rank
+    FROM plumb_numbered JOIN plumb_q USING (plumb_row)
+)
+ORDER BY rank, %[3]s`, strings.Join(lists, ",\n           "), strings.Join(qs, ",\n       "), orderTail)
 }
 
 const diagnoseMacro = `
-CREATE OR REPLACE TEMP MACRO diagnose(source, "by", "at", value, period := NULL, alpha := 0.05, fill := 'none') AS TABLE
-    FROM query(plumb_diagnose_sql(source, "by", "at", value, period::BIGINT, alpha::DOUBLE, fill));
+CREATE OR REPLACE TEMP MACRO diagnose(source, "by", "at", value, period := NULL, alpha := 0.05, fill := 'none',
+                                      shard := NULL, shards := NULL) AS TABLE
+    FROM query(plumb_diagnose_sql(source, "by", "at", value, period::BIGINT, alpha::DOUBLE, fill, shard::BIGINT, shards::BIGINT));
 `

@@ -43,13 +43,16 @@ func differencedFunctions(t *types) []*function {
 }
 
 func differencedSQL(q seriesQuery, lag, times int) string {
-	return fmt.Sprintf(`WITH %[1]s
-SELECT %[2]s,
-       unnest(plumb_at) AS %[3]s,
-       unnest(plumb_raw) AS %[4]s,
-       unnest(list_concat(list_resize([]::DOUBLE[], least(%[5]d, len(plumb_value))),
-                          plumb_difference(plumb_value, %[6]d, %[7]d))) AS differenced_value
-FROM plumb_series`, q.groupsCTE(), q.byList(""), quoteIdent(q.at), quoteIdent(q.value), lag*times, lag, times)
+	perGroup := fmt.Sprintf(`SELECT %[1]s, plumb_at, plumb_raw,
+                   list_concat(list_resize([]::DOUBLE[], least(%[2]d, len(plumb_value))),
+                               plumb_difference(plumb_value, %[3]d, %[4]d)) AS plumb_differenced
+            FROM plumb_series`, q.byList(""), lag*times, lag, times)
+	return q.batchedCTEs(perGroup, rowBytes(3)) + fmt.Sprintf(`
+SELECT %[1]s,
+       unnest(plumb_at) AS %[2]s,
+       unnest(plumb_raw) AS %[3]s,
+       unnest(plumb_differenced) AS differenced_value
+FROM plumb_done`, q.byList(""), quoteIdent(q.at), quoteIdent(q.value))
 }
 
 // readSeriesQuery reads the four arguments every table function starts with:

@@ -11,7 +11,8 @@
 // Table functions (differenced, diagnose, ...) are TEMP table macros over
 // query(plumb_<name>_sql(...)): a Go scalar function writes the SELECT, with
 // every identifier quoted, and DuckDB scans, groups, orders and runs it on its
-// own threads. Because they are macros, they see the caller's TEMP tables and
-// open transaction. Macros are TEMP so that a database file opened by plumb is
+// own threads, a batch of groups at a time so that it completes under
+// memory_limit (batches.go). Because they are macros, they see the caller's
+// TEMP tables and open transaction. Macros are TEMP so that a database file opened by plumb is
 // never written with definitions that plain DuckDB could not run.
 package udf

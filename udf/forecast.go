@@ -306,37 +306,41 @@ func timeAt(at []int64, reg stats.Regular, i int) int64 {
 
 // forecastSQL is the query behind forecast (models false) and
 // forecast_models (models true); literals are the options as SQL, in
-// plumb_forecast's order.
+// plumb_forecast's order. Groups are forecast a batch at a time
+// (batchedCTEs), so forecast completes under memory_limit as diagnose does.
 func forecastSQL(q seriesQuery, literals []string, models bool) string {
 	by := q.byList("")
-	base := fmt.Sprintf(`WITH %[1]s, plumb_fc AS MATERIALIZED (
-    SELECT %[2]s, plumb_first_at, plumb_forecast(plumb_points, %[3]s) AS plumb_f FROM plumb_series
-)
-`, q.groupsCTE(), by, joinLiterals(literals))
 	status := q.duplicateAtCheck("plumb_f.status")
 	if models {
-		return base + fmt.Sprintf(`SELECT %[1]s, %[2]s AS status, plumb_f.reason AS reason,
-       plumb_f.mean_cause AS mean_cause, plumb_f.seasonal_kind AS seasonal_kind, plumb_f.period AS period,
-       plumb_f.box_cox_lambda AS box_cox_lambda, plumb_f.seasonal_differences AS seasonal_differences,
-       plumb_f.differences AS differences, plumb_f.ar_order AS ar_order, plumb_f.ar_constant AS ar_constant,
-       plumb_f.ar_coefficients AS ar_coefficients, plumb_f.residual_variance AS residual_variance,
-       plumb_f.nobs AS nobs, plumb_f.aic AS aic, plumb_f.ljung_box_p_value AS ljung_box_p_value,
-       plumb_f.mase AS mase, plumb_f.interval_coverage AS interval_coverage
-FROM plumb_fc
-ORDER BY %[1]s`, by, status)
+		perGroup := fmt.Sprintf(`SELECT %[1]s, %[3]s AS status, plumb_f.reason AS reason,
+                   plumb_f.mean_cause AS mean_cause, plumb_f.seasonal_kind AS seasonal_kind, plumb_f.period AS period,
+                   plumb_f.box_cox_lambda AS box_cox_lambda, plumb_f.seasonal_differences AS seasonal_differences,
+                   plumb_f.differences AS differences, plumb_f.ar_order AS ar_order, plumb_f.ar_constant AS ar_constant,
+                   plumb_f.ar_coefficients AS ar_coefficients, plumb_f.residual_variance AS residual_variance,
+                   plumb_f.nobs AS nobs, plumb_f.aic AS aic, plumb_f.ljung_box_p_value AS ljung_box_p_value,
+                   plumb_f.mase AS mase, plumb_f.interval_coverage AS interval_coverage
+            FROM (SELECT %[1]s, plumb_forecast(plumb_points, %[2]s) AS plumb_f FROM plumb_series)`,
+			by, joinLiterals(literals), status)
+		return q.batchedCTEs(perGroup, gatherBytesPerRow) + fmt.Sprintf("\nFROM plumb_done\nORDER BY %s", by)
 	}
-	actual := ""
+	perGroup := fmt.Sprintf(`SELECT %[1]s, plumb_first_at, %[3]s AS status, plumb_f.offsets AS plumb_offsets,
+                   plumb_f.forecast AS plumb_forecasts, plumb_f.lower AS plumb_lower, plumb_f.upper AS plumb_upper,
+                   plumb_f.actual AS plumb_actual
+            FROM (SELECT %[1]s, plumb_first_at, plumb_forecast(plumb_points, %[2]s) AS plumb_f FROM plumb_series)`,
+		by, joinLiterals(literals), status)
+	actual, actualOut := "", ""
 	if literals[5] != "NULL" && literals[5] != "0" {
-		actual = ", unnest(plumb_f.actual) AS actual"
+		actual, actualOut = ", unnest(plumb_actual) AS actual", ", actual"
 	}
-	return base + fmt.Sprintf(`SELECT %[1]s, plumb_advance(plumb_first_at, plumb_offset::BIGINT, 1) AS %[2]s, step, forecast, lower, upper%[3]s, status
+	return q.batchedCTEs(perGroup, gatherBytesPerRow) + fmt.Sprintf(`
+SELECT %[1]s, plumb_advance(plumb_first_at, plumb_offset::BIGINT, 1) AS %[2]s, step, forecast, lower, upper%[3]s, status
 FROM (
-    SELECT %[1]s, plumb_first_at, %[4]s AS status,
-           unnest(plumb_f.offsets) AS plumb_offset, unnest(range(1, len(plumb_f.forecast) + 1)) AS step,
-           unnest(plumb_f.forecast) AS forecast, unnest(plumb_f.lower) AS lower, unnest(plumb_f.upper) AS upper%[5]s
-    FROM plumb_fc
+    SELECT %[1]s, plumb_first_at, status,
+           unnest(plumb_offsets) AS plumb_offset, unnest(range(1, len(plumb_forecasts) + 1)) AS step,
+           unnest(plumb_forecasts) AS forecast, unnest(plumb_lower) AS lower, unnest(plumb_upper) AS upper%[4]s
+    FROM plumb_done
 )
-ORDER BY %[1]s, step`, by, quoteIdent(q.at), map[bool]string{true: ", actual", false: ""}[actual != ""], status, actual)
+ORDER BY %[1]s, step`, by, quoteIdent(q.at), actualOut, actual)
 }
 
 func joinLiterals(l []string) string {

@@ -113,6 +113,8 @@ func allFunctions() ([]*function, error) {
 		rollingDispersionFunctions(t),
 		stationarizeFunctions(t),
 		forecastFunctions(t),
+		batchFunctions(t),
+		shardFunctions(t),
 	} {
 		all = append(all, group...)
 	}
@@ -131,6 +133,7 @@ var macros = strings.Join([]string{
 	rollingDispersionMacro,
 	stationarizeMacros,
 	forecastMacros,
+	shardMacros,
 }, "\n")
 
 // createMacros creates plumb's TEMP macros on one connection.

@@ -88,6 +88,7 @@ func TestOpenRegistersEverything(t *testing.T) {
 		"stationarity": "macro", "outlier_positions": "macro", "demand_profile": "macro", "zivot_andrews": "macro", "mean_break": "macro", "diagnose": "table_macro", "rolling_dispersion": "table_macro",
 		"stationarize": "table_macro", "stationarize_recipes": "table_macro", "restore": "table_macro",
 		"forecast": "table_macro", "forecast_models": "table_macro",
+		"combine_diagnoses": "table_macro",
 	} {
 		if got[name] != kind {
 			t.Errorf("%s: registered as %q, want %q", name, got[name], kind)

@@ -49,13 +49,14 @@ func rollingDispersionFunctions(t *types) []*function {
 			if width < 2 {
 				return nil, fmt.Errorf("width must be at least 2, got %d", width)
 			}
-			return fmt.Sprintf(`WITH %[1]s
-SELECT %[2]s, unnest(plumb_at) AS %[3]s, unnest(plumb_raw) AS %[4]s,
+			perGroup := fmt.Sprintf(`SELECT %[1]s, plumb_at, plumb_raw, plumb_rolling(plumb_value, %[2]d) AS plumb_r
+            FROM plumb_series`, q.byList(""), width)
+			return q.batchedCTEs(perGroup, rowBytes(7)) + fmt.Sprintf(`
+SELECT %[1]s, unnest(plumb_at) AS %[2]s, unnest(plumb_raw) AS %[3]s,
        unnest(plumb_r.mean) AS rolling_mean, unnest(plumb_r.sd) AS rolling_sd,
        unnest(plumb_r.mean_ratio) AS mean_ratio, unnest(plumb_r.sd_ratio) AS sd_ratio,
        unnest(plumb_r.mean_deviation) AS mean_deviation
-FROM (SELECT *, plumb_rolling(plumb_value, %[5]d) AS plumb_r FROM plumb_series)`,
-				q.groupsCTE(), q.byList(""), quoteIdent(q.at), quoteIdent(q.value), width), nil
+FROM plumb_done`, q.byList(""), quoteIdent(q.at), quoteIdent(q.value)), nil
 		},
 	}}
 }

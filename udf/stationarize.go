@@ -305,27 +305,28 @@ func restoreGroup(args []driver.Value) (any, error) {
 }
 
 func stationarizeSQL(q seriesQuery, period, alpha string, recipes bool) string {
-	base := fmt.Sprintf(`WITH %[1]s, plumb_done AS (
-    SELECT *, plumb_stationarize(plumb_value, %[2]s, %[3]s) AS plumb_s FROM plumb_series
-)
-`, q.groupsCTE(), period, alpha)
 	if recipes {
 		// step is the usual step between consecutive times, in the at
 		// column's own arithmetic (days for a DATE, an INTERVAL for a
 		// TIMESTAMP, a number for a number): restore checks forecasts with it.
-		return base + fmt.Sprintf(`SELECT %[1]s, len(plumb_at) AS n, plumb_at[len(plumb_at)] AS last_at,
-       list_mode([plumb_at[i + 1] - plumb_at[i] FOR i IN range(1, len(plumb_at))]) AS step,
-       plumb_s.status AS status,
-       plumb_s.box_cox_lambda AS box_cox_lambda, plumb_s.period AS period,
-       plumb_s.seasonal_means AS seasonal_means, plumb_s.seasonal_differences AS seasonal_differences,
-       plumb_s.trend_intercept AS trend_intercept, plumb_s.trend_slope AS trend_slope,
-       plumb_s.shift_position AS shift_position, plumb_at[plumb_s.shift_position] AS shift_at,
-       plumb_s.shift_size AS shift_size,
-       plumb_s.differences AS differences, plumb_s.head AS head, plumb_s.tail AS tail
-FROM plumb_done`, q.byList(""))
+		perGroup := fmt.Sprintf(`SELECT %[1]s, len(plumb_at) AS n, plumb_at[len(plumb_at)] AS last_at,
+                   list_mode([plumb_at[i + 1] - plumb_at[i] FOR i IN range(1, len(plumb_at))]) AS step,
+                   plumb_s.status AS status,
+                   plumb_s.box_cox_lambda AS box_cox_lambda, plumb_s.period AS period,
+                   plumb_s.seasonal_means AS seasonal_means, plumb_s.seasonal_differences AS seasonal_differences,
+                   plumb_s.trend_intercept AS trend_intercept, plumb_s.trend_slope AS trend_slope,
+                   plumb_s.shift_position AS shift_position, plumb_at[plumb_s.shift_position] AS shift_at,
+                   plumb_s.shift_size AS shift_size,
+                   plumb_s.differences AS differences, plumb_s.head AS head, plumb_s.tail AS tail
+            FROM (SELECT *, plumb_stationarize(plumb_value, %[2]s, %[3]s) AS plumb_s FROM plumb_series)`,
+			q.byList(""), period, alpha)
+		return q.batchedCTEs(perGroup, gatherBytesPerRow) + "\nFROM plumb_done"
 	}
-	return base + fmt.Sprintf(`SELECT %[1]s, unnest(plumb_at) AS %[2]s, unnest(plumb_raw) AS %[3]s,
-       unnest(coalesce(plumb_s.values, list_resize([]::DOUBLE[], len(plumb_at)))) AS stationary_value
+	perGroup := fmt.Sprintf(`SELECT %[1]s, plumb_at, plumb_raw,
+                   coalesce(plumb_stationarize(plumb_value, %[2]s, %[3]s).values, list_resize([]::DOUBLE[], len(plumb_at))) AS plumb_stationary
+            FROM plumb_series`, q.byList(""), period, alpha)
+	return q.batchedCTEs(perGroup, rowBytes(3)) + fmt.Sprintf(`
+SELECT %[1]s, unnest(plumb_at) AS %[2]s, unnest(plumb_raw) AS %[3]s, unnest(plumb_stationary) AS stationary_value
 FROM plumb_done`, q.byList(""), quoteIdent(q.at), quoteIdent(q.value))
 }
 
@@ -341,31 +342,31 @@ func restoreSQL(q seriesQuery, recipes, anchor string) string {
 	for i, b := range q.by {
 		join[i] = fmt.Sprintf("plumb_r.%[1]s IS NOT DISTINCT FROM plumb_series.%[1]s", quoteIdent(b))
 	}
-	on := strings.Join(join, " AND ")
 	label := q.groupLabelOf("plumb_series.")
 	name := quoteLiteral("restore: ")
 	check := fmt.Sprintf(`WHEN len(plumb_at) <> plumb_r.n THEN
-               error(%[1]s || 'group ' || %[2]s || ' has ' || len(plumb_at) || ' values, but its recipe was made from a series of ' || plumb_r.n)`, name, label)
+                       error(%[1]s || 'group ' || %[2]s || ' has ' || len(plumb_at) || ' values, but its recipe was made from a series of ' || plumb_r.n)`, name, label)
 	if anchor == "last" {
 		check = fmt.Sprintf(`WHEN plumb_at[1] - plumb_r.last_at <> plumb_r.step THEN
-               error(%[1]s || 'the forecasts of group ' || %[2]s || ' start at ' || plumb_at[1]::VARCHAR || ', but must start one step after the last observation (' || plumb_r.last_at::VARCHAR || ' + ' || plumb_r.step::VARCHAR || ')')
-           WHEN len(plumb_at) > 1 AND (list_min(plumb_steps) <> plumb_r.step OR list_max(plumb_steps) <> plumb_r.step) THEN
-               error(%[1]s || 'the forecasts of group ' || %[2]s || ' do not follow its step of ' || plumb_r.step::VARCHAR || ': restore needs one forecast per step, without gaps')`, name, label)
+                       error(%[1]s || 'the forecasts of group ' || %[2]s || ' start at ' || plumb_at[1]::VARCHAR || ', but must start one step after the last observation (' || plumb_r.last_at::VARCHAR || ' + ' || plumb_r.step::VARCHAR || ')')
+                   WHEN len(plumb_at) > 1 AND (list_min(plumb_steps) <> plumb_r.step OR list_max(plumb_steps) <> plumb_r.step) THEN
+                       error(%[1]s || 'the forecasts of group ' || %[2]s || ' do not follow its step of ' || plumb_r.step::VARCHAR || ': restore needs one forecast per step, without gaps')`, name, label)
 	}
-	return fmt.Sprintf(`WITH %[1]s, plumb_steps AS (
-    SELECT *, [plumb_at[i + 1] - plumb_at[i] FOR i IN range(1, len(plumb_at))] AS plumb_steps FROM plumb_series
-)
-SELECT %[2]s, unnest(plumb_at) AS %[3]s,
-       unnest(CASE
-           WHEN plumb_r.differences IS NULL THEN list_resize([]::DOUBLE[], len(plumb_at))
-           %[8]s
-           ELSE plumb_restore(plumb_value, plumb_r.box_cox_lambda, plumb_r.period, plumb_r.seasonal_means,
-                              plumb_r.seasonal_differences, plumb_r.trend_intercept, plumb_r.trend_slope,
-                              plumb_r.shift_position, plumb_r.shift_size, plumb_r.differences,
-                              plumb_r.head, plumb_r.tail, plumb_r.n, %[4]s)
-       END) AS %[5]s
-FROM plumb_steps AS plumb_series LEFT JOIN %[6]s AS plumb_r ON %[7]s`,
-		q.groupsCTE(), q.byList("plumb_series."), quoteIdent(q.at), quoteLiteral(anchor), quoteIdent(q.value), recipes, on, check)
+	perGroup := fmt.Sprintf(`SELECT %[1]s, plumb_at,
+                   CASE
+                   WHEN plumb_r.differences IS NULL THEN list_resize([]::DOUBLE[], len(plumb_at))
+                   %[5]s
+                   ELSE plumb_restore(plumb_value, plumb_r.box_cox_lambda, plumb_r.period, plumb_r.seasonal_means,
+                                      plumb_r.seasonal_differences, plumb_r.trend_intercept, plumb_r.trend_slope,
+                                      plumb_r.shift_position, plumb_r.shift_size, plumb_r.differences,
+                                      plumb_r.head, plumb_r.tail, plumb_r.n, %[2]s)
+                   END AS plumb_restored
+            FROM (SELECT *, [plumb_at[i + 1] - plumb_at[i] FOR i IN range(1, len(plumb_at))] AS plumb_steps FROM plumb_series) AS plumb_series
+            LEFT JOIN %[3]s AS plumb_r ON %[4]s`,
+		q.byList("plumb_series."), quoteLiteral(anchor), recipes, strings.Join(join, " AND "), check)
+	return q.batchedCTEs(perGroup, rowBytes(2)) + fmt.Sprintf(`
+SELECT %[1]s, unnest(plumb_at) AS %[2]s, unnest(plumb_restored) AS %[3]s
+FROM plumb_done`, q.byList(""), quoteIdent(q.at), quoteIdent(q.value))
 }
 
 const stationarizeMacros = `

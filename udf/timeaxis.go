@@ -62,7 +62,7 @@ func times(v driver.Value) ([]int64, error) {
 
 // timeAxisFunctions provides plumb_repeats(at_list), the number of values
 // of a sorted list of times that equal the one before: the rows that repeat
-// a time point. The table functions' group query (seriesQuery.groupsCTE)
+// a time point. The table functions' group query (seriesQuery.seriesCTEs)
 // fails a group with repeats; counting them here, on the list DuckDB has
 // already ordered, replaced count(DISTINCT at), which cost DuckDB about a
 // second per ten million rows.

@@ -14,15 +14,16 @@ import (
 func newBenchCommand() *cobra.Command {
 	cfg := bench.Config{Groups: 10000, Length: 1000, Dir: "plumb-bench", Reference: 0, Repeats: 3, Layout: bench.LayoutGroup}
 	var phase, file, profile, scalingDir string
-	var generate bool
+	var generate, large bool
 	cmd := &cobra.Command{
 		Use:   "bench",
 		Short: "Time diagnose against DuckDB's own floor (and a reference-library loop) side by side",
 		Long: `Generates a Parquet file of G groups x T observations (reused if present), then
 runs, each in a child process of its own, DuckDB's list(v ORDER BY t) per group
-(the data-movement floor) and plumb's diagnose with default options, and
-prints wall time (the median of --repeat runs), groups per second, peak
-resident memory and the ratio to the floor. With --reference N it also times python3-statsmodels' adfuller and kpss
+(the data-movement floor) and plumb's diagnose with default options (and with
+--memory-limit once more under that limit), and prints wall time (the median
+of --repeat runs), groups per second, peak resident memory and the ratio to
+the floor. With --reference N it also times python3-statsmodels' adfuller and kpss
 over N groups of the same file and extrapolates to all groups.`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
@@ -46,7 +47,7 @@ over N groups of the same file and extrapolates to all groups.`,
 					}
 					defer pprof.StopCPUProfile()
 				}
-				return bench.RunPhase(cmd.Context(), bench.Phase(phase), file, cmd.OutOrStdout())
+				return bench.RunPhase(cmd.Context(), bench.Phase(phase), file, cfg.MemoryLimit, cmd.OutOrStdout())
 			}
 			self, err := os.Executable()
 			if err != nil {
@@ -56,8 +57,16 @@ over N groups of the same file and extrapolates to all groups.`,
 				if err := os.MkdirAll(scalingDir, 0o755); err != nil {
 					return err
 				}
-				_, err := bench.Scaling(cmd.Context(), cfg, self, bench.ScalingGrid, cmd.OutOrStdout(), filepath.Join(scalingDir, "scaling.svg"))
+				if _, err := bench.Scaling(cmd.Context(), cfg, self, bench.ScalingGrid, cmd.OutOrStdout(), filepath.Join(scalingDir, "scaling.svg")); err != nil {
+					return err
+				}
+			}
+			if large {
+				_, err := bench.Large(cmd.Context(), cfg, self, cmd.OutOrStdout())
 				return err
+			}
+			if scalingDir != "" {
+				return nil
 			}
 			_, err = bench.Run(cmd.Context(), cfg, self, cmd.OutOrStdout())
 			return err
@@ -74,6 +83,8 @@ over N groups of the same file and extrapolates to all groups.`,
 	f.StringVar(&file, "file", "", "the Parquet file for --phase")
 	f.StringVar(&scalingDir, "scaling", "", "measure the scaling grid (G of 1k, 10k, 100k at T = 500; T of 100, 1k, 10k at G = 1k), print a Markdown table and draw `DIR`/scaling.svg")
 	f.StringVar(&profile, "cpuprofile", "", "with --phase, write a CPU profile to `FILE`")
+	f.StringVar(&cfg.MemoryLimit, "memory-limit", "", "also run diagnose under DuckDB's memory_limit = `SIZE` (such as 4GB), beside the run with DuckDB's default limit; the data generator keeps to it too")
+	f.BoolVar(&large, "large", false, "measure diagnose at 1,000,000 groups x 365 with DuckDB's default memory limit and under --memory-limit (default 4GB); needs 3 GB of disk for the file and about 12 GB of memory for the unlimited run")
 	f.BoolVar(&generate, "generate", false, "only generate the data file and print its path (used by bench itself)")
 	f.MarkHidden("generate")
 	f.MarkHidden("phase")

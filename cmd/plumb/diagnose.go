@@ -5,6 +5,7 @@ import (
 	"database/sql"
 	"fmt"
 	"path/filepath"
+	"strconv"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -16,10 +17,11 @@ import (
 
 // seriesFlags are the flags plumb diagnose and plumb report share.
 type seriesFlags struct {
-	spec   diagnosis.Spec
-	by     string
-	dbPath string
-	quiet  bool
+	spec        diagnosis.Spec
+	by          string
+	dbPath      string
+	memoryLimit string
+	quiet       bool
 }
 
 func (f *seriesFlags) register(cmd *cobra.Command) {
@@ -31,7 +33,16 @@ func (f *seriesFlags) register(cmd *cobra.Command) {
 	fl.Float64Var(&f.spec.Alpha, "alpha", 0.05, "level of the verdict's tests")
 	fl.StringVar(&f.spec.Fill, "fill", "none", "gaps and missing values: none, linear or previous")
 	fl.StringVar(&f.dbPath, "db", "", "DuckDB database `FILE` holding the source table (default: in memory)")
+	fl.StringVar(&f.memoryLimit, "memory-limit", "", "DuckDB's memory_limit, such as 4GB (default: DuckDB's, 80% of the machine's memory); the groups are taken in batches that fit")
 	fl.BoolVar(&f.quiet, "quiet", false, "no progress display")
+}
+
+// settings are the DuckDB settings the flags ask for.
+func (f *seriesFlags) settings() map[string]string {
+	if f.memoryLimit == "" {
+		return nil
+	}
+	return map[string]string{"memory_limit": f.memoryLimit}
 }
 
 // open opens the database, checks the source and returns a connection.
@@ -43,7 +54,7 @@ func (f *seriesFlags) open(ctx context.Context, source string) (*sql.DB, *sql.Co
 			f.spec.By = append(f.spec.By, b)
 		}
 	}
-	db, err := udf.Open(ctx, udf.Options{Path: f.dbPath, ReadOnly: f.dbPath != ""})
+	db, err := udf.Open(ctx, udf.Options{Path: f.dbPath, ReadOnly: f.dbPath != "", Settings: f.settings()})
 	if err != nil {
 		return nil, nil, err
 	}
@@ -63,17 +74,32 @@ func (f *seriesFlags) open(ctx context.Context, source string) (*sql.DB, *sql.Co
 func newDiagnoseCommand() *cobra.Command {
 	var flags seriesFlags
 	var top int
-	var out string
+	var out, shard string
 	cmd := &cobra.Command{
 		Use:   "diagnose SOURCE --by COLUMNS --at COLUMN --value COLUMN",
 		Short: "Diagnose every group of a source and print the ones furthest from stationary",
 		Long: `Runs the diagnose table function over SOURCE (a Parquet or CSV file or glob, a
 table in --db, or a parenthesised SELECT), prints the top groups as a table,
-and with --out writes every group's row to a .parquet, .csv or .json file.`,
+and with --out writes every group's row to a .parquet, .csv or .json file.
+
+With --shard K/N it diagnoses only the groups of shard K of N (a stable hash
+of the group columns, the same on every machine) and writes them, unranked,
+to the Parquet file --out names; plumb combine ranks the N parts together.`,
 		Example: `  plumb diagnose 'plumb-demo/shops.parquet' --by shop,product --at day --value units --period 7
-  plumb diagnose 'sales/*.parquet' --by store,sku --at day --value units --out ranked.parquet`,
+  plumb diagnose 'sales/*.parquet' --by store,sku --at day --value units --out ranked.parquet
+  plumb diagnose 'sales/*.parquet' --by store,sku --at day --value units --shard 3/8 --out parts/part-3.parquet`,
 		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
+			if shard != "" {
+				k, n, err := parseShard(shard)
+				if err != nil {
+					return err
+				}
+				if strings.ToLower(filepath.Ext(out)) != ".parquet" {
+					return fmt.Errorf("--shard writes a part for plumb combine: name a .parquet file with --out")
+				}
+				flags.spec.Shard, flags.spec.Shards = k, n
+			}
 			ctx := cmd.Context()
 			db, conn, err := flags.open(ctx, args[0])
 			if err != nil {
@@ -88,6 +114,15 @@ and with --out writes every group's row to a .parquet, .csv or .json file.`,
 			if err != nil {
 				return err
 			}
+			if flags.spec.Shards > 0 {
+				// A shard may hold no group; its empty part still tells
+				// plumb combine that the shard was done.
+				if err := writePart(ctx, conn, table, out, flags.spec.Shard, flags.spec.Shards); err != nil {
+					return err
+				}
+				fmt.Fprintf(cmd.OutOrStdout(), "shard %d of %d: %d groups diagnosed, written to %s\n", flags.spec.Shard, flags.spec.Shards, n, out)
+				return nil
+			}
 			if n == 0 {
 				return fmt.Errorf("%s has no rows to diagnose", args[0])
 			}
@@ -96,13 +131,35 @@ and with --out writes every group's row to a .parquet, .csv or .json file.`,
 					return err
 				}
 			}
-			return printTop(ctx, conn, table, flags.spec, top, n, cmd)
+			return printTop(ctx, conn, table, flags.spec.By, top, n, cmd)
 		},
 	}
 	flags.register(cmd)
 	cmd.Flags().IntVar(&top, "top", 20, "print this many groups")
 	cmd.Flags().StringVarP(&out, "out", "o", "", "write every group's row to `FILE` (.parquet, .csv or .json)")
+	cmd.Flags().StringVar(&shard, "shard", "", "diagnose only shard `K/N` (0 <= K < N) and write it, unranked, to --out FILE.parquet for plumb combine")
 	return cmd
+}
+
+// parseShard reads --shard K/N.
+func parseShard(s string) (k, n int, err error) {
+	ks, ns, ok := strings.Cut(s, "/")
+	if ok {
+		k, err = strconv.Atoi(strings.TrimSpace(ks))
+		if err == nil {
+			n, err = strconv.Atoi(strings.TrimSpace(ns))
+		}
+	}
+	if !ok || err != nil {
+		return 0, 0, fmt.Errorf("--shard %s: write the shard as K/N, such as 3/8 for shard 3 of 8", s)
+	}
+	if n < 1 {
+		return 0, 0, fmt.Errorf("--shard %s: the number of shards must be at least 1", s)
+	}
+	if k < 0 || k >= n {
+		return 0, 0, fmt.Errorf("--shard %s: the shard must be between 0 and %d", s, n-1)
+	}
+	return k, n, nil
 }
 
 // writeTable copies a table to a file whose format its extension names.
@@ -119,9 +176,28 @@ func writeTable(ctx context.Context, conn *sql.Conn, table, path string) error {
 	return nil
 }
 
-func printTop(ctx context.Context, conn *sql.Conn, table string, spec diagnosis.Spec, top, n int, cmd *cobra.Command) error {
-	by := make([]string, len(spec.By))
-	for i, b := range spec.By {
+// writePart copies a table of one shard's rows to a Parquet file with the
+// shard's number and count in the file's key-value metadata, where plumb
+// combine checks that every shard is there once.
+func writePart(ctx context.Context, conn *sql.Conn, table, path string, shard, shards int) error {
+	q := fmt.Sprintf("COPY %s TO %s (FORMAT parquet, KV_METADATA {%s: '%d', %s: '%d'})", udf.QuoteIdent(table), udf.QuoteLiteral(path),
+		partShardKey, shard, partShardsKey, shards)
+	if _, err := conn.ExecContext(ctx, q); err != nil {
+		msg, _, _ := strings.Cut(err.Error(), "\n")
+		return fmt.Errorf("write %s: %s", path, msg)
+	}
+	return nil
+}
+
+// The key-value metadata of a part's Parquet file.
+const (
+	partShardKey  = "plumb_shard"
+	partShardsKey = "plumb_shards"
+)
+
+func printTop(ctx context.Context, conn *sql.Conn, table string, groupColumns []string, top, n int, cmd *cobra.Command) error {
+	by := make([]string, len(groupColumns))
+	for i, b := range groupColumns {
 		by[i] = udf.QuoteIdent(b)
 	}
 	q := fmt.Sprintf(`SELECT rank, %s, n, status, array_to_string(violations, ',') AS violations, %s AS causes,

@@ -12,6 +12,6 @@ tests, differencing and its inverse, and table functions over whole sources.`,
 		SilenceUsage:  true,
 		SilenceErrors: true,
 	}
-	root.AddCommand(newDemoCommand(), newQueryCommand(), newDiagnoseCommand(), newForecastCommand(), newReportCommand(), newServeCommand(), newBenchCommand())
+	root.AddCommand(newDemoCommand(), newQueryCommand(), newDiagnoseCommand(), newForecastCommand(), newReportCommand(), newServeCommand(), newBenchCommand(), newCombineCommand())
 	return root
 }

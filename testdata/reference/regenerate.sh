@@ -4,7 +4,9 @@
 #   r-cran-forecast 8.20,
 #   python3-statsmodels 0.13.5 and python3-scipy 1.10.1 (run with
 #   /usr/bin/python3; break_statsmodels.py reads what export_datasets.R and
-#   unit_root_statsmodels.py wrote).
+#   unit_root_statsmodels.py wrote);
+# and, with plain /usr/bin/python3, shard_keys.py (plumb's shard definition
+# written again independently of the Go code).
 # Usage: regenerate.sh [OUT_DIR]   (default: this folder)
 # .ci/run writes into a temporary folder and compares it with the committed
 # files value by value (compare.py).
@@ -21,3 +23,4 @@ Rscript "$here/unit_root_r.R" "$out"
 Rscript "$here/conditions_r.R" "$out"
 /usr/bin/python3 "$here/forecast_statsmodels.py" "$out"
 /usr/bin/python3 "$here/break_statsmodels.py" "$out"
+/usr/bin/python3 "$here/shard_keys.py" "$out"

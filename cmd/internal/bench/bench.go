@@ -36,6 +36,10 @@ type Config struct {
 	// by group, then time) or LayoutTime (by time, then group: a table that
 	// grows by appending each day's rows for every group).
 	Layout string
+	// MemoryLimit, when set, adds a diagnose phase run under DuckDB's
+	// memory_limit = MemoryLimit (such as "4GB") beside the others, and
+	// bounds the data generator's memory too.
+	MemoryLimit string
 }
 
 // The row orders Generate can write.
@@ -56,11 +60,12 @@ const (
 
 // Result is one measured phase.
 type Result struct {
-	Phase   string
-	Wall    time.Duration
-	PeakRSS int64 // bytes
-	Groups  int
-	Note    string
+	Phase       string
+	MemoryLimit string // DuckDB's memory_limit for the run; "" for DuckDB's default
+	Wall        time.Duration
+	PeakRSS     int64 // bytes
+	Groups      int
+	Note        string
 }
 
 // Generate writes G groups of T observations to dir/series_G_T.parquet
@@ -78,7 +83,7 @@ func Generate(ctx context.Context, cfg Config) (string, error) {
 	if err := os.MkdirAll(cfg.Dir, 0o755); err != nil {
 		return "", err
 	}
-	db, err := udf.Open(ctx, udf.Options{})
+	db, err := udf.Open(ctx, udf.Options{Settings: limitSettings(cfg.MemoryLimit)})
 	if err != nil {
 		return "", err
 	}
@@ -127,13 +132,22 @@ func PhaseSQL(p Phase, file string) (string, error) {
 	return "", fmt.Errorf("unknown phase %q", p)
 }
 
-// RunPhase runs one phase in this process and prints "groups values".
-func RunPhase(ctx context.Context, p Phase, file string, w io.Writer) error {
+// limitSettings are the DuckDB settings for a memory limit ("" for none).
+func limitSettings(memoryLimit string) map[string]string {
+	if memoryLimit == "" {
+		return nil
+	}
+	return map[string]string{"memory_limit": memoryLimit}
+}
+
+// RunPhase runs one phase in this process, under DuckDB's memory_limit =
+// memoryLimit unless it is empty, and prints "groups values".
+func RunPhase(ctx context.Context, p Phase, file, memoryLimit string, w io.Writer) error {
 	q, err := PhaseSQL(p, file)
 	if err != nil {
 		return err
 	}
-	db, err := udf.Open(ctx, udf.Options{})
+	db, err := udf.Open(ctx, udf.Options{Settings: limitSettings(memoryLimit)})
 	if err != nil {
 		return err
 	}
@@ -170,28 +184,54 @@ func Measure(ctx context.Context, argv []string) (time.Duration, int64, string, 
 // process's peak RSS over to the children it forks, so the parent must stay
 // small for the children's peaks to be their own.
 func Run(ctx context.Context, cfg Config, self string, w io.Writer) ([]Result, error) {
-	_, _, out, err := Measure(ctx, []string{self, "bench", "--generate", "--groups", strconv.Itoa(cfg.Groups),
-		"--length", strconv.Itoa(cfg.Length), "--dir", cfg.Dir, "--layout", cfg.Layout})
+	return RunPhases(ctx, cfg, self, []Phase{PhaseFloor, PhaseUnitRoot, PhaseDiagnose, PhaseForecast}, w)
+}
+
+// RunPhases is Run with a choice of phases (the first is the one the others
+// are compared with). With cfg.MemoryLimit set, diagnose runs a second time
+// under that limit (Result.MemoryLimit).
+func RunPhases(ctx context.Context, cfg Config, self string, phases []Phase, w io.Writer) ([]Result, error) {
+	gen := []string{self, "bench", "--generate", "--groups", strconv.Itoa(cfg.Groups),
+		"--length", strconv.Itoa(cfg.Length), "--dir", cfg.Dir, "--layout", cfg.Layout}
+	if cfg.MemoryLimit != "" {
+		gen = append(gen, "--memory-limit", cfg.MemoryLimit)
+	}
+	_, _, out, err := Measure(ctx, gen)
 	if err != nil {
 		return nil, err
 	}
 	file := strings.TrimSpace(out)
+	type run struct {
+		phase Phase
+		limit string
+	}
+	var runs []run
+	for _, p := range phases {
+		runs = append(runs, run{p, ""})
+		if p == PhaseDiagnose && cfg.MemoryLimit != "" {
+			runs = append(runs, run{p, cfg.MemoryLimit})
+		}
+	}
 	var results []Result
 	repeats := max(cfg.Repeats, 1)
-	for _, p := range []Phase{PhaseFloor, PhaseUnitRoot, PhaseDiagnose, PhaseForecast} {
-		var runs []Result
+	for _, r := range runs {
+		argv := []string{self, "bench", "--phase", string(r.phase), "--file", file}
+		if r.limit != "" {
+			argv = append(argv, "--memory-limit", r.limit)
+		}
+		var times []Result
 		for range repeats {
-			wall, rss, out, err := Measure(ctx, []string{self, "bench", "--phase", string(p), "--file", file})
+			wall, rss, out, err := Measure(ctx, argv)
 			if err != nil {
 				return nil, err
 			}
 			groups, _ := strconv.Atoi(strings.Fields(out + " 0")[0])
-			runs = append(runs, Result{Phase: string(p), Wall: wall, PeakRSS: rss, Groups: groups})
+			times = append(times, Result{Phase: string(r.phase), MemoryLimit: r.limit, Wall: wall, PeakRSS: rss, Groups: groups})
 		}
-		slices.SortFunc(runs, func(a, b Result) int { return cmp.Compare(a.Wall, b.Wall) })
-		median := runs[len(runs)/2]
+		slices.SortFunc(times, func(a, b Result) int { return cmp.Compare(a.Wall, b.Wall) })
+		median := times[len(times)/2]
 		if repeats > 1 {
-			median.Note = fmt.Sprintf("(median of %d runs: %.2f-%.2f s)", repeats, runs[0].Wall.Seconds(), runs[len(runs)-1].Wall.Seconds())
+			median.Note = fmt.Sprintf("(median of %d runs: %.2f-%.2f s)", repeats, times[0].Wall.Seconds(), times[len(times)-1].Wall.Seconds())
 		}
 		results = append(results, median)
 	}
@@ -216,7 +256,11 @@ func writeTable(w io.Writer, cfg Config, results []Result) {
 	fmt.Fprintf(w, "%-34s %10s %12s %12s %10s\n", "phase", "wall (s)", "groups/s", "peak RSS MB", "vs floor")
 	floor := results[0].Wall
 	for _, r := range results {
-		fmt.Fprintf(w, "%-34s %10.2f %12.0f %12.0f %9.2fx %s\n", r.Phase, r.Wall.Seconds(),
+		name := r.Phase
+		if r.MemoryLimit != "" {
+			name += " (memory_limit " + r.MemoryLimit + ")"
+		}
+		fmt.Fprintf(w, "%-34s %10.2f %12.0f %12.0f %9.2fx %s\n", name, r.Wall.Seconds(),
 			float64(cfg.Groups)/r.Wall.Seconds(), float64(r.PeakRSS)/(1<<20), r.Wall.Seconds()/floor.Seconds(), r.Note)
 	}
 }

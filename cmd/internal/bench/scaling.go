@@ -129,3 +129,35 @@ func plotScaling(points []Point, path string) error {
 
 // seriesColorBench tells diagnose's curve from the floor's.
 var seriesColorBench = color.RGBA{R: 200, G: 90, B: 20, A: 255}
+
+// LargeRow is the size of the bounded-memory row: a million groups of a
+// year of days, 365 million rows (a 3 GB Parquet file).
+var LargeRow = [2]int{1000000, 365}
+
+// Large measures diagnose at LargeRow with DuckDB's default memory_limit
+// and under base.MemoryLimit ("4GB" when empty), with base's directory,
+// layout and repeats, and writes a Markdown table to w. DuckDB's floor is
+// not run: its ordered lists cannot spill and need more memory than the
+// default limit allows at this size.
+func Large(ctx context.Context, base Config, self string, w io.Writer) ([]Result, error) {
+	cfg := base
+	cfg.Groups, cfg.Length, cfg.Reference = LargeRow[0], LargeRow[1], 0
+	if cfg.MemoryLimit == "" {
+		cfg.MemoryLimit = "4GB"
+	}
+	res, err := RunPhases(ctx, cfg, self, []Phase{PhaseDiagnose}, io.Discard)
+	if err != nil {
+		return res, err
+	}
+	fmt.Fprintln(w, "| groups G | length T | memory_limit | diagnose wall | groups/s | peak RSS | wall against the default limit |")
+	fmt.Fprintln(w, "|---|---|---|---|---|---|---|")
+	for _, r := range res {
+		limit := r.MemoryLimit
+		if limit == "" {
+			limit = "default (80% of RAM)"
+		}
+		fmt.Fprintf(w, "| %d | %d | %s | %.1f s | %.0f | %.2f GB | %.2f× |\n", cfg.Groups, cfg.Length, limit, r.Wall.Seconds(),
+			float64(cfg.Groups)/r.Wall.Seconds(), float64(r.PeakRSS)/1e9, r.Wall.Seconds()/res[0].Wall.Seconds())
+	}
+	return res, nil
+}

@@ -22,11 +22,18 @@ type Spec struct {
 	Period int      // 0: detect
 	Alpha  float64  // 0: 0.05
 	Fill   string   // "": none
+	// Shards, when above zero, diagnoses only the groups of shard Shard
+	// (0 <= Shard < Shards) and returns them unranked, for combine_diagnoses.
+	Shard, Shards int
 }
 
 // Call returns the SQL table expression diagnose(...) for s.
 func (s Spec) Call() string {
-	return "diagnose(" + s.Args() + ")"
+	shards := ""
+	if s.Shards > 0 {
+		shards = fmt.Sprintf(", shard := %d, shards := %d", s.Shard, s.Shards)
+	}
+	return "diagnose(" + s.Args() + shards + ")"
 }
 
 // Args renders the arguments every plumb table function over a series
