@@ -95,3 +95,21 @@ func TestForecastSQL(t *testing.T) {
 		}
 	}
 }
+
+// TestForecastInBatches: forecast and forecast_models give the same rows
+// when their groups are taken a few at a time (plumb_batch_rows, as under a
+// small memory_limit) as in one batch.
+func TestForecastInBatches(t *testing.T) {
+	db := openTest(t)
+	exec(t, db, `CREATE TABLE s AS SELECT 'g' || (i % 12) AS g, DATE '2025-01-01' + (i // 12)::INTEGER AS d,
+		10 + sin(i) + (i % 5) + (i // 12) * (i % 12) / 200 AS v FROM range(12 * 300) r(i)`)
+	for _, q := range []string{
+		`FROM forecast('s', by := 'g', at := 'd', value := 'v', horizon := 5, period := 7)`,
+		`FROM forecast_models('s', by := 'g', at := 'd', value := 'v', holdout := 20)`,
+	} {
+		exec(t, db, "SET VARIABLE plumb_batch_rows = NULL")
+		want := textRows(t, db, q)
+		exec(t, db, "SET VARIABLE plumb_batch_rows = 1000") // 3 or 4 groups a batch
+		sameRows(t, q, textRows(t, db, q), want)
+	}
+}
