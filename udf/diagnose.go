@@ -42,29 +42,18 @@ func diagnoseFunctions(t *types) []*function {
 		params:   []duckdb.TypeInfo{t.anyType(), t.bigint(), t.double(), t.varchar()},
 		result:   t.structOf(fields...),
 		nullable: true,
-		eval: func(args []driver.Value) (any, error) {
-			if args[0] == nil {
-				return nil, nil
-			}
-			p, err := pointsOf(args[0])
-			if err != nil {
-				return nil, err
-			}
+		eval: withPoints(func(p points, args []driver.Value) (any, error) {
 			opts, err := stationarityOptions(args[1], args[2])
 			if err != nil {
 				return nil, err
 			}
-			fill := stats.FillNone
-			if args[3] != nil {
-				s, err := text(args[3], "fill")
-				if err != nil {
-					return nil, err
-				}
-				fill = stats.FillMethod(s)
+			fill, err := fillMethod(args[3])
+			if err != nil {
+				return nil, err
 			}
 			order := p.sortByTime()
 			return diagnoseGroup(p.at, p.values, order, opts, fill)
-		},
+		}),
 	}, {
 		// plumb_q_values(p DOUBLE[]) -> DOUBLE[]: Benjamini-Hochberg
 		// q-values of a list of p-values, NULL for NULL.

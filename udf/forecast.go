@@ -47,21 +47,14 @@ func forecastFunctions(t *types) []*function {
 			t.boolean()},
 		result:   t.structOf(fields...),
 		nullable: true,
-		eval: func(args []driver.Value) (any, error) {
-			if args[0] == nil {
-				return nil, nil
-			}
-			p, err := pointsOf(args[0])
-			if err != nil {
-				return nil, err
-			}
+		eval: withPoints(func(p points, args []driver.Value) (any, error) {
 			o, err := readForecastOptions(args[1:])
 			if err != nil {
 				return nil, err
 			}
 			p.sortByTime()
 			return forecastGroup(p.at, p.values, o)
-		},
+		}),
 	}, {
 		name:     "plumb_forecast_sql",
 		params:   []duckdb.TypeInfo{t.varchar(), t.anyType(), t.varchar(), t.varchar(), t.bigint(), d, t.bigint(), d, t.varchar(), t.bigint(), t.boolean(), t.boolean()},
@@ -151,16 +144,8 @@ func readForecastOptions(args []driver.Value) (forecastOptions, error) {
 	if o.verdict, err = stationarityOptions(args[2], args[3]); err != nil {
 		return o, err
 	}
-	o.fill = stats.FillNone
-	if args[4] != nil {
-		s, err := text(args[4], "fill")
-		if err != nil {
-			return o, err
-		}
-		o.fill = stats.FillMethod(s)
-		if _, err := stats.Regularize(nil, nil, o.fill); err != nil {
-			return o, err
-		}
+	if o.fill, err = fillMethod(args[4]); err != nil {
+		return o, err
 	}
 	if o.holdout, err = intOr(args[5], "holdout", 0); err != nil {
 		return o, err

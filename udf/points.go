@@ -5,6 +5,8 @@ import (
 	"database/sql/driver"
 	"fmt"
 	"slices"
+
+	"github.com/plumb-sql/plumb/stats"
 )
 
 // points is one group's observations as diagnose aggregates them: an
@@ -70,4 +72,34 @@ func (p points) sortByTime() []int {
 		p.at[i], p.values[i], order[i] = q.at, q.value, q.index
 	}
 	return order
+}
+
+// withPoints adapts an evaluation over one group's points (its first
+// argument) to DuckDB's arguments: a NULL list gives NULL.
+func withPoints(f func(p points, args []driver.Value) (any, error)) func([]driver.Value) (any, error) {
+	return func(args []driver.Value) (any, error) {
+		if args[0] == nil {
+			return nil, nil
+		}
+		p, err := pointsOf(args[0])
+		if err != nil {
+			return nil, err
+		}
+		return f(p, args)
+	}
+}
+
+// fillMethod reads a fill option (NULL: none) and checks it.
+func fillMethod(v driver.Value) (stats.FillMethod, error) {
+	if v == nil {
+		return stats.FillNone, nil
+	}
+	s, err := text(v, "fill")
+	if err != nil {
+		return "", err
+	}
+	if _, err := stats.Regularize(nil, nil, stats.FillMethod(s)); err != nil {
+		return "", err
+	}
+	return stats.FillMethod(s), nil
 }
