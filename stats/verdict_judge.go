@@ -227,9 +227,10 @@ func seasonalBySeason(s SeasonalityResult) bool {
 //     Otherwise the cause is a unit root, and d follows the differencing
 //     sequence (up to 2).
 //   - Without unit-root evidence, the mean still moves when the
-//     segment-means test rejects at α/4 (the one test that decides whether
-//     it moves, so that a stationary series is not tested three times). The
-//     cause is then whichever of a trend (the slope's Newey-West t) and a
+//     segment-means test or KPSS rejects, at α/8 each (meanMoves: the two
+//     tests that decide whether it moves; the trend and break tests only
+//     attribute the cause, so that a stationary series is not tested four
+//     times). The cause is then whichever of a trend (the slope's Newey-West t) and a
 //     shift (the break test) is significant at α, by BIC if both; if
 //     neither, a unit root (one difference).
 func (j *judgement) meanDecision(z []float64, o judgeOptions, stabilityPeriod int) ([]float64, error) {
@@ -286,11 +287,11 @@ func (j *judgement) meanDecision(z []float64, o judgeOptions, stabilityPeriod in
 				shiftOK = err == nil && kpss.Status == StatusOK && !(kpss.PValue < alpha)
 			}
 		}
-	case !unitRoot && deterministic && j.stability.MeanPValue < each:
+	case !unitRoot && deterministic && meanMoves(j, each/2):
 		trendOK, shiftOK = line.pValue() < alpha, shiftP < alpha
 		unitRoot = !trendOK && !shiftOK
 	case !unitRoot:
-		unitRoot = j.stability.MeanPValue < each
+		unitRoot = meanMoves(j, each/2)
 	}
 	if trendOK && shiftOK {
 		n := float64(len(z))
@@ -346,6 +347,17 @@ func (j *judgement) differences(z []float64, alpha float64) ([]float64, error) {
 		j.mADF, j.mKPSS = UnitRootResult{}, UnitRootResult{}
 	}
 	return w, nil
+}
+
+// meanMoves is the test of a moving mean for a series ADF calls free of a
+// unit root: the segment means differ, or KPSS, whose null hypothesis is a
+// stationary series, rejects it, each at level (α/8, so that the two
+// together spend the α/4 the segment test alone had). ADF's firm rejection
+// decides against differencing, not for a constant mean: a series can
+// revert quickly and still wander (a random walk in logarithms over a
+// stretch where it turned back, judged on the log scale).
+func meanMoves(j *judgement, level float64) bool {
+	return j.stability.MeanPValue < level || (j.kpss.Status == StatusOK && j.kpss.PValue < level)
 }
 
 // withoutShift returns z with size subtracted from index on.
