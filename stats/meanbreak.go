@@ -47,21 +47,17 @@ type MeanBreakResult struct {
 //
 // Statuses: non_finite; too_short below 20 observations; constant.
 func MeanBreak(x []float64) MeanBreakResult {
-	nan := math.NaN()
-	r := MeanBreakResult{Statistic: nan, PValue: nan, Before: nan, After: nan, Size: nan, SizeSD: nan, SSR: nan, Index: -1}
 	if s := checkFinite(x); s != StatusOK {
-		r.Status = s
-		return r
+		return failedMeanBreak(s)
 	}
 	n := len(x)
 	if n < 20 {
-		r.Status = StatusTooShort
-		return r
+		return failedMeanBreak(StatusTooShort)
 	}
 	if isConstant(x) {
-		r.Status = StatusConstant
-		return r
+		return failedMeanBreak(StatusConstant)
 	}
+	r := failedMeanBreak("")
 	lo, hi := trimmedRange(n, MeanBreakTrim)
 	total := sum(x)
 	mean := total / float64(n)
@@ -95,8 +91,7 @@ func MeanBreak(x []float64) MeanBreakResult {
 	}
 	lrv := PrewhitenedLongRunVariance(e)
 	if !(lrv > 0) || !(ssr > 0) {
-		r.Status = StatusConstant
-		return r
+		return failedMeanBreak(StatusConstant)
 	}
 	r.Index, r.Before, r.After, r.Size, r.SSR = best, before, after, after-before, ssr
 	r.SizeSD = r.Size / math.Sqrt(ssr/float64(n-2))
@@ -104,6 +99,12 @@ func MeanBreak(x []float64) MeanBreakResult {
 	r.PValue, r.PValueBound = meanBreakPValue(r.Statistic)
 	r.Status = StatusOK
 	return r
+}
+
+// failedMeanBreak is a result with every number NaN and status s.
+func failedMeanBreak(s Status) MeanBreakResult {
+	n := math.NaN()
+	return MeanBreakResult{Statistic: n, PValue: n, Before: n, After: n, Size: n, SizeSD: n, SSR: n, Index: -1, Status: s}
 }
 
 // trimmedRange returns the first and last candidate break index for a

@@ -59,8 +59,10 @@ func (r *Recipe) Identity() bool {
 		!r.Trend && !r.Shift && r.Differences == 0
 }
 
-// lags returns the lag of each differencing pass in the order applied.
-func (r *Recipe) lags() []int {
+// Lags returns the lag of each differencing pass in the order applied:
+// D times Period, then d times 1 (the anchors Head and Tail hold one set of
+// values per pass, each its lag long).
+func (r *Recipe) Lags() []int {
 	var out []int
 	for i := 0; i < r.SeasonalDifferences; i++ {
 		out = append(out, r.Period)
@@ -141,7 +143,7 @@ func (r *Recipe) Apply(x []float64) ([]float64, Status, error) {
 		return nil, s, err
 	}
 	r.Head, r.Tail = nil, nil
-	for _, lag := range r.lags() {
+	for _, lag := range r.Lags() {
 		r.Head = append(r.Head, append([]float64(nil), y[:lag]...))
 		r.Tail = append(r.Tail, append([]float64(nil), y[len(y)-lag:]...))
 		y, _ = Difference(y, lag, 1)
@@ -197,16 +199,6 @@ func (r *Recipe) RestoreForecast(f []float64) ([]float64, Status, error) {
 	return r.undo(f, r.Tail, false, r.Length)
 }
 
-// Integrate undoes only the differencing of forecasts f (positions Length,
-// Length+1, ...), anchored on the series' last values: the forecasts on the
-// scale Level returns.
-func (r *Recipe) Integrate(f []float64) ([]float64, error) {
-	if err := r.check(); err != nil {
-		return nil, err
-	}
-	return r.integrate(f, r.Tail, false)
-}
-
 // Finish adds the deterministic part back to values z on the Level scale
 // at positions start, start+1, ... and undoes the Box-Cox transform: the
 // last steps of RestoreForecast, for forecasts and their interval bounds
@@ -227,7 +219,7 @@ func (r *Recipe) Finish(z []float64, start int) ([]float64, Status) {
 }
 
 func (r *Recipe) integrate(y []float64, anchors [][]float64, prepend bool) ([]float64, error) {
-	lags := r.lags()
+	lags := r.Lags()
 	if len(anchors) != len(lags) {
 		return nil, errorf("recipe: %d anchor sets for %d differencing passes: apply the recipe first", len(anchors), len(lags))
 	}

@@ -155,35 +155,6 @@ func stability(x []float64, opts StabilityOptions, full bool) (StabilityResult, 
 	return r, nil
 }
 
-// spreadPValue is Stability's segment-spread test alone (NaN when the
-// series is too short, constant or not finite).
-func spreadPValue(x []float64, segments int) float64 {
-	if checkFinite(x) != StatusOK || len(x) < 10 || isConstant(x) {
-		return math.NaN()
-	}
-	return segmentSpreadPValue(x, segmentBounds(len(x), segments, 0))
-}
-
-// segmentSpreadPValue is spreadPValue with the segments given.
-func segmentSpreadPValue(x []float64, bounds []int) float64 {
-	if bounds == nil {
-		return math.NaN()
-	}
-	z := getScratch(len(x))
-	defer putScratch(z)
-	for j := 0; j+1 < len(bounds); j++ {
-		seg := x[bounds[j]:bounds[j+1]]
-		zs := z[bounds[j]:bounds[j+1]] // the median is found in place, then overwritten
-		copy(zs, seg)
-		med := medianInPlace(zs)
-		for i, v := range seg {
-			zs[i] = math.Abs(v - med)
-		}
-	}
-	_, p := segmentWald(z, bounds, spreadCentringInflation)
-	return p
-}
-
 // segmentBounds returns k+1 boundaries cutting T observations into k
 // consecutive segments of equal length (a multiple of period when period >
 // 1), the oldest segment taking the remainder; nil when segments would be

@@ -330,7 +330,7 @@ func emptyVerdict() StationarityResult {
 	return StationarityResult{BoxCoxLambda: n, SpreadPValue: n, ShiftIndex: -1, ShiftSize: n,
 		TrendIntercept: n, TrendSlope: n, Score: n, MeanShare: n, SpreadShare: n, SeasonalShare: n,
 		Demand: DemandProfile{ZeroShare: n, AverageInterval: n, SizeVariation: n},
-		Break:  MeanBreakResult{Statistic: n, PValue: n, Before: n, After: n, Size: n, SizeSD: n, SSR: n, Index: -1, Status: StatusTooShort}}
+		Break:  failedMeanBreak(StatusTooShort)}
 }
 
 // fill copies a judgement into the result: j decided the recipe (on the

@@ -250,8 +250,7 @@ func (j *judgement) meanDecision(z []float64, o judgeOptions, stabilityPeriod in
 		return nil, nil
 	}
 	j.status = StatusOK
-	j.brk = MeanBreakResult{Status: StatusSeasonUnknown, Index: -1, Statistic: math.NaN(), PValue: math.NaN(),
-		Before: math.NaN(), After: math.NaN(), Size: math.NaN(), SizeSD: math.NaN(), SSR: math.NaN()}
+	j.brk = failedMeanBreak(StatusSeasonUnknown) // not run with a seasonal difference
 	deterministic := j.recipe.SeasonalDifferences == 0
 	line := &lineFit{a: math.NaN(), b: math.NaN(), p: math.NaN()}
 	if deterministic {
@@ -443,14 +442,17 @@ func spreadFollowsLevelIn(m, y []float64, lost int, bounds []int) bool {
 	for i := range level {
 		level[i], sd[i] = math.Log(level[i]), math.Log(sd[i])
 	}
-	r := correlation(level, sd)
-	if !(r*r >= 0.5) {
-		return false
-	}
-	_, sl := meanSD(level)
-	_, ss := meanSD(sd)
-	slope := r * ss / sl
-	return slope >= 0.3 && slope <= 2.5
+	r2, slope := lineThrough(level, sd)
+	return r2 >= 0.5 && slope >= 0.3 && slope <= 2.5
+}
+
+// lineThrough returns the R² and the slope of the least-squares line of y
+// on x (NaN when either does not vary).
+func lineThrough(x, y []float64) (float64, float64) {
+	r := correlation(x, y)
+	_, sx := meanSD(x)
+	_, sy := meanSD(y)
+	return r * r, r * sy / sx
 }
 
 // segmentShare is the share of the variation of x between its segments:
@@ -630,13 +632,10 @@ func seasonalSwingFollowsLevel(y, trend []float64, period, segments int) bool {
 		}
 		logLevel[i], logSwing[i] = math.Log(level), math.Log(swing)
 	}
-	r := correlation(logLevel, logSwing)
-	if !(r*r >= 0.8) {
+	r2, slope := lineThrough(logLevel, logSwing)
+	if !(r2 >= 0.8) {
 		return false
 	}
-	_, sl := meanSD(logLevel)
-	_, ss := meanSD(logSwing)
-	slope := r * ss / sl
 	lo, hi := math.Inf(1), math.Inf(-1)
 	for _, v := range logLevel {
 		lo, hi = math.Min(lo, v), math.Max(hi, v)

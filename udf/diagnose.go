@@ -159,12 +159,8 @@ func diagnoseGroup(at []int64, x []float64, order []int, opts stats.Stationarity
 // position i is an observation's own index when nothing was filled, and a
 // point of the regular grid from at[0] in steps of reg.Step otherwise.
 func observationAt(at []int64, reg stats.Regular, i int, order []int) int {
-	k := i
-	if len(reg.Values) != len(at) {
-		t := at[0] + int64(i)*reg.Step
-		k, _ = slices.BinarySearch(at, t)
-		k = min(k, len(at)-1)
-	}
+	k, _ := slices.BinarySearch(at, timeAt(at, reg, i))
+	k = min(k, len(at)-1)
 	if order != nil {
 		return order[k]
 	}

@@ -4,6 +4,7 @@ import (
 	"database/sql/driver"
 	"fmt"
 	"math"
+	"strings"
 	"time"
 
 	"github.com/duckdb/duckdb-go/v2"
@@ -305,14 +306,14 @@ func forecastSQL(q seriesQuery, literals []string, models bool) string {
                    plumb_f.nobs AS nobs, plumb_f.aic AS aic, plumb_f.ljung_box_p_value AS ljung_box_p_value,
                    plumb_f.mase AS mase, plumb_f.interval_coverage AS interval_coverage
             FROM (SELECT %[1]s, plumb_forecast(plumb_points, %[2]s) AS plumb_f FROM plumb_series)`,
-			by, joinLiterals(literals), status)
+			by, strings.Join(literals, ", "), status)
 		return q.batchedCTEs(perGroup, gatherBytesPerRow) + fmt.Sprintf("\nFROM plumb_done\nORDER BY %s", by)
 	}
 	perGroup := fmt.Sprintf(`SELECT %[1]s, plumb_first_at, %[3]s AS status, plumb_f.offsets AS plumb_offsets,
                    plumb_f.forecast AS plumb_forecasts, plumb_f.lower AS plumb_lower, plumb_f.upper AS plumb_upper,
                    plumb_f.actual AS plumb_actual
             FROM (SELECT %[1]s, plumb_first_at, plumb_forecast(plumb_points, %[2]s) AS plumb_f FROM plumb_series)`,
-		by, joinLiterals(literals), status)
+		by, strings.Join(literals, ", "), status)
 	actual, actualOut := "", ""
 	if literals[5] != "NULL" && literals[5] != "0" {
 		actual, actualOut = ", unnest(plumb_actual) AS actual", ", actual"
@@ -326,17 +327,6 @@ FROM (
     FROM plumb_done
 )
 ORDER BY %[1]s, step`, by, quoteIdent(q.at), actualOut, actual)
-}
-
-func joinLiterals(l []string) string {
-	out := ""
-	for i, s := range l {
-		if i > 0 {
-			out += ", "
-		}
-		out += s
-	}
-	return out
 }
 
 const forecastMacros = `

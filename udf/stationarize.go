@@ -241,13 +241,7 @@ func recipeFromColumns(args []driver.Value) (stats.Recipe, error) {
 	if r.Differences, err = intOr(args[8], "differences", 0); err != nil {
 		return r, err
 	}
-	lags := make([]int, 0, r.SeasonalDifferences+r.Differences)
-	for i := 0; i < r.SeasonalDifferences; i++ {
-		lags = append(lags, r.Period)
-	}
-	for i := 0; i < r.Differences; i++ {
-		lags = append(lags, 1)
-	}
+	lags := r.Lags()
 	head, tail := []float64{}, []float64{}
 	if args[9] != nil {
 		if head, err = floats(args[9]); err != nil {
