@@ -208,7 +208,7 @@ func forecastGroup(at []int64, x []float64, o forecastOptions) (any, error) {
 	}
 	if n >= 1 && len(at) >= 2 {
 		for h := range offsets {
-			offsets[h] = float64(timeAt(at, reg, n-1+h+1) - at[0])
+			offsets[h] = float64(timeAt(at, reg, n+h) - at[0])
 		}
 	}
 	out["offsets"], out["forecast"], out["lower"], out["upper"] = offsets, nan, nan, nan
