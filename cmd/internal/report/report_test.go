@@ -149,7 +149,7 @@ func TestReportInChromium(t *testing.T) {
 		if os.Getenv("CI") == "true" {
 			t.Fatal("chromium is not installed; .ci/run installs Debian's chromium package")
 		}
-		t.Skip("chromium is not installed (apt-get install chromium); CI runs this test")
+		t.Skip("needs chromium: apt-get install chromium (.ci/run installs it)")
 	}
 	path, _, _ := demoReport(t)
 	shot := filepath.Join(t.TempDir(), "report.png")
