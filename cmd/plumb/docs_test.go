@@ -95,4 +95,3 @@ func cells(row string) int {
 	}
 	return n - 1
 }
-
