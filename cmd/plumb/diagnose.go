@@ -110,6 +110,7 @@ to the Parquet file --out names; plumb combine ranks the N parts together.`,
 			defer conn.Close()
 			const table = "plumb_cli_diagnosis"
 			progress := diagnosis.StartProgress(cmd.ErrOrStderr(), flags.quiet)
+			progress.CountGroups(ctx, db, flags.spec)
 			n, err := flags.spec.Materialize(ctx, conn, table)
 			progress.Stop()
 			if err != nil {
