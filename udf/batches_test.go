@@ -171,7 +171,7 @@ func rowsDigest(t *testing.T, db *sql.DB, q string) string {
 // a limit, row for row in its own order (q-values and rank included), and
 // every other table function the same set of rows. 8,000 groups, so that
 // DuckDB's smallest workable limit (100MB) still needs several batches: a
-// long test. TestSmallBatchesEqualOneBatch checks the same on 1,000 groups with
+// long test. TestSmallBatchesEqualOneBatch checks the same on 600 groups with
 // the batch size set by plumb_batch_rows.
 func TestBatchesEqualUnlimited(t *testing.T) {
 	longtests.Require(t, "8,000 groups under memory_limit = '100MB', about 30 s")
@@ -184,13 +184,13 @@ func TestBatchesEqualUnlimited(t *testing.T) {
 	sameInBatches(t, limited, 8000)
 }
 
-// TestSmallBatchesEqualOneBatch: TestBatchesEqualUnlimited's checks on 1,000
-// groups cut into batches of at most 40,000 rows by plumb_batch_rows.
+// TestSmallBatchesEqualOneBatch: TestBatchesEqualUnlimited's checks on 600
+// groups cut into batches of at most 25,000 rows by plumb_batch_rows.
 func TestSmallBatchesEqualOneBatch(t *testing.T) {
 	limited := openTest(t)
 	limited.SetMaxOpenConns(1)
-	exec(t, limited, "SET VARIABLE plumb_batch_rows = 40000")
-	sameInBatches(t, limited, 1000)
+	exec(t, limited, "SET VARIABLE plumb_batch_rows = 25000")
+	sameInBatches(t, limited, 600)
 }
 
 // sameInBatches writes a panel of groups in two layouts and
