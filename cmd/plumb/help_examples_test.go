@@ -99,7 +99,7 @@ func missingTool(t *testing.T, name, how string) {
 	if os.Getenv("CI") == "true" {
 		t.Fatalf("needs %s, which .ci/run installs (%s)", name, how)
 	}
-	t.Skipf("needs %s: %s (.ci/run installs it)", name, how)
+	t.Skipf("needs %s: %s (.ci/run does this)", name, how)
 }
 
 func freePort(t *testing.T) string {

@@ -31,7 +31,7 @@ func missing(t *testing.T, what, how string) {
 	if os.Getenv("CI") == "true" {
 		t.Fatalf("needs %s, which .ci/run installs (%s)", what, how)
 	}
-	t.Skipf("needs %s: %s (.ci/run installs it)", what, how)
+	t.Skipf("needs %s: %s (.ci/run does this)", what, how)
 }
 
 // writeDemoShops writes a small demo scenario under dir and returns the path
