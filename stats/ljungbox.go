@@ -4,12 +4,12 @@ import "gonum.org/v1/gonum/stat/distuv"
 
 // WhiteNoiseResult is the outcome of the Ljung-Box test.
 type WhiteNoiseResult struct {
-	Statistic float64 // Q
-	PValue    float64
-	Lags      int // h, the number of autocorrelations summed
-	DF        int // degrees of freedom, h minus fitted parameters
-	NObs      int
-	Status    Status
+	Statistic    float64 // Q
+	PValue       float64
+	Lags         int // h, the number of autocorrelations summed
+	DF           int // degrees of freedom, h minus fitted parameters
+	Observations int
+	Status       Status
 }
 
 // LjungBox performs the Ljung & Box (1978) portmanteau test of the null
@@ -29,7 +29,7 @@ func LjungBox(x []float64, h, fitted int) (WhiteNoiseResult, error) {
 		return WhiteNoiseResult{}, errorf("ljung-box: lags and fitted parameters must not be negative, got %d and %d", h, fitted)
 	}
 	n := len(x)
-	r := WhiteNoiseResult{NObs: n}
+	r := WhiteNoiseResult{Observations: n}
 	if h == 0 {
 		h = min(10, n/5)
 	}

@@ -66,7 +66,7 @@ func TestConditionsSQL(t *testing.T) {
 		// The same date from both break tests (the 29th value, 1899).
 		{"SELECT mean_break(x).break_at FROM series WHERE dataset = 'nile'", "29"},
 		{"SELECT zivot_andrews(x).break_at FROM series WHERE dataset = 'nile'", "29"},
-		{"SELECT zivot_andrews(x, kind := 'both').kind FROM series WHERE dataset = 'nile'", "both"},
+		{"SELECT zivot_andrews(x, kind := 'level_and_slope').kind FROM series WHERE dataset = 'nile'", "level_and_slope"},
 		{"SELECT mean_break([1, 2, 3]).status", "too_short"},
 		{"SELECT stationarity(x).status FROM series WHERE dataset = 'nile'", "season_unknown"},
 		{"SELECT stationarity(x).violations FROM series WHERE dataset = 'nile'", "[mean]"},
@@ -99,7 +99,7 @@ func TestConditionsSQL(t *testing.T) {
 		{"SELECT stability([1, 2, 3], segments := 1)", "segments must be 0"},
 		{"SELECT white_noise([1, 2, 3], lags := -1)", "must not be negative"},
 		{"SELECT outlier_positions([1, 2, 3], period := 1)", "period must be NULL"},
-		{"SELECT zivot_andrews(range(100)::DOUBLE[], kind := 'level')", "intercept, trend or both"},
+		{"SELECT zivot_andrews(range(100)::DOUBLE[], kind := 'curve')", "level, slope or level_and_slope"},
 		{"SELECT zivot_andrews(range(100)::DOUBLE[], trimming := 0.5)", "trimming must lie in"},
 	} {
 		if msg := queryError(t, db, test.query); !strings.Contains(msg, test.want) {
