@@ -330,7 +330,7 @@ func (a *adfDesign) refitMatrix(lags, start int) ([]float64, int, int) {
 //	S(i+1, j+1) = S(i, j) + Δy_{s-1-i}·Δy_{s-1-j} - Δy_{s+n-1-i}·Δy_{s+n-1-j}
 //
 // (s the first row of the sample, n its length): about 4·n·p work in all
-// instead of n·p²/2, as DESIGN.md suggests.
+// instead of n·p²/2 (DEVELOPERS.md, "Where the time goes").
 func (a *adfDesign) crossMatrix(lags, start int) ([]float64, int, int) {
 	n := len(a.dx) - start
 	shift := func(j int) []float64 { return a.dx[start-j : start-j+n] } // lag j; j = 0 is Δy itself

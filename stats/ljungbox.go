@@ -21,9 +21,10 @@ type WhiteNoiseResult struct {
 // being the number of ARMA parameters estimated when x holds residuals (0
 // for raw data). h = 0 means min(10, n/5), common practice.
 //
-// White noise is stationary, but a stationary series need not be white
-// noise: an AR(1) with φ = 0.5 is stationary and fails this test. Use it on
-// a transformed series or on residuals to see whether structure is left.
+// It asks whether any autocorrelation is left, a stricter question than
+// the verdict's: an AR(1) with φ = 0.5 has a steady level and spread and
+// still fails it. Run it on a model's residuals, or on a transformed
+// series, to see whether structure remains for a model to capture.
 func LjungBox(x []float64, h, fitted int) (WhiteNoiseResult, error) {
 	if h < 0 || fitted < 0 {
 		return WhiteNoiseResult{}, errorf("ljung-box: lags and fitted parameters must not be negative, got %d and %d", h, fitted)

@@ -21,8 +21,9 @@ import (
 //
 // The coefficients are the papers' values as python3-statsmodels 0.13.5
 // tabulates them (statsmodels.tsa.adfvalues, scaling already applied); the
-// asymptotic critical values agree with DESIGN.md's from-memory list, and
-// the tests check p-values and critical values against statsmodels on a grid.
+// asymptotic critical values are the rows with observations "inf" in
+// testdata/reference/mackinnon_crit_statsmodels.csv, and the tests check
+// p-values and critical values against statsmodels on a grid.
 type mackinnonTau struct {
 	smallP         [3]float64
 	largeP         [4]float64

@@ -10,8 +10,10 @@ func TestMacKinnonAsymptoticCritical(t *testing.T) {
 		d    Deterministic
 		want [3]float64
 	}{
-		// MacKinnon (2010) Table 2, asymptotic; DESIGN.md lists them from memory,
-		// confirmed against python3-statsmodels 0.13.5.
+		// MacKinnon (2010) Table 2, asymptotic: from memory, and the same
+		// numbers as the rows with observations "inf" in
+		// testdata/reference/mackinnon_crit_statsmodels.csv (python3-statsmodels
+		// 0.13.5, mackinnoncrit).
 		{DeterministicLevel, [3]float64{-3.43035, -2.86154, -2.56677}},
 		{DeterministicLevelAndSlope, [3]float64{-3.95877, -3.41049, -3.12705}},
 		{DeterministicNone, [3]float64{-2.56574, -1.94100, -1.61682}},
