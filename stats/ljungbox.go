@@ -28,6 +28,9 @@ func LjungBox(x []float64, h, fitted int) (WhiteNoiseResult, error) {
 	if h < 0 || fitted < 0 {
 		return WhiteNoiseResult{}, errorf("ljung-box: lags and fitted parameters must not be negative, got %d and %d", h, fitted)
 	}
+	if h > 0 && fitted >= h {
+		return WhiteNoiseResult{}, errorf("ljung-box: fitted parameters (%d) must be fewer than the lags (%d)", fitted, h)
+	}
 	n := len(x)
 	r := WhiteNoiseResult{NObs: n}
 	if h == 0 {
