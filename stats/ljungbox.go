@@ -50,6 +50,11 @@ func LjungBox(x []float64, h, fitted int) (WhiteNoiseResult, error) {
 	if isConstant(x) {
 		return fail(StatusConstant)
 	}
+	if tooLarge(x) {
+		// The autocorrelations are scale-free; scaled to a largest
+		// magnitude of 1 their sums of squares cannot overflow.
+		x = scaledInto(make([]float64, n), x)
+	}
 	rho := Autocorrelation(x, h)
 	q := 0.0
 	for k, v := range rho {

@@ -226,6 +226,11 @@ func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, er
 	if s := checkFinite(x); s != StatusOK {
 		return unjudged(s)
 	}
+	if tooLarge(x) {
+		v, err := unjudged(StatusNonFinite)
+		v.Reason = tooLargeReason
+		return v, err
+	}
 	if len(x) >= 2 && isConstant(x) {
 		return unjudged(StatusConstant)
 	}
@@ -258,7 +263,13 @@ func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, er
 		return r, err
 	}
 	if j.status != StatusOK {
-		return unjudged(j.status)
+		v, err := unjudged(j.status)
+		if j.status == StatusConstant {
+			// x varies (checked above): what is constant is the series
+			// after its seasonal step or with its outliers set aside.
+			v.Reason = "Nothing varies once its repeating pattern or its outliers are set aside: the series is deterministic, so there is nothing to test."
+		}
+		return v, err
 	}
 	first := j
 	lambda := math.NaN()
@@ -315,6 +326,13 @@ func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, er
 		}
 	}
 	r.Score = r.MeanShare + r.SpreadShare + r.SeasonalShare
+	if math.IsNaN(r.Score) || math.IsInf(r.Score, 0) {
+		// A share could not be computed: a number overflowed or lost all
+		// meaning on the way, which no verdict may rest on.
+		v, err := unjudged(StatusNonFinite)
+		v.Reason = notComputedReason
+		return v, err
+	}
 	r.Reason = reason(&r)
 	r.Status = StatusOK
 	if r.Seasonality.Status == StatusSeasonUnknown {
