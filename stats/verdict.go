@@ -417,8 +417,9 @@ func (r *StationarityResult) checkCure(j judgement, alpha float64) error {
 
 // leftViolations judges j.m, the output of the recipe, by the tests the
 // verdict uses, reusing those judge already ran on it: a unit root (ADF and
-// KPSS as in the differencing sequence) or unequal segment means; unequal
-// segment spreads; a seasonal pattern at the period (or periods) judged.
+// KPSS as in the differencing sequence; KPSS always when the recipe removed
+// a fitted line or shift) or unequal segment means; unequal segment
+// spreads; a seasonal pattern at the period (or periods) judged.
 func leftViolations(j judgement, alpha float64) ([]Violation, error) {
 	y := j.m
 	var out []Violation
@@ -434,12 +435,18 @@ func leftViolations(j judgement, alpha float64) ([]Violation, error) {
 		}
 	}
 	meanBad := false
+	// A line or a shift fitted to the series and removed leaves an output
+	// that ADF's critical values (for a series with only a constant) judge
+	// too leniently: a random walk less its best-fitting step or line looks
+	// mean-reverting. For those recipes KPSS always judges the output too.
+	fitted := j.recipe.Trend || j.recipe.Shift
 	if adf.Status == StatusOK {
-		// KPSS decides only between α/4 and α (needsDifference).
+		// KPSS decides only between α/4 and α (needsDifference), or always
+		// after a fitted line or shift.
 		switch {
 		case !(adf.PValue < alpha):
 			meanBad = true
-		case adf.PValue >= each:
+		case adf.PValue >= each || fitted:
 			kpss := j.mKPSS
 			if kpss.Status == "" {
 				var err error
