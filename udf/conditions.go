@@ -2,7 +2,6 @@ package udf
 
 import (
 	"database/sql/driver"
-	"fmt"
 	"math"
 
 	"github.com/duckdb/duckdb-go/v2"
@@ -50,7 +49,7 @@ func conditionFunctions(t *types) []*function {
 			result:   seasonalityType(t),
 			nullable: true,
 			eval: withSeries(func(x []float64, args []driver.Value) (any, error) {
-				period, err := intOr(args[1], "period", 0)
+				period, err := periodArg(args[1])
 				if err != nil {
 					return nil, err
 				}
@@ -67,11 +66,7 @@ func conditionFunctions(t *types) []*function {
 			result:   t.structOf(field{"statistic", t.double()}, field{"p_value", t.double()}, field{"lags", t.bigint()}, field{"df", t.bigint()}, field{"observations", t.bigint()}, field{"status", t.varchar()}),
 			nullable: true,
 			eval: withSeries(func(x []float64, args []driver.Value) (any, error) {
-				lags, err := intOr(args[1], "lags", 10)
-				if err != nil {
-					return nil, err
-				}
-				fitted, err := intOr(args[2], "fitted", 0)
+				lags, fitted, err := whiteNoiseArgs(args[1], args[2])
 				if err != nil {
 					return nil, err
 				}
@@ -125,7 +120,7 @@ func conditionFunctions(t *types) []*function {
 			result:   t.double(),
 			nullable: true,
 			eval: withSeries(func(x []float64, args []driver.Value) (any, error) {
-				period, err := intOr(args[1], "period", 0)
+				period, err := periodArgMeaning(args[1], "for none")
 				if err != nil {
 					return nil, err
 				}
@@ -292,7 +287,7 @@ func verdictFields(t *types) []field {
 }
 
 func stationarityOptions(period, alpha driver.Value) (stats.StationarityOptions, error) {
-	p, err := intOr(period, "period", 0)
+	p, err := periodArg(period)
 	if err != nil {
 		return stats.StationarityOptions{}, err
 	}
@@ -300,11 +295,8 @@ func stationarityOptions(period, alpha driver.Value) (stats.StationarityOptions,
 	if err != nil {
 		return stats.StationarityOptions{}, err
 	}
-	if !(a > 0 && a < 1) {
-		return stats.StationarityOptions{}, fmt.Errorf("alpha must be between 0 and 1, got %v", a)
-	}
-	if p < 0 || p == 1 {
-		return stats.StationarityOptions{}, fmt.Errorf("period must be NULL (detect) or at least 2, got %d", p)
+	if err := CheckAlpha(a); err != nil {
+		return stats.StationarityOptions{}, err
 	}
 	return stats.StationarityOptions{Period: p, Alpha: a}, nil
 }
