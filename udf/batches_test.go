@@ -10,7 +10,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/plumb-sql/plumb/internal/longtests"
+	"github.com/plumb-sql/plumb/stats/longtests"
 )
 
 func TestParseBytes(t *testing.T) {

@@ -14,7 +14,7 @@ import (
 
 	"github.com/jackc/pgx/v5"
 
-	"github.com/plumb-sql/plumb/internal/longtests"
+	"github.com/plumb-sql/plumb/stats/longtests"
 )
 
 // TestLoad: 32 concurrent clients each run 200 mixed statements against a

@@ -8,7 +8,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/plumb-sql/plumb/internal/longtests"
+	"github.com/plumb-sql/plumb/stats/longtests"
 )
 
 // The client matrix: one script per client under testdata/clients, each

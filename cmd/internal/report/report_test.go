@@ -209,61 +209,15 @@ func template_escape(s string) string {
 }
 
 // TestReportInChromium opens the report in headless Chromium (Debian's
-// chromium package): it must render a screenshot with no console errors.
+// chromium package) at a window 1400 px wide, with layoutCheck added to a
+// copy of it: the page must load with no console errors, every plot must
+// take at least 45% of its panel's width (two a row), no text of a plot
+// may be cut at its edge or overlap another (a legend on a title, a date
+// tick on the axis label), and no cell of the ranked table but the group
+// and its causes may wrap (a p-value broken as "3.9e-" / "06").
 // Skipped where chromium is absent, except in CI (CI=true), which installs it.
 func TestReportInChromium(t *testing.T) {
-	chromium, err := exec.LookPath("chromium")
-	if err != nil {
-		if os.Getenv("CI") == "true" {
-			t.Fatal("chromium is not installed; .ci/run installs Debian's chromium package")
-		}
-		t.Skip("needs chromium: apt-get install chromium (.ci/run does this)")
-	}
-	path, _, _ := demoReport(t)
-	shot := filepath.Join(t.TempDir(), "report.png")
-	cmd := exec.Command(chromium, "--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run",
-		"--disable-background-networking", "--disable-component-update", "--disable-sync",
-		"--user-data-dir="+t.TempDir(), "--window-size=1400,2000", "--screenshot="+shot,
-		"--enable-logging=stderr", "--v=0", "file://"+path)
-	var logs bytes.Buffer
-	cmd.Stderr = &logs
-	if err := cmd.Run(); err != nil {
-		t.Fatalf("chromium: %v\n%s", err, logs.String())
-	}
-	st, err := os.Stat(shot)
-	if err != nil || st.Size() < 20000 {
-		t.Fatalf("no screenshot (%v, %d bytes)", err, st.Size())
-	}
-	for _, line := range strings.Split(logs.String(), "\n") {
-		if strings.Contains(line, "CONSOLE") && (strings.Contains(line, "ERROR") || strings.Contains(line, "Uncaught")) {
-			t.Errorf("console error: %s", line)
-		}
-	}
-	// The first panels' bands must show in their light colour: thousands of
-	// pixels of it (about 33,000 in a 1400x2000 screenshot of the demo's
-	// report; a dark band, as an invalid premultiplied colour gives, leaves
-	// a few dozen).
-	if n := bandPixels(t, shot); n < 5000 {
-		t.Errorf("the screenshot has %d pixels of the band's light colour, want at least 5,000", n)
-	}
-	t.Logf("screenshot %s, %d bytes", shot, st.Size())
-}
-
-// TestReportLayoutInChromium opens a copy of the report with layoutCheck
-// added in headless Chromium at a window 1400 px wide: every plot must take
-// at least 45% of its panel's width (two a row), no text of a plot may be
-// cut at its edge or overlap another (a legend on a title, a date tick on
-// the axis label), and no cell of the ranked table but the group and its
-// causes may wrap (a p-value broken as "3.9e-" / "06"). Skipped where
-// chromium is absent, except in CI (CI=true), which installs it.
-func TestReportLayoutInChromium(t *testing.T) {
-	chromium, err := exec.LookPath("chromium")
-	if err != nil {
-		if os.Getenv("CI") == "true" {
-			t.Fatal("chromium is not installed; .ci/run installs Debian's chromium package")
-		}
-		t.Skip("needs chromium: apt-get install chromium (.ci/run does this)")
-	}
+	chromium := chromiumPath(t)
 	path, _, _ := demoReport(t)
 	page, err := os.ReadFile(path)
 	if err != nil {
@@ -281,6 +235,11 @@ func TestReportLayoutInChromium(t *testing.T) {
 	cmd.Stdout, cmd.Stderr = &dom, &logs
 	if err := cmd.Run(); err != nil {
 		t.Fatalf("chromium: %v\n%s", err, logs.String())
+	}
+	for _, line := range strings.Split(logs.String(), "\n") {
+		if strings.Contains(line, "CONSOLE") && (strings.Contains(line, "ERROR") || strings.Contains(line, "Uncaught")) {
+			t.Errorf("console error: %s", line)
+		}
 	}
 	_, result, found := strings.Cut(dom.String(), `<pre id="layout-check">`)
 	result, _, _ = strings.Cut(result, "</pre>")
@@ -332,3 +291,46 @@ const layoutCheck = `window.addEventListener('load', function () {
   pre.textContent = out.length ? out.join('\n') : 'layout ok';
   document.body.appendChild(pre);
 });`
+
+// chromiumPath finds Debian's chromium, or skips the test saying how to get
+// it; under CI its absence is a failure, since .ci/run installs it.
+func chromiumPath(t *testing.T) string {
+	t.Helper()
+	chromium, err := exec.LookPath("chromium")
+	if err != nil {
+		if os.Getenv("CI") == "true" {
+			t.Fatal("chromium is not installed; .ci/run installs Debian's chromium package")
+		}
+		t.Skip("needs chromium: apt-get install chromium (.ci/run installs it)")
+	}
+	return chromium
+}
+
+// TestReportBandInChromium renders the demo's report in headless Chromium
+// and counts the screenshot's pixels of the ±2 SD band's light colour.
+func TestReportBandInChromium(t *testing.T) {
+	chromium := chromiumPath(t)
+	path, _, _ := demoReport(t)
+	shot := filepath.Join(t.TempDir(), "report.png")
+	cmd := exec.Command(chromium, "--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run",
+		"--disable-background-networking", "--disable-component-update", "--disable-sync",
+		"--user-data-dir="+t.TempDir(), "--window-size=1400,2000", "--screenshot="+shot,
+		"--enable-logging=stderr", "--v=0", "file://"+path)
+	var logs bytes.Buffer
+	cmd.Stderr = &logs
+	if err := cmd.Run(); err != nil {
+		t.Fatalf("chromium: %v\n%s", err, logs.String())
+	}
+	st, err := os.Stat(shot)
+	if err != nil || st.Size() < 20000 {
+		t.Fatalf("no screenshot (%v)", err)
+	}
+	// The first panels' bands must show in their light colour: thousands of
+	// pixels of it (tens of thousands in a 1400x2000 screenshot of the
+	// demo's report; a dark band, as an invalid premultiplied colour gives,
+	// leaves a few dozen).
+	if n := bandPixels(t, shot); n < 5000 {
+		t.Errorf("the screenshot has %d pixels of the band's light colour, want at least 5,000", n)
+	}
+	t.Logf("screenshot %s, %d bytes", shot, st.Size())
+}

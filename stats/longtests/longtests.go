@@ -2,7 +2,9 @@
 // test, the client matrix, the Dask example and the full-size runs of
 // tests that also have a quick default form. PLUMB_LONG_TESTS=1 turns them
 // on; .ci/run sets it, so CI runs everything while a plain `go test ./...`
-// stays quick. Only tests import this package.
+// stays quick. Only tests import this package. It lives under stats, the
+// bottom of the import graph, so that the tests of every package (stats
+// included) can import it; it is no mathematics.
 package longtests
 
 import (
