@@ -338,7 +338,7 @@ func (j *judgement) meanDecision(z []float64, o judgeOptions, stabilityPeriod in
 // rejectsAroundLine reports whether ADF with a trend rejects a unit root in
 // z at level.
 func rejectsAroundLine(z []float64, level float64) bool {
-	adf, err := ADF(z, ADFOptions{Deterministic: DeterministicTrend})
+	adf, err := ADF(z, ADFOptions{Deterministic: DeterministicLevelAndSlope})
 	return err == nil && adf.Status == StatusOK && adf.PValue < level
 }
 
@@ -347,7 +347,7 @@ func rejectsAroundLine(z []float64, level float64) bool {
 // chose (fixed: one scan over the break dates instead of a lag search).
 func (j *judgement) rejectsAroundShift(z []float64, level float64) (bool, error) {
 	lags := j.adf.Lags
-	za, err := ZivotAndrews(z, ZivotAndrewsOptions{Break: BreakIntercept, LagRule: LagFixed, MaxLag: &lags})
+	za, err := ZivotAndrews(z, ZivotAndrewsOptions{Break: BreakLevel, LagRule: LagGiven, MaxLag: &lags})
 	if err != nil {
 		return false, err
 	}
@@ -358,7 +358,7 @@ func (j *judgement) rejectsAroundShift(z []float64, level float64) (bool, error)
 // at α, that z is stationary around a straight line; asked, as a second
 // opinion, when ADF found unit-root evidence.
 func stationaryAroundLine(z []float64, alpha float64) bool {
-	kpss, err := KPSS(z, KPSSOptions{Deterministic: DeterministicTrend})
+	kpss, err := KPSS(z, KPSSOptions{Deterministic: DeterministicLevelAndSlope})
 	return err == nil && kpss.Status == StatusOK && !(kpss.PValue < alpha)
 }
 

@@ -63,7 +63,7 @@ func conditionFunctions(t *types) []*function {
 		{
 			name:     "plumb_white_noise",
 			params:   []duckdb.TypeInfo{t.doubles(), t.bigint(), t.bigint()},
-			result:   t.structOf(field{"statistic", t.double()}, field{"p_value", t.double()}, field{"lags", t.bigint()}, field{"df", t.bigint()}, field{"nobs", t.bigint()}, field{"status", t.varchar()}),
+			result:   t.structOf(field{"statistic", t.double()}, field{"p_value", t.double()}, field{"lags", t.bigint()}, field{"df", t.bigint()}, field{"observations", t.bigint()}, field{"status", t.varchar()}),
 			nullable: true,
 			eval: withSeries(func(x []float64, args []driver.Value) (any, error) {
 				lags, fitted, err := whiteNoiseArgs(args[1], args[2])
@@ -77,7 +77,7 @@ func conditionFunctions(t *types) []*function {
 				ok := r.Status == stats.StatusOK
 				return map[string]any{
 					"statistic": value(r.Statistic, ok), "p_value": value(r.PValue, ok),
-					"lags": int64(r.Lags), "df": int64(r.DF), "nobs": int64(r.NObs), "status": string(r.Status),
+					"lags": int64(r.Lags), "df": int64(r.DF), "observations": int64(r.Observations), "status": string(r.Status),
 				}, nil
 			}),
 		},
@@ -213,7 +213,7 @@ func seasonalityType(t *types) duckdb.TypeInfo {
 		field{"peak_autocorrelation", t.double()},
 		field{"seasonal_strength", t.double()}, field{"trend_strength", t.double()},
 		field{"seasonal", t.boolean()},
-		field{"seasonal_unit_root", t.boolean()}, field{"ocsb_statistic", t.double()}, field{"ocsb_critical_5pct", t.double()},
+		field{"seasonal_unit_root", t.boolean()}, field{"ocsb_statistic", t.double()}, field{"ocsb_cutoff_05", t.double()},
 		field{"status", t.varchar()},
 	)
 }
@@ -229,12 +229,12 @@ func seasonalityStruct(r stats.SeasonalityResult) map[string]any {
 		"peak_autocorrelation": orNull(r.PeakAutocorrelation),
 		"seasonal_strength":    value(r.SeasonalStrength, ok), "trend_strength": value(r.TrendStrength, ok),
 		"seasonal": r.Seasonal, "status": string(r.Status),
-		"seasonal_unit_root": nil, "ocsb_statistic": nil, "ocsb_critical_5pct": nil,
+		"seasonal_unit_root": nil, "ocsb_statistic": nil, "ocsb_cutoff_05": nil,
 	}
 	if r.OCSB.Status == stats.StatusOK {
 		out["seasonal_unit_root"] = r.OCSB.SeasonalUnitRoot
 		out["ocsb_statistic"] = r.OCSB.Statistic
-		out["ocsb_critical_5pct"] = r.OCSB.Critical5
+		out["ocsb_cutoff_05"] = r.OCSB.Critical5
 	}
 	return out
 }
