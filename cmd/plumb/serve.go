@@ -49,7 +49,7 @@ SIGINT or SIGTERM stops accepting, lets running statements finish for
 				users = string(b)
 			}
 			var err error
-			if cfg.Users, err = pgserver.ParseUsers(users); err != nil {
+			if cfg.Users, cfg.Roles, err = pgserver.ParseUsers(users); err != nil {
 				return err
 			}
 			if cfg.DataDir != "" {

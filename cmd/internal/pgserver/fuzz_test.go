@@ -16,7 +16,7 @@ func FuzzLex(f *testing.F) {
 		if got := join(lex(sql)); got != sql {
 			t.Fatalf("lex(%q) joined to %q", sql, got)
 		}
-		rewriteSQL(sql, "/data")
+		rewriteSQL(sql, testGate("/data"))
 		paramCastOIDs(lex(sql))
 		ownKind(sql)
 		parseCopyOptions(sql)
