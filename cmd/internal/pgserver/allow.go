@@ -150,6 +150,11 @@ func (g *gate) checkTokens(toks []token) error {
 		return token{}
 	}
 	first := at(0)
+	if g.role == RoleRead && first.kind == tokWord && changes[strings.ToLower(first.text)] {
+		// refused before DuckDB binds it (binding a COPY or EXPORT reads
+		// files); the statement type decides the rest after preparing
+		return refused("%s is not allowed for a read-only user (role read)", strings.ToUpper(first.text))
+	}
 	switch {
 	case first.is("pragma"):
 		name := at(1).name()
@@ -172,7 +177,9 @@ func (g *gate) checkTokens(toks []token) error {
 			return err
 		}
 	case first.is("copy"):
-		if to, ok := copyTarget(toks, idx); ok && to != "stdout" {
+		if to, ok := copyTarget(toks, idx); !ok && g.role == RoleRead {
+			return refused("COPY into a table is not allowed for a read-only user (role read)")
+		} else if ok && to != "stdout" {
 			if g.readOnly {
 				return refused("COPY to a file is not allowed: the server is read-only (--read-only)")
 			}
@@ -240,6 +247,12 @@ func (g *gate) checkTableCalls(toks []token, idx []int) error {
 	}
 	return nil
 }
+
+// changes are first words of statements that change the database or
+// files, refused to RoleRead before preparing (COPY is decided by its
+// target, in checkTokens).
+var changes = map[string]bool{"insert": true, "update": true, "delete": true, "create": true, "drop": true,
+	"alter": true, "export": true, "analyze": true, "truncate": true, "merge": true, "upsert": true}
 
 // fromEnds are the words that end a FROM clause at its level.
 var fromEnds = map[string]bool{"where": true, "group": true, "having": true, "order": true, "limit": true, "qualify": true,

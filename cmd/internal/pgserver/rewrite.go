@@ -350,6 +350,14 @@ func filePaths(r *rewriter) {
 	}
 	idx := significant(r.toks)
 	copyStmt := len(idx) > 0 && r.toks[idx[0]].is("copy")
+	if len(idx) > 0 && r.toks[idx[0]].is("export") { // EXPORT DATABASE [name] 'directory'
+		for _, i := range idx {
+			if r.toks[i].kind == tokString || r.toks[i].kind == tokParam {
+				r.file(i)
+				break
+			}
+		}
+	}
 	var openers []string // the word before each open parenthesis
 	for k, i := range idx {
 		t := r.toks[i]

@@ -71,7 +71,7 @@ func New(ctx context.Context, cfg Config, log *slog.Logger) (*Server, error) {
 		return nil, err
 	}
 	if s.names, err = readCatalogNames(ctx, db); err == nil {
-		err = lockDown(ctx, db, cfg, s.spill)
+		err = lockDown(ctx, db, cfg, s.files, s.spill)
 	}
 	if err != nil {
 		db.Close()
@@ -160,10 +160,10 @@ func readCatalogNames(ctx context.Context, db *sql.DB) (*catalogNames, error) {
 // locked configuration. DuckDB applies these settings to the whole
 // database; the allow-list (allow.go) and the file policy (rewrite.go)
 // check each statement before DuckDB sees it.
-func lockDown(ctx context.Context, db *sql.DB, cfg Config, spill string) error {
+func lockDown(ctx context.Context, db *sql.DB, cfg Config, files *sandbox.Paths, spill string) error {
 	stmts := []string{"SET temp_directory = " + udf.QuoteLiteral(spill)}
-	if cfg.DataDir != "" {
-		stmts = append(stmts, "SET allowed_directories = ["+udf.QuoteLiteral(cfg.DataDir)+"]")
+	if files.Data() != "" { // the policy writes every path with links resolved
+		stmts = append(stmts, "SET allowed_directories = ["+udf.QuoteLiteral(files.Data())+"]")
 	}
 	if cfg.MemoryLimit != "" {
 		stmts = append(stmts, "SET memory_limit = "+udf.QuoteLiteral(cfg.MemoryLimit))

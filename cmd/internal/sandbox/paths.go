@@ -68,8 +68,8 @@ func IsRefused(err error) bool {
 
 // Resolve turns a path a client wrote (relative to the data directory, or
 // absolute; a glob is allowed) into the absolute path under the data
-// directory it means, after resolving symbolic links of the part that
-// exists. It refuses a URL, a home-directory path, anything outside the
+// directory it means, with the symbolic links of the part that exists
+// resolved. It refuses a URL, a home-directory path, anything outside the
 // data directory, and the private paths and everything under them.
 func (p *Paths) Resolve(path string) (string, error) {
 	s := strings.TrimSpace(path)
@@ -98,7 +98,7 @@ func (p *Paths) Resolve(path string) (string, error) {
 			return "", &Refused{path, "is one of the server's own files (database or spill files), which clients cannot reach"}
 		}
 	}
-	return abs, nil
+	return real, nil
 }
 
 // Scrub removes the server's own paths from a message meant for a client:
