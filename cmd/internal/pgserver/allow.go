@@ -113,6 +113,7 @@ type gate struct {
 	role     Role
 	readOnly bool
 	catalog  *catalogNames
+	checking bool // a check of a statement about to run: every path must already be resolved
 }
 
 // catalogNames are the names of the database's functions, read once at
@@ -210,6 +211,8 @@ func attachHint(t token) string {
 func (g *gate) checkTableCalls(toks []token, idx []int) error {
 	type level struct{ inFrom bool }
 	levels := []level{{}}
+	first := toks[idx[0]]
+	ddl := first.is("create") || first.is("drop") || first.is("alter") || first.is("comment")
 	for k := 0; k < len(idx); k++ {
 		t := toks[idx[k]]
 		top := &levels[len(levels)-1]
@@ -238,7 +241,8 @@ func (g *gate) checkTableCalls(toks []token, idx []int) error {
 		fromItem := false
 		if k > 0 && !called {
 			p := toks[idx[k-1]]
-			fromItem = p.is("from") || p.is("join") || p.is(",") && top.inFrom
+			fromItem = p.is("from") || p.is("join") || p.is(",") && top.inFrom || p.kind == tokWord && tableWords[strings.ToLower(p.text)] ||
+				p.is("table") && !ddl
 		}
 		if (called || fromItem) && g.catalog.table[name] && !g.allowedTable(name) {
 			return refused("the table function %s is not allowed in plumb serve", name)
@@ -253,6 +257,11 @@ func (g *gate) checkTableCalls(toks []token, idx []int) error {
 // target, in checkTokens).
 var changes = map[string]bool{"insert": true, "update": true, "delete": true, "create": true, "drop": true,
 	"alter": true, "export": true, "analyze": true, "truncate": true, "merge": true, "upsert": true}
+
+// tableWords are words after which a bare name is a table reference:
+// COPY x TO, DESCRIBE x, SUMMARIZE x, SHOW x, PIVOT x, UPDATE x.
+var tableWords = map[string]bool{"copy": true, "describe": true, "summarize": true, "show": true, "pivot": true,
+	"unpivot": true, "pivot_wider": true, "pivot_longer": true, "update": true}
 
 // fromEnds are the words that end a FROM clause at its level.
 var fromEnds = map[string]bool{"where": true, "group": true, "having": true, "order": true, "limit": true, "qualify": true,
@@ -424,6 +433,8 @@ func (g *gate) check(sql string) error {
 	if g == nil {
 		return nil
 	}
-	_, _, err := rewriteSQL(sql, g)
+	strict := *g
+	strict.checking = true
+	_, _, err := rewriteSQL(sql, &strict)
 	return err
 }

@@ -102,6 +102,16 @@ func TestAllowList(t *testing.T) {
 		{write, "FROM combine_diagnoses('/etc/parts/*.parquet')", "outside"},
 		{write, "FROM diagnose(lower('X.CSV'), by := 'a', at := 'b', value := 'c')", "literal"},
 		{write, "SELECT trim(BOTH 'x' FROM 'xyx'), 'a' IS DISTINCT FROM 'b'", ""},
+		{write, "FROM diagnose(sales, by := 'a', at := 'b', value := 'c')", ""},
+		{write, "CREATE MACRO rd(p) AS TABLE FROM diagnose(p, by := 'a', at := 'b', value := 'c')", "literal"},
+		{write, "CREATE MACRO rd(p) AS TABLE FROM read_blob(p)", "literal"},
+		{write, `FROM diagnose('"t", duckdb_logs', by := 'a', at := 'b', value := 'c')`, "one table"},
+		{write, `FROM diagnose('"main"."t"', by := 'a', at := 'b', value := 'c')`, ""},
+		{write, "COPY duckdb_logs TO 'x.csv'", "duckdb_logs"},
+		{write, "DESCRIBE duckdb_logs", "duckdb_logs"},
+		{write, "SUMMARIZE duckdb_logs", "duckdb_logs"},
+		{write, "TABLE duckdb_logs", "duckdb_logs"},
+		{write, "COPY '../x.csv' TO STDOUT", "outside"},
 	} {
 		_, _, err := rewriteSQL(test.sql, test.g)
 		switch {

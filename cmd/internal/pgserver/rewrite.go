@@ -21,6 +21,9 @@ type rewriter struct {
 	gate  *gate        // what the session may run; nil: rewrite only
 	paths map[int]bool // parameters ($n) that name a file (false) or a source (true), to check once bound
 	err   error        // the first refusal
+	// inMacro: the statement creates a macro, whose body's bare names may
+	// be its parameters
+	inMacro bool
 }
 
 // tokenRule is one rewrite on a statement's tokens.
@@ -350,6 +353,20 @@ func filePaths(r *rewriter) {
 	}
 	idx := significant(r.toks)
 	copyStmt := len(idx) > 0 && r.toks[idx[0]].is("copy")
+	if copyStmt && len(idx) > 1 && (r.toks[idx[1]].kind == tokString || r.toks[idx[1]].kind == tokParam) {
+		r.file(idx[1]) // COPY 'file' TO ...
+	}
+	// In a macro's body a bare name may be the macro's parameter, so a
+	// source or path there must be a literal.
+	r.inMacro = false
+	for _, i := range idx {
+		if t := r.toks[i]; t.is("macro") || t.is("function") {
+			r.inMacro = r.toks[idx[0]].is("create")
+			break
+		} else if t.is("as") || t.is("(") {
+			break
+		}
+	}
 	if len(idx) > 0 && r.toks[idx[0]].is("export") { // EXPORT DATABASE [name] 'directory'
 		for _, i := range idx {
 			if r.toks[i].kind == tokString || r.toks[i].kind == tokParam {
@@ -465,7 +482,7 @@ func (r *rewriter) argument(name string, arg []int, check func(int)) {
 		}
 	} else {
 		if !literal(first) {
-			if _, isSource := sourceArguments[name]; isSource && r.isName(arg) {
+			if _, isSource := sourceArguments[name]; isSource && r.isName(arg) && !r.inMacro {
 				return // a table name written as an identifier
 			}
 			r.fail(refused("the source or path given to %s must be a '...' literal or a parameter in plumb serve", name))
@@ -519,6 +536,10 @@ func (r *rewriter) file(i int) {
 		r.fail(err)
 		return
 	}
+	if r.gate.checking && p != v {
+		r.fail(refused("path %q was not resolved against the data directory before it ran", v))
+		return
+	}
 	r.toks[i] = token{tokString, sqlQuote(p)}
 }
 
@@ -559,7 +580,18 @@ func (g *gate) sourceValue(v string) (string, error) {
 		sql, _, err := rewriteSQL(s, g)
 		return sql, err
 	case fileLike.MatchString(s):
-		return g.fileValue(s)
+		p, err := g.fileValue(s)
+		if err == nil && g.checking && p != s {
+			return "", refused("path %q was not resolved against the data directory before it ran", s)
+		}
+		return p, err
+	case strings.HasPrefix(s, `"`):
+		// a quoted name is used as written (udf/source.go): it must be
+		// one name, or one could write "t", duckdb_logs
+		r := &rewriter{toks: lex(s)}
+		if !r.isName(significant(r.toks)) {
+			return "", refused("the source %s is not one table or view name", s)
+		}
 	}
 	return v, nil
 }
