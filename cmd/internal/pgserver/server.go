@@ -217,6 +217,11 @@ func (s *Server) Serve(ln net.Listener) error {
 	}
 }
 
+// Files is the server's file policy, for anything else in the process that
+// serves files to clients: a path a client names is reachable only if
+// Files().Resolve allows it.
+func (s *Server) Files() *sandbox.Paths { return s.files }
+
 // Addr is the listening address (useful with port 0).
 func (s *Server) Addr() net.Addr {
 	s.mu.Lock()
