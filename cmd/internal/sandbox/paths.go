@@ -135,14 +135,10 @@ func realpath(path string) (string, error) {
 	if err != nil {
 		return "", err
 	}
-	rest := ""
-	cur := abs
-	for {
-		if r, err := filepath.EvalSymlinks(cur); err == nil {
-			return filepath.Join(r, rest), nil
-		} else if !errors.Is(err, os.ErrNotExist) && !strings.ContainsAny(filepath.Base(cur), "*?[{") {
-			// a component that exists but cannot be read: keep it as written
-			return abs, nil
+	cur, rest := abs, ""
+	for { // the longest prefix that exists, one lstat a step
+		if _, err := os.Lstat(cur); err == nil {
+			break
 		}
 		parent := filepath.Dir(cur)
 		if parent == cur {
@@ -151,4 +147,12 @@ func realpath(path string) (string, error) {
 		rest = filepath.Join(filepath.Base(cur), rest)
 		cur = parent
 	}
+	r, err := filepath.EvalSymlinks(cur)
+	if err != nil {
+		if errors.Is(err, os.ErrNotExist) { // a link to nothing: refuse to guess
+			return "", err
+		}
+		return abs, nil // a component that cannot be read: kept as written
+	}
+	return filepath.Join(r, rest), nil
 }
