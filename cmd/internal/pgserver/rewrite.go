@@ -24,6 +24,7 @@ type rewriter struct {
 	// inMacro: the statement creates a macro, whose body's bare names may
 	// be its parameters
 	inMacro bool
+	closing []int // filePaths: closings of the significant tokens
 }
 
 // tokenRule is one rewrite on a statement's tokens.
@@ -45,9 +46,9 @@ func rules() []tokenRule {
 		{"COLLATE pg_catalog.default and COLLATE \"C\" are dropped", dropCollate},
 		{"pg_catalog.x becomes x, information_schema.x too where the layer has an x", qualifiedCompat},
 		{"'name'::regclass, ::regtype and ::regproc look the name up", regLiteral},
+		{"paths are checked by the sandbox; relative ones resolve against --data", filePaths},
 		{"a select item that is one function call is named after the function", functionColumnName},
 		{"LIKE patterns escape with a backslash, as PostgreSQL's do by default", likeEscape},
-		{"paths are checked by the sandbox; relative ones resolve against --data", filePaths},
 	}
 }
 
@@ -58,8 +59,8 @@ func rewriteSQL(sql string, g *gate) (string, map[int]bool, error) {
 	for _, rule := range tokenRules {
 		rule.apply(r)
 	}
-	if g != nil && r.err == nil {
-		r.err = g.checkTokens(r.toks)
+	if g != nil && r.err == nil { // on the statement as DuckDB will read it
+		r.err = g.checkTokens(lex(join(r.toks)))
 	}
 	return join(r.toks), r.paths, r.err
 }
@@ -352,6 +353,15 @@ func filePaths(r *rewriter) {
 		return
 	}
 	idx := significant(r.toks)
+	r.closing = closings(r.toks, idx)
+	for k, c := range r.closing {
+		if c < 0 && (r.toks[idx[k]].is("(") || r.toks[idx[k]].is("[")) {
+			// DuckDB would not parse it either; refusing it here keeps
+			// every check below linear
+			r.fail(pgError{stateSyntax, "syntax error: a parenthesis or bracket is not closed"})
+			return
+		}
+	}
 	copyStmt := len(idx) > 0 && r.toks[idx[0]].is("copy")
 	if copyStmt && len(idx) > 1 && (r.toks[idx[1]].kind == tokString || r.toks[idx[1]].kind == tokParam) {
 		r.file(idx[1]) // COPY 'file' TO ...
@@ -422,25 +432,14 @@ func (r *rewriter) arguments(name string, idx []int, open int, positions []int, 
 	for _, p := range positions {
 		want[p] = true
 	}
-	pos, depth, start := 1, 0, open+1
+	pos, start := 1, open+1
 	for k := open + 1; k < len(idx); k++ {
 		t := r.toks[idx[k]]
-		end := false
-		switch {
-		case t.is("(") || t.is("["):
-			depth++
-		case t.is("]"):
-			depth--
-		case t.is(")"):
-			if depth == 0 {
-				end = true
-			} else {
-				depth--
-			}
-		case t.is(",") && depth == 0:
-			end = true
+		if (t.is("(") || t.is("[")) && r.closing[k] > k {
+			k = r.closing[k] // skip what is nested: each token is looked at once per call
+			continue
 		}
-		if !end {
+		if !t.is(")") && !t.is(",") {
 			continue
 		}
 		if want[pos] && k > start {
@@ -451,6 +450,24 @@ func (r *rewriter) arguments(name string, idx []int, open int, positions []int, 
 		}
 		pos, start = pos+1, k+1
 	}
+}
+
+// closings pairs each opening parenthesis or bracket (by its position in
+// idx) with its closing one, -1 where none closes it.
+func closings(toks []token, idx []int) []int {
+	out := make([]int, len(idx))
+	var open []int
+	for k, i := range idx {
+		out[k] = -1
+		switch t := toks[i]; {
+		case t.is("(") || t.is("["):
+			open = append(open, k)
+		case (t.is(")") || t.is("]")) && len(open) > 0:
+			out[open[len(open)-1]] = k
+			open = open[:len(open)-1]
+		}
+	}
+	return out
 }
 
 // argument checks one argument's tokens (indexes into r.toks).
