@@ -138,9 +138,29 @@ func (g *gate) allowedTable(name string) bool {
 	return ok
 }
 
-// checkTokens runs the token checks of the allow-list on one statement.
+// checkTokens runs the token checks of the allow-list on a statement,
+// and on each statement if a semicolon the splitter did not cut at
+// (statements.Split) leaves several: DuckDB would run them all.
 func (g *gate) checkTokens(toks []token) error {
-	idx := significant(toks)
+	all := significant(toks)
+	start := 0
+	for k := 0; k <= len(all); k++ {
+		if k < len(all) && !toks[all[k]].is(";") {
+			continue
+		}
+		if k > start {
+			if err := g.checkStatement(toks, all[start:k]); err != nil {
+				return err
+			}
+		}
+		start = k + 1
+	}
+	return nil
+}
+
+// checkStatement runs the token checks on one statement, whose
+// significant tokens are idx.
+func (g *gate) checkStatement(toks []token, idx []int) error {
 	if len(idx) == 0 {
 		return nil
 	}
@@ -246,6 +266,9 @@ func (g *gate) checkTableCalls(toks []token, idx []int) error {
 		}
 		if (called || fromItem) && g.catalog.table[name] && !g.allowedTable(name) {
 			return refused("the table function %s is not allowed in plumb serve", name)
+		}
+		if called && g.role == RoleRead && (name == "nextval" || name == "setval") {
+			return refused("%s changes a sequence of the shared database: not allowed for a read-only user (role read)", name)
 		}
 		k = last
 	}

@@ -112,6 +112,10 @@ func TestAllowList(t *testing.T) {
 		{write, "SUMMARIZE duckdb_logs", "duckdb_logs"},
 		{write, "TABLE duckdb_logs", "duckdb_logs"},
 		{write, "COPY '../x.csv' TO STDOUT", "outside"},
+		{write, "SELECT 1; PRAGMA enable_profiling", "enable_profiling"},
+		{write, "SELECT 1; ATTACH ':memory:' AS x", "ATTACH"},
+		{read, "SELECT nextval('seq')", "nextval"},
+		{write, "SELECT nextval('seq')", ""},
 	} {
 		_, _, err := rewriteSQL(test.sql, test.g)
 		switch {
