@@ -52,7 +52,7 @@ func TestRewriteRules(t *testing.T) {
 		{`WHERE c.relname LIKE 'jdbc\_%'`, `WHERE c.relname LIKE 'jdbc\_%' ESCAPE '\'`},
 		{`WHERE c.relname LIKE 'a\_b' ESCAPE '!'`, `WHERE c.relname LIKE 'a\_b' ESCAPE '!'`},
 		{`WHERE c.relname LIKE 'plain%'`, `WHERE c.relname LIKE 'plain%'`},
-		// relativePaths (data directory /srv/data)
+		// filePaths (data directory /srv/data)
 		{"SELECT * FROM 'shops.parquet'", "SELECT * FROM '/srv/data/shops.parquet'"},
 		{"SELECT * FROM read_csv('in/x.csv', header = true)", "SELECT * FROM read_csv('/srv/data/in/x.csv', header = true)"},
 		{"SELECT * FROM read_parquet(['a.parquet', 'b.parquet'])", "SELECT * FROM read_parquet(['/srv/data/a.parquet', '/srv/data/b.parquet'])"},
