@@ -13,6 +13,8 @@ import (
 	"time"
 
 	"github.com/jackc/pgx/v5"
+
+	"github.com/plumb-sql/plumb/stats/longtests"
 )
 
 // TestLoad: 32 concurrent clients each run 200 mixed statements against a
@@ -27,9 +29,7 @@ import (
 // intended errors may occur, and the server must still serve at the end;
 // p50 and p99 latency and the process's peak RSS are printed.
 func TestLoad(t *testing.T) {
-	if testing.Short() {
-		t.Skip("load test")
-	}
+	longtests.Require(t, "32 clients × 200 statements on loopback beside 8 abusive clients, about 45 s on an idle machine")
 	ts := startServer(t, attackConfig(Config{MaxConns: 48}))
 	file := writeSeries(t, ts.data)
 	const clients, each = 32, 200
