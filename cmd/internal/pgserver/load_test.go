@@ -29,7 +29,7 @@ import (
 // intended errors may occur, and the server must still serve at the end;
 // p50 and p99 latency and the process's peak RSS are printed.
 func TestLoad(t *testing.T) {
-	longtests.Require(t, "32 clients × 200 statements on loopback beside 8 abusive clients, about 45 s on an idle machine")
+	longtests.Require(t, "32 clients × 200 statements on loopback beside 8 abusive clients, about 3 min on 2 busy cores")
 	ts := startServer(t, attackConfig(Config{MaxConns: 48}))
 	file := writeSeries(t, ts.data)
 	const clients, each = 32, 200
