@@ -104,7 +104,9 @@ func TestLoad(t *testing.T) {
 	var latencies []time.Duration
 	var unexpected []string
 	var wg sync.WaitGroup
-	ctx, cancel := context.WithTimeout(context.Background(), 3*time.Minute)
+	// A bound on the whole run, not a latency target: on 2 cores shared with
+	// other work the 32 alone took 172 s.
+	ctx, cancel := context.WithTimeout(context.Background(), 6*time.Minute)
 	defer cancel()
 	attacksDone := make(chan int, len(loadAttacks))
 	stop := make(chan struct{})
