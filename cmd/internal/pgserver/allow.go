@@ -171,6 +171,28 @@ func (g *gate) checkStatement(toks []token, idx []int) error {
 		return token{}
 	}
 	first := at(0)
+	if first.is("explain") { // EXPLAIN [ANALYZE] [(options)] statement: check the statement
+		k := 1
+		if at(k).is("analyze") {
+			k++
+		}
+		if at(k).is("(") {
+			for depth := 0; k < len(idx); k++ {
+				if at(k).is("(") {
+					depth++
+				} else if at(k).is(")") {
+					if depth--; depth == 0 {
+						k++
+						break
+					}
+				}
+			}
+		}
+		if k < len(idx) {
+			return g.checkStatement(toks, idx[k:])
+		}
+		return nil
+	}
 	if g.role == RoleRead && first.kind == tokWord && changes[strings.ToLower(first.text)] {
 		// refused before DuckDB binds it (binding a COPY or EXPORT reads
 		// files); the statement type decides the rest after preparing

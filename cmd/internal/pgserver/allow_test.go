@@ -115,6 +115,11 @@ func TestAllowList(t *testing.T) {
 		{write, "SELECT 1; PRAGMA enable_profiling", "enable_profiling"},
 		{write, "SELECT 1; ATTACH ':memory:' AS x", "ATTACH"},
 		{read, "SELECT nextval('seq')", "nextval"},
+		{write, "EXPLAIN PRAGMA enable_profiling", "enable_profiling"},
+		{write, "EXPLAIN ANALYZE ATTACH ':memory:' AS x", "ATTACH"},
+		{read, "EXPLAIN ANALYZE (FORMAT json) INSERT INTO t VALUES (1)", "INSERT"},
+		{write, "EXPLAIN SELECT * FROM duckdb_logs", "duckdb_logs"},
+		{write, "EXPLAIN ANALYZE SELECT 1", ""},
 		{write, "SELECT nextval('seq')", ""},
 	} {
 		_, _, err := rewriteSQL(test.sql, test.g)
