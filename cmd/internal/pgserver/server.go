@@ -6,7 +6,6 @@ import (
 	"crypto/subtle"
 	"crypto/tls"
 	"database/sql"
-	"errors"
 	"fmt"
 	"log/slog"
 	"net"
@@ -30,6 +29,8 @@ type Server struct {
 	mu       sync.Mutex
 	ln       net.Listener
 	sessions map[uint32]*session
+	open     int // connections holding a slot, logged in or not
+	refusing int // connections being told the server is full
 	closing  atomic.Bool
 	version  string // what version() answers
 	wg       sync.WaitGroup
@@ -110,32 +111,7 @@ func (s *Server) Serve(ln net.Listener) error {
 	s.ln = ln
 	s.mu.Unlock()
 	s.log.Info("listening", "addr", ln.Addr().String(), "auth", s.cfg.Auth, "tls", s.tls != nil, "data", s.cfg.DataDir)
-	for {
-		c, err := ln.Accept()
-		if err != nil {
-			if s.closing.Load() {
-				return nil
-			}
-			var ne net.Error
-			if errors.As(err, &ne) && ne.Timeout() {
-				continue
-			}
-			return err
-		}
-		s.wg.Add(1)
-		go func() {
-			defer s.wg.Done()
-			defer func() {
-				// A bug met by one client's input ends that session, not
-				// the server and everyone else's.
-				if r := recover(); r != nil {
-					s.log.Error("session ended by an internal error", "remote", c.RemoteAddr().String(), "panic", fmt.Sprint(r))
-					c.Close()
-				}
-			}()
-			s.handle(c)
-		}()
-	}
+	return s.acceptLoop(ln)
 }
 
 // Addr is the listening address (useful with port 0).
@@ -148,14 +124,12 @@ func (s *Server) Addr() net.Addr {
 	return s.ln.Addr()
 }
 
-func (s *Server) register(sess *session) bool {
+// register makes a logged-in session known to cancel requests and
+// shutdown; its connection already holds a slot (admit).
+func (s *Server) register(sess *session) {
 	s.mu.Lock()
 	defer s.mu.Unlock()
-	if len(s.sessions) >= s.cfg.MaxConns {
-		return false
-	}
 	s.sessions[sess.pid] = sess
-	return true
 }
 
 func (s *Server) unregister(sess *session) {

@@ -22,6 +22,8 @@ type session struct {
 	srv      *Server
 	conn     net.Conn
 	be       *pgproto3.Backend
+	frames   *frameReader
+	full     bool // the connection holds no slot: refuse the login
 	db       *sql.Conn
 	log      *slog.Logger
 	pid      uint32
@@ -38,14 +40,18 @@ type session struct {
 
 	mu     sync.Mutex
 	cancel context.CancelFunc // of the running statement
+	// stopWatch ends the watchPeer of the running statement.
+	stopWatch chan struct{}
 	busy   bool
 }
 
-func (s *Server) handle(c net.Conn) {
+// handle serves one connection; full means it holds no slot and is only
+// told that the server is full (a cancel request is still honoured).
+func (s *Server) handle(c net.Conn, full bool) {
 	start := time.Now()
-	sess := &session{srv: s, conn: c, be: pgproto3.NewBackend(c, c), txn: 'I',
+	sess := &session{srv: s, txn: 'I', full: full,
 		params: map[string]string{}, statements: map[string]*prepared{}, portals: map[string]*portal{}}
-	sess.be.SetMaxBodyLen(64 << 20)
+	sess.attach(c)
 	sess.log = s.log.With("remote", c.RemoteAddr().String())
 	defer c.Close()
 	ok, err := sess.startup()
@@ -71,7 +77,11 @@ func (s *Server) handle(c net.Conn) {
 // startup handles SSL negotiation, cancel requests, the startup message and
 // authentication; ok reports whether a session was established.
 func (sess *session) startup() (bool, error) {
-	sess.conn.SetDeadline(time.Now().Add(30 * time.Second))
+	timeout := sess.srv.cfg.AuthTimeout
+	if sess.full {
+		timeout = min(timeout, refusalTimeout)
+	}
+	sess.conn.SetDeadline(time.Now().Add(timeout))
 	defer sess.conn.SetDeadline(time.Time{})
 	for {
 		msg, err := sess.be.ReceiveStartupMessage()
@@ -93,9 +103,7 @@ func (sess *session) startup() (bool, error) {
 			if err := t.Handshake(); err != nil {
 				return false, fmt.Errorf("TLS handshake: %w", err)
 			}
-			sess.conn = t
-			sess.be = pgproto3.NewBackend(t, t)
-			sess.be.SetMaxBodyLen(64 << 20)
+			sess.attach(t)
 		case *pgproto3.GSSEncRequest:
 			if _, err := sess.conn.Write([]byte{'N'}); err != nil {
 				return false, err
@@ -123,6 +131,14 @@ func (sess *session) login(m *pgproto3.StartupMessage) (bool, error) {
 		sess.fatal(stateAdminShutdown, "the server is shutting down")
 		return false, nil
 	}
+	if sess.full {
+		sess.fatal(stateTooManyConns, fmt.Sprintf("sorry, too many connections (at most %d)", srv.cfg.MaxConns))
+		return false, nil
+	}
+	if _, secure := sess.conn.(*tls.Conn); srv.cfg.TLSRequired && !secure {
+		sess.fatal(stateInvalidAuthSpec, "this server accepts TLS connections only: connect with sslmode=require or stronger")
+		return false, nil
+	}
 	if sess.user == "" {
 		sess.fatal(stateInvalidAuthSpec, "no user name given")
 		return false, nil
@@ -145,10 +161,7 @@ func (sess *session) login(m *pgproto3.StartupMessage) (bool, error) {
 	}
 	sess.pid = srv.nextPID.Add(1)
 	sess.secret = randomSecret()
-	if !srv.register(sess) {
-		sess.fatal(stateTooManyConns, fmt.Sprintf("too many connections (at most %d)", srv.cfg.MaxConns))
-		return false, nil
-	}
+	srv.register(sess)
 	db, err := srv.db.Conn(context.Background())
 	if err != nil {
 		srv.unregister(sess)
@@ -172,6 +185,7 @@ func (sess *session) login(m *pgproto3.StartupMessage) (bool, error) {
 		sess.fatal(stateInternal, err.Error())
 		return false, nil
 	}
+	sess.frames.limit = maxMessage
 	sess.be.Send(&pgproto3.AuthenticationOk{})
 	for _, name := range startupParameters {
 		sess.be.Send(&pgproto3.ParameterStatus{Name: name, Value: sess.param(strings.ToLower(name))})
@@ -317,8 +331,10 @@ func (sess *session) begin() context.Context {
 	} else {
 		ctx, cancel = context.WithCancel(ctx)
 	}
+	stop := make(chan struct{})
+	go sess.watchPeer(ctx, cancel, stop)
 	sess.mu.Lock()
-	sess.cancel, sess.busy = cancel, true
+	sess.cancel, sess.busy, sess.stopWatch = cancel, true, stop
 	sess.mu.Unlock()
 	return ctx
 }
@@ -328,7 +344,10 @@ func (sess *session) end() {
 	if sess.cancel != nil {
 		sess.cancel()
 	}
-	sess.cancel, sess.busy = nil, false
+	if sess.stopWatch != nil {
+		close(sess.stopWatch)
+	}
+	sess.cancel, sess.busy, sess.stopWatch = nil, false, nil
 	sess.mu.Unlock()
 }
 
