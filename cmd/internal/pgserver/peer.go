@@ -37,4 +37,3 @@ func (sess *session) watchPeer(ctx context.Context, cancel context.CancelFunc, s
 		}
 	}
 }
-

@@ -42,7 +42,7 @@ type session struct {
 	cancel context.CancelFunc // of the running statement
 	// stopWatch ends the watchPeer of the running statement.
 	stopWatch chan struct{}
-	busy   bool
+	busy      bool
 }
 
 // handle serves one connection; full means it holds no slot and is only
