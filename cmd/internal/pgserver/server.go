@@ -20,11 +20,12 @@ import (
 
 // Server accepts PostgreSQL clients and serves them from one database.
 type Server struct {
-	cfg   Config
-	db    *sql.DB
-	creds credentials
-	tls   *tls.Config
-	log   *slog.Logger
+	cfg    Config
+	db     *sql.DB
+	creds  credentials
+	logins *loginThrottle
+	tls    *tls.Config
+	log    *slog.Logger
 
 	mu       sync.Mutex
 	ln       net.Listener
@@ -42,7 +43,7 @@ func New(ctx context.Context, cfg Config, log *slog.Logger) (*Server, error) {
 	if err := cfg.Check(); err != nil {
 		return nil, err
 	}
-	s := &Server{cfg: cfg, log: log, sessions: map[uint32]*session{}}
+	s := &Server{cfg: cfg, log: log, sessions: map[uint32]*session{}, logins: newLoginThrottle(cfg.FailedLoginDelay)}
 	if cfg.TLSCert != "" {
 		cert, err := tls.LoadX509KeyPair(cfg.TLSCert, cfg.TLSKey)
 		if err != nil {

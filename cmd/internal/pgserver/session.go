@@ -23,7 +23,8 @@ type session struct {
 	conn     net.Conn
 	be       *pgproto3.Backend
 	frames   *frameReader
-	full     bool // the connection holds no slot: refuse the login
+	full     bool      // the connection holds no slot: refuse the login
+	loginBy  time.Time // the --auth-timeout deadline
 	db       *sql.Conn
 	log      *slog.Logger
 	pid      uint32
@@ -81,7 +82,8 @@ func (sess *session) startup() (bool, error) {
 	if sess.full {
 		timeout = min(timeout, refusalTimeout)
 	}
-	sess.conn.SetDeadline(time.Now().Add(timeout))
+	sess.loginBy = time.Now().Add(timeout)
+	sess.conn.SetDeadline(sess.loginBy)
 	defer sess.conn.SetDeadline(time.Time{})
 	for {
 		msg, err := sess.be.ReceiveStartupMessage()
@@ -144,10 +146,22 @@ func (sess *session) login(m *pgproto3.StartupMessage) (bool, error) {
 		return false, nil
 	}
 	if srv.cfg.Auth == "scram" {
+		host, _, _ := net.SplitHostPort(sess.conn.RemoteAddr().String())
+		keys := loginKeys(sess.user, host)
+		if wait := srv.logins.wait(keys); wait > 0 {
+			if time.Now().Add(wait).After(sess.loginBy) {
+				sess.log.Warn("login refused: too many failed logins", "user", sess.user)
+				sess.fatal(stateInvalidPassword, fmt.Sprintf("too many failed logins for this user or address; try again in %s", wait.Round(time.Second)))
+				return false, nil
+			}
+			time.Sleep(wait)
+		}
 		if err := scramLogin(sess.be, srv.creds, sess.user); err != nil {
 			var le errLogin
 			if errors.As(err, &le) {
-				time.Sleep(srv.cfg.FailedLoginDelay)
+				// The answer waits its turn, but no longer than the
+				// login deadline; later attempts still queue (wait above).
+				time.Sleep(min(srv.logins.failed(keys), time.Until(sess.loginBy)-50*time.Millisecond))
 				sess.log.Warn("login failed", "user", sess.user, "reason", le.reason)
 				code := stateInvalidPassword
 				if strings.Contains(le.reason, "expected") || strings.Contains(le.reason, "mechanism") || strings.Contains(le.reason, "malformed") {
@@ -158,6 +172,7 @@ func (sess *session) login(m *pgproto3.StartupMessage) (bool, error) {
 			}
 			return false, err
 		}
+		srv.logins.succeeded(keys)
 	}
 	sess.pid = srv.nextPID.Add(1)
 	sess.secret = randomSecret()
