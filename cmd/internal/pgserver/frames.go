@@ -82,9 +82,12 @@ func (f *frameReader) next() error {
 	} else {
 		f.buf = make([]byte, 0, 8192) // let a large buffer go once handed on
 	}
-	if !f.typed && binary.BigEndian.Uint32(msg) != sslRequestCode && binary.BigEndian.Uint32(msg) != gssEncRequestCode &&
-		binary.BigEndian.Uint32(msg) != cancelRequestCode {
-		f.typed = true // a startup message: typed messages follow
+	if !f.typed {
+		switch binary.BigEndian.Uint32(msg[4:]) {
+		case sslRequestCode, gssEncRequestCode, cancelRequestCode:
+		default:
+			f.typed = true // a startup message: typed messages follow
+		}
 	}
 	f.pending = msg
 	return nil

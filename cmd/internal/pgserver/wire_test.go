@@ -4,6 +4,7 @@ import (
 	"bufio"
 	"bytes"
 	"encoding/binary"
+	"fmt"
 	"io"
 	"net"
 	"runtime"
@@ -193,3 +194,38 @@ func TestHugeArrayBindKeepsServing(t *testing.T) {
 		})
 	}
 }
+
+// TestFrameReaderStartup: the untyped packets before the startup message
+// (SSLRequest, GSSENCRequest) keep the reader untyped, the startup
+// message switches it to typed messages, and each is handed on whole.
+func TestFrameReaderStartup(t *testing.T) {
+	packet := func(code uint32, body string) []byte {
+		b := binary.BigEndian.AppendUint32(nil, uint32(8+len(body)))
+		return append(binary.BigEndian.AppendUint32(b, code), body...)
+	}
+	var in []byte
+	in = append(in, packet(sslRequestCode, "")...)
+	in = append(in, packet(gssEncRequestCode, "")...)
+	in = append(in, packet(196608, "user\x00ana\x00\x00")...)
+	in = append(in, 'Q', 0, 0, 0, 13)
+	in = append(in, "SELECT 1\x00"...)
+	be := pgproto3.NewBackend(newFrameReader(bytes.NewReader(in)), io.Discard)
+	var got []string
+	for range 3 {
+		m, err := be.ReceiveStartupMessage()
+		if err != nil {
+			t.Fatal(err)
+		}
+		got = append(got, fmtType(m))
+	}
+	m, err := be.Receive()
+	if err != nil {
+		t.Fatal(err)
+	}
+	got = append(got, fmtType(m))
+	if want := "*pgproto3.SSLRequest *pgproto3.GSSEncRequest *pgproto3.StartupMessage *pgproto3.Query"; strings.Join(got, " ") != want {
+		t.Errorf("got %v, want %s", got, want)
+	}
+}
+
+func fmtType(v any) string { return fmt.Sprintf("%T", v) }
