@@ -83,6 +83,11 @@ func (c *Config) Check() error {
 	if c.MaxConns < 0 || c.AuthTimeout < 0 {
 		return fmt.Errorf("--max-connections and --auth-timeout must not be negative")
 	}
+	if c.MemoryLimit != "" {
+		if _, err := byteSize(c.MemoryLimit); err != nil {
+			return fmt.Errorf("--memory-limit: %w", err)
+		}
+	}
 	if c.DataDir != "" {
 		st, err := os.Stat(c.DataDir)
 		if err != nil || !st.IsDir() {

@@ -9,6 +9,7 @@ import (
 	"fmt"
 	"log/slog"
 	"net"
+	"runtime/debug"
 	"sort"
 	"strings"
 	"sync"
@@ -58,7 +59,15 @@ func New(ctx context.Context, cfg Config, log *slog.Logger) (*Server, error) {
 		}
 		s.creds = creds
 	}
-	db, err := udf.Open(ctx, udf.Options{Path: cfg.DBPath, ReadOnly: cfg.ReadOnly})
+	var memoryLimit int64
+	if cfg.MemoryLimit != "" {
+		memoryLimit, _ = byteSize(cfg.MemoryLimit) // Check read it
+		// The Go heap (plumb's functions, the sessions' buffers) is held
+		// to the same limit as DuckDB's buffers; the setting is the
+		// process's.
+		debug.SetMemoryLimit(memoryLimit)
+	}
+	db, err := udf.Open(ctx, udf.Options{Path: cfg.DBPath, ReadOnly: cfg.ReadOnly, MemoryLimit: memoryLimit})
 	if err != nil {
 		return nil, err
 	}
