@@ -85,6 +85,7 @@ func FuzzExtended(f *testing.F) {
 			codes = append(codes, int16(formats>>4&1))
 		}
 		oids := []uint32{fuzzOIDs[int(oid)%len(fuzzOIDs)], fuzzOIDs[int(oid)/len(fuzzOIDs)%len(fuzzOIDs)]}
+		start := time.Now()
 		got := sendAndRead(c,
 			&pgproto3.Parse{Name: "s", Query: fuzzQueries[int(query)%len(fuzzQueries)], ParameterOIDs: oids[:1+int(formats>>5&1)]},
 			&pgproto3.Describe{ObjectType: 'S', Name: "s"},
@@ -97,7 +98,7 @@ func FuzzExtended(f *testing.F) {
 			&pgproto3.Sync{},
 		)
 		if len(got) == 0 {
-			t.Fatalf("no answer")
+			t.Fatalf("no answer after %v", time.Since(start))
 		}
 		if _, ok := got[len(got)-1].(*pgproto3.ReadyForQuery); !ok {
 			t.Fatalf("the session ended without ReadyForQuery: %#v", got)
