@@ -231,7 +231,8 @@ func TestServeProcess(t *testing.T) {
 		t.Skip("only run as a child of TestShutdownDuringCreateTable")
 	}
 	grace, _ := time.ParseDuration(os.Getenv("PLUMB_TEST_SERVE_GRACE"))
-	cfg := Config{Addr: "127.0.0.1:0", Auth: "trust", DBPath: dbPath, DataDir: filepath.Dir(dbPath), Grace: grace}
+	cfg := Config{Addr: "127.0.0.1:0", Auth: "trust", DBPath: dbPath, DataDir: filepath.Dir(dbPath), Grace: grace,
+		MemoryLimit: os.Getenv("PLUMB_TEST_SERVE_MEMORY")}
 	err := Run(context.Background(), cfg, slog.New(slog.NewTextHandler(io.Discard, nil)), func(a net.Addr) {
 		fmt.Printf("listening %s\n", a)
 	})

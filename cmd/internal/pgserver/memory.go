@@ -32,3 +32,9 @@ func byteSize(s string) (int64, error) {
 	}
 	return int64(n * scale), nil
 }
+
+// processMemoryCap is the private memory the whole serving process may
+// take under --memory-limit m: m for DuckDB's buffers, m for the Go heap
+// (debug.SetMemoryLimit) and what DuckDB allocates outside its buffer
+// manager, and 512 MiB for thread stacks and libraries (plumb's own rule).
+func processMemoryCap(m int64) int64 { return 2*m + 512<<20 }
