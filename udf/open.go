@@ -122,6 +122,7 @@ func allFunctions() ([]*function, error) {
 		forecastFunctions(t),
 		batchFunctions(t),
 		shardFunctions(t),
+		columnsFunctions(t),
 	} {
 		all = append(all, group...)
 	}
