@@ -58,8 +58,8 @@ func (s *Server) release(a admission) {
 func (s *Server) serveConn(c net.Conn) {
 	a := s.admit()
 	if a == dropped {
-		s.log.Warn("connection dropped: the server is full", "remote", c.RemoteAddr().String())
 		c.Close()
+		s.noteDropped()
 		return
 	}
 	s.wg.Add(1)
@@ -76,6 +76,19 @@ func (s *Server) serveConn(c net.Conn) {
 		}()
 		s.handle(c, a == refused)
 	}()
+}
+
+// noteDropped logs connections closed unanswered, at most once a second
+// (with how many), so that a flood does not flood the log too.
+func (s *Server) noteDropped() {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	s.dropped++
+	if time.Since(s.droppedLogged) < time.Second {
+		return
+	}
+	s.log.Warn("connections closed unanswered: the server is full", "count", s.dropped, "max_connections", s.cfg.MaxConns)
+	s.dropped, s.droppedLogged = 0, time.Now()
 }
 
 // acceptBackoff is the pause before accepting again after Accept failed

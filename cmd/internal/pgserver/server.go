@@ -33,10 +33,13 @@ type Server struct {
 	sessions map[uint32]*session
 	open     int // connections holding a slot, logged in or not
 	refusing int // connections being told the server is full
-	closing  atomic.Bool
-	version  string // what version() answers
-	wg       sync.WaitGroup
-	nextPID  atomic.Uint32
+	// dropped counts connections closed unanswered since droppedLogged.
+	dropped       int
+	droppedLogged time.Time
+	closing       atomic.Bool
+	version       string // what version() answers
+	wg            sync.WaitGroup
+	nextPID       atomic.Uint32
 }
 
 // New opens the database with the sandbox in force and prepares to serve.
