@@ -1,6 +1,7 @@
 package pgserver
 
 import (
+	"bufio"
 	"encoding/binary"
 	"fmt"
 	"io"
@@ -28,14 +29,17 @@ const (
 // refuses a length over its limit at once, and hands the Backend only
 // complete messages.
 //
-// It never reads past the message it is handing on, so after an
-// SSLRequest the raw connection can be passed to the TLS handshake.
+// Before the startup message it never reads past the message it is handing
+// on, so after an SSLRequest the raw connection can be passed to the TLS
+// handshake; after it, reads are buffered (several pipelined messages in
+// one read).
 type frameReader struct {
 	r       io.Reader
-	typed   bool   // past the startup message: a type byte, then the length
-	limit   int    // the largest message body accepted
-	pending []byte // the rest of the current message, not yet handed on
-	buf     []byte // reused for small messages
+	br      *bufio.Reader // r, buffered, once typed
+	typed   bool          // past the startup message: a type byte, then the length
+	limit   int           // the largest message body accepted
+	pending []byte        // the rest of the current message, not yet handed on
+	buf     []byte        // reused for small messages
 }
 
 func newFrameReader(r io.Reader) *frameReader {
@@ -55,12 +59,15 @@ func (f *frameReader) Read(p []byte) (int, error) {
 
 // next reads one whole message into pending.
 func (f *frameReader) next() error {
-	head := 4
+	head, src := 4, f.r
 	if f.typed {
-		head = 5
+		if f.br == nil {
+			f.br = bufio.NewReaderSize(f.r, 8192)
+		}
+		head, src = 5, io.Reader(f.br)
 	}
 	msg := f.buf[:head]
-	if _, err := io.ReadFull(f.r, msg); err != nil {
+	if _, err := io.ReadFull(src, msg); err != nil {
 		return err
 	}
 	length := int(int32(binary.BigEndian.Uint32(msg[head-4:])))
@@ -73,7 +80,7 @@ func (f *frameReader) next() error {
 	case f.typed && body > f.limit:
 		return fmt.Errorf("message of %d bytes is over the limit of %d", body, f.limit)
 	}
-	msg, err := readGrowing(f.r, msg, body)
+	msg, err := readGrowing(src, msg, body)
 	if err != nil {
 		return err
 	}
