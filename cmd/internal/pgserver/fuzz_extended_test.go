@@ -16,6 +16,10 @@ import (
 var (
 	extendedOnce   sync.Once
 	extendedServer *testServer
+	// extendedConn is the session FuzzExtended reuses from one input to
+	// the next (every input closes what it opened and ends with Sync); a
+	// failed input drops it.
+	extendedConn net.Conn
 )
 
 // sharedFuzzServer starts one trust-auth server for a whole fuzzing run.
@@ -58,7 +62,8 @@ var (
 // FuzzExtended drives a real session through Parse, Bind, Describe,
 // Execute, Close and Sync with random parameter bytes, types and formats.
 // Whatever the parameters, the session answers up to ReadyForQuery and
-// then still runs a query, and the server still takes a new client.
+// then still runs a query; the session is kept for the next input while it
+// does (a server that died would fail the next login).
 func FuzzExtended(f *testing.F) {
 	f.Add(uint8(2), uint8(17), uint8(1), binaryIntArray(1<<31-1, 1), []byte(nil))
 	f.Add(uint8(0), uint8(9), uint8(1), []byte{0, 1, 0x7f, 0xff, 0, 0, 0xff, 0xff, 0, 1}, []byte(nil))
@@ -68,11 +73,21 @@ func FuzzExtended(f *testing.F) {
 	f.Add(uint8(8), uint8(3), uint8(1), []byte{0, 0, 0, 1}, []byte{})
 	f.Fuzz(func(t *testing.T, query, oid, formats uint8, first, second []byte) {
 		ts := sharedFuzzServer(t)
-		c, err := rawStartup(ts.addr)
-		if err != nil {
-			t.Fatalf("login: %v", err)
+		if extendedConn == nil {
+			c, err := rawStartup(ts.addr)
+			if err != nil {
+				t.Fatalf("login (the server stopped taking clients?): %v", err)
+			}
+			extendedConn = c
 		}
-		defer c.Close()
+		c := extendedConn
+		kept := false
+		defer func() {
+			if !kept {
+				c.Close()
+				extendedConn = nil
+			}
+		}()
 		params := [][]byte{first}
 		if formats&2 != 0 {
 			params = append(params, second)
@@ -107,10 +122,6 @@ func FuzzExtended(f *testing.F) {
 		if len(after) < 2 || firstError(after) != nil {
 			t.Fatalf("the session no longer answers: %#v", after)
 		}
-		fresh, err := rawStartup(ts.addr)
-		if err != nil {
-			t.Fatalf("the server stopped taking clients: %v", err)
-		}
-		fresh.Close()
+		kept = true
 	})
 }
