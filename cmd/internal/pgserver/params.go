@@ -261,6 +261,9 @@ func binaryArrayLiterals(b []byte) ([]string, error) {
 	if n < 0 || n > (len(b)-20)/4 {
 		return nil, fmt.Errorf("binary array header claims %d elements in %d bytes", n, len(b))
 	}
+	if n > maxArrayElements {
+		return nil, errTooManyElements(n)
+	}
 	p := 20
 	items := make([]string, 0, n)
 	for k := 0; k < n; k++ {
@@ -286,9 +289,26 @@ func binaryArrayLiterals(b []byte) ([]string, error) {
 	return items, nil
 }
 
+// maxArrayElements is the most elements an array parameter may have: an
+// element becomes a SQL literal of its own (a few tens of bytes while it is
+// built, from as little as two bytes of the message), so a 64 MiB message
+// of one-digit elements must not turn into gigabytes. 4,194,304 values is
+// plumb's own bound, above any series a client would bind as one array.
+const maxArrayElements = 1 << 22
+
+func errTooManyElements(n int) error {
+	return fmt.Errorf("an array parameter of %d elements is over plumb's limit of %d", n, maxArrayElements)
+}
+
 // textArrayLiterals reads PostgreSQL's array text ({1,2,"a b",NULL}) into
 // element literals of type elem (0: left to DuckDB).
 func textArrayLiterals(s string, elem uint32) ([]string, error) {
+	// Each element costs tens of bytes while parsed and rendered, whatever
+	// its own length, so the count is bounded first (at most one element
+	// per comma, plus one).
+	if n := strings.Count(s, ",") + 1; n > maxArrayElements {
+		return nil, errTooManyElements(n)
+	}
 	elems, err := parseArrayText(s)
 	if err != nil {
 		return nil, err

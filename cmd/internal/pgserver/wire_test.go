@@ -45,6 +45,7 @@ func binaryIntArray(count uint32, elems ...int32) []byte {
 // by it (an attacker's header claims 2³¹−1 elements in 20 bytes).
 func TestWireLengthsCheckedBeforeAllocation(t *testing.T) {
 	const limit = 1 << 20 // what decoding a few bytes may allocate at most
+	manyElements := "{" + strings.Repeat("1,", 5_000_000) + "1}"
 	for _, test := range []struct {
 		name    string
 		decode  func() error
@@ -93,6 +94,10 @@ func TestWireLengthsCheckedBeforeAllocation(t *testing.T) {
 			_, err := pgproto3.NewBackend(f, io.Discard).Receive()
 			return err
 		}, "over the limit"},
+		{"text array of 5 million one-digit elements", func() error {
+			_, err := textArrayLiterals(manyElements, oidInt4)
+			return err
+		}, "over plumb's limit"},
 		{"parameter number past 65535", func() error {
 			if n := maxParam(lex("SELECT $99999999999999999999999")); n != maxParams+1 {
 				t.Errorf("maxParam = %d", n)
