@@ -80,8 +80,15 @@ func (e *Explorer) checkPost(w http.ResponseWriter, r *http.Request, token strin
 // loginPage shows the login form with a fresh pre-login token (a cookie
 // and the same value in the form), so a login cannot be forged from
 // another site either.
+//
+// A browser that already holds a pre-login token keeps it: a second page
+// load (or the browser's own request for an icon) must not invalidate the
+// form it shows.
 func (e *Explorer) loginPage(w http.ResponseWriter, r *http.Request, status int, message string) {
 	token := randomToken()
+	if c, err := r.Cookie(loginCookie); err == nil && len(c.Value) == len(token) {
+		token = c.Value
+	}
 	http.SetCookie(w, &http.Cookie{Name: loginCookie, Value: token, Path: "/login", HttpOnly: true,
 		SameSite: http.SameSiteStrictMode, Secure: e.cfg.TLS, MaxAge: 600})
 	e.render(w, status, "login", pageData{Title: "Log in", CSRF: token, Message: message})

@@ -6,12 +6,13 @@ import (
 	"html/template"
 	"net/http"
 	"strconv"
+	"strings"
 )
 
 //go:embed web/*.html web/keys.js
 var web embed.FS
 
-var pages = template.Must(template.New("").ParseFS(web, "web/*.html"))
+var pages = template.Must(template.New("").Funcs(template.FuncMap{"join": strings.Join}).ParseFS(web, "web/*.html"))
 
 var keysJS, _ = web.ReadFile("web/keys.js")
 
