@@ -27,7 +27,7 @@ func downloadSQL(ctx context.Context, conn *sql.Conn, run *run, q listQuery) (st
 			rows.Close()
 			return "", nil, nil, err
 		}
-		if c.Name != "plumb_id" {
+		if !strings.HasPrefix(c.Name, "plumb_") { // plumb_id, the order columns and plumb_text are the explorer's own
 			c.Type = exportType(c.Type)
 			cols = append(cols, c)
 		}

@@ -187,7 +187,7 @@ func (e *Explorer) groupPage(ctx context.Context, conn *sql.Conn, run *run, info
 		return nil, err
 	}
 	d.InList, d.Position = self == 1, before+1
-	listQ.Page = before/q.Size + 1
+	listQ.Page, listQ.After, listQ.Before = before/q.Size+1, nil, nil
 	d.ListHref = base
 	if v := listQ.values(true).Encode(); v != "" {
 		d.ListHref += "?" + v

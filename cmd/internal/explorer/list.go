@@ -22,6 +22,9 @@ type listQuery struct {
 	Desc    bool
 	Page    int // from 1
 	Size    int
+	// After (Before) make a keyset page: the groups just after (before)
+	// that sort key (sortKey); Page is then only shown.
+	After, Before *int64
 }
 
 // filter is one filter of the list: its query parameter, the values it
@@ -78,20 +81,50 @@ const (
 
 // listParams are every query parameter the list accepts.
 func listParams() []string {
-	names := []string{"q", "sort", "dir", "page", "size"}
+	names := []string{"q", "sort", "dir", "page", "size", "after", "before"}
 	for _, f := range filters {
 		names = append(names, f.Name)
 	}
 	return names
 }
 
-// sortable reports whether col may be a sort key: rank, score, or a p- or
-// q-value column of the run's table.
+// sortable reports whether col may be a sort key: rank, or score or a p-
+// or q-value column for which the run's table holds an order column.
 func sortable(col string, columns []string) bool {
-	if !slices.Contains(columns, col) {
-		return false
+	if col == "rank" {
+		return slices.Contains(columns, col)
 	}
-	return col == "rank" || col == "score" || strings.HasSuffix(col, "_p_value") || strings.HasSuffix(col, "_q_value")
+	return isSortColumn(col) && slices.Contains(columns, orderColumn(col))
+}
+
+// isSortColumn says which diagnosis columns get an order column.
+func isSortColumn(col string) bool {
+	return col == "score" || strings.HasSuffix(col, "_p_value") || strings.HasSuffix(col, "_q_value")
+}
+
+// orderColumn names the column that holds col's order: each group's
+// place (1, 2, ...) when sorted by col ascending, NULL where col is NULL;
+// made once with the run's table (orderColumnsSQL), so that sorting a page
+// compares integers.
+func orderColumn(col string) string { return "plumb_order_" + col }
+
+// orderColumnsSQL writes the order columns of the sortable names, and the
+// lower-cased group key the text match looks in, as SELECT items over a
+// relation that has plumb_id.
+func orderColumnsSQL(names, by []string) string {
+	keys := make([]string, len(by))
+	for i, b := range by {
+		keys[i] = "coalesce(" + udf.QuoteIdent(b) + "::VARCHAR, 'NULL')"
+	}
+	items := []string{"lower(concat_ws(chr(31), " + strings.Join(keys, ", ") + ")) AS plumb_text"}
+	for _, n := range names {
+		if isSortColumn(n) {
+			c := udf.QuoteIdent(n)
+			items = append(items, fmt.Sprintf("(CASE WHEN %[1]s IS NOT NULL THEN row_number() OVER (ORDER BY %[1]s, plumb_id) END)::INTEGER AS %[2]s",
+				c, udf.QuoteIdent(orderColumn(n))))
+		}
+	}
+	return strings.Join(items, ", ")
 }
 
 // parseList reads a list query from the page's parameters, refusing any
@@ -156,6 +189,21 @@ func parseList(v url.Values, info *runInfo, extra ...string) (listQuery, error) 
 		}
 		*p.to = n
 	}
+	for _, p := range []struct {
+		name string
+		to   **int64
+	}{{"after", &q.After}, {"before", &q.Before}} {
+		if s := v.Get(p.name); s != "" {
+			n, err := strconv.ParseInt(s, 10, 64)
+			if err != nil {
+				return listQuery{}, fmt.Errorf("%s must be a whole number, not %q", p.name, s)
+			}
+			*p.to = &n
+		}
+	}
+	if q.After != nil && q.Before != nil {
+		return listQuery{}, fmt.Errorf("give after or before, not both")
+	}
 	return q, nil
 }
 
@@ -190,6 +238,12 @@ func (q listQuery) values(withPage bool) url.Values {
 	}
 	if withPage && q.Page > 1 {
 		v.Set("page", strconv.Itoa(q.Page))
+		if q.After != nil {
+			v.Set("after", strconv.FormatInt(*q.After, 10))
+		}
+		if q.Before != nil {
+			v.Set("before", strconv.FormatInt(*q.Before, 10))
+		}
 	}
 	return v
 }
@@ -207,7 +261,7 @@ func (q listQuery) with(name, value string) listQuery {
 	} else {
 		c.Filters[name] = value
 	}
-	c.Page = 1
+	c.Page, c.After, c.Before = 1, nil, nil
 	return c
 }
 
@@ -224,32 +278,41 @@ func (q listQuery) where(by []string) (string, []any) {
 		}
 	}
 	if q.Text != "" {
-		var any []string
-		for _, b := range by {
-			any = append(any, "contains(lower(coalesce("+udf.QuoteIdent(b)+"::VARCHAR, '')), ?)")
-			args = append(args, strings.ToLower(q.Text))
-		}
-		conds = append(conds, "("+strings.Join(any, " OR ")+")")
+		conds = append(conds, "contains(plumb_text, ?)")
+		args = append(args, strings.ToLower(q.Text))
 	}
 	return strings.Join(conds, " AND "), args
 }
 
-// sortKey is the sort column as a DOUBLE that is never NULL (NULLs last
-// either way), so that the list and the next/previous links share one
-// order: the key, then plumb_id.
+// sortKey is the sort column's order as a BIGINT that is never NULL and
+// never the same for two groups, so that the list, the downloads, the
+// keyset pages and the next/previous links share one order. plumb_id is
+// itself the order by rank; a NULL sorts last either way, among NULLs by
+// plumb_id.
 func (q listQuery) sortKey() string {
-	end := "'Infinity'"
-	if q.Desc {
-		end = "'-Infinity'"
+	if q.Sort == "rank" {
+		return "plumb_id"
 	}
-	return fmt.Sprintf("coalesce(%s::DOUBLE, %s::DOUBLE)", udf.QuoteIdent(q.Sort), end)
+	null := "1000000000000 + plumb_id"
+	if q.Desc {
+		null = "-plumb_id"
+	}
+	return fmt.Sprintf("coalesce(%s::BIGINT, %s)", udf.QuoteIdent(orderColumn(q.Sort)), null)
 }
 
 func (q listQuery) orderBy() string {
 	if q.Desc {
-		return q.sortKey() + " DESC, plumb_id"
+		return q.sortKey() + " DESC"
 	}
-	return q.sortKey() + ", plumb_id"
+	return q.sortKey()
+}
+
+// beyond is the condition "after key k in the list's order" (or before).
+func (q listQuery) beyond(after bool) string {
+	if after != q.Desc {
+		return q.sortKey() + " > ?"
+	}
+	return q.sortKey() + " < ?"
 }
 
 // listColumns are the list's columns after the group, as SQL over the
@@ -267,12 +330,18 @@ var listColumns = []struct{ Label, SQL string }{
 	{"spread p", "spread_p_value"},
 }
 
-// pageSQL selects one page: plumb_id, rank, each group column as text, and
-// the list's columns.
+// pageSQL selects one page: plumb_id, the sort key, rank, each group
+// column as text, and the list's columns. The inner SELECT * ... ORDER BY
+// ... LIMIT lets DuckDB sort row ids by the key alone and read only the
+// page's rows whole (its late materialisation of a top-N); the list's
+// expressions are computed for those rows only. With q.After (or
+// q.Before) it is a keyset page: the groups just after (before) that key,
+// so that stepping through a long list costs the same at its end as at
+// its start; else the page's place is an OFFSET.
 func (q listQuery) pageSQL(table string, by []string) (string, []any, []string) {
 	where, args := q.where(by)
 	labels := []string{}
-	cols := []string{"plumb_id", "rank"}
+	cols := []string{"plumb_id", q.sortKey(), "rank"}
 	for _, b := range by {
 		cols = append(cols, udf.QuoteIdent(b)+"::VARCHAR")
 	}
@@ -290,9 +359,19 @@ func (q listQuery) pageSQL(table string, by []string) (string, []any, []string) 
 		labels = append(labels, q.Sort)
 		cols = append(cols, udf.QuoteIdent(q.Sort))
 	}
-	sql := fmt.Sprintf("SELECT %s FROM %s WHERE %s ORDER BY %s LIMIT %d OFFSET %d",
-		strings.Join(cols, ", "), udf.QuoteIdent(table), where, q.orderBy(), q.Size, (q.Page-1)*q.Size)
-	return sql, args, labels
+	t := udf.QuoteIdent(table)
+	inner := fmt.Sprintf("SELECT * FROM %s WHERE %s ORDER BY %s LIMIT %d OFFSET %d", t, where, q.orderBy(), q.Size, (q.Page-1)*q.Size)
+	switch {
+	case q.After != nil:
+		inner = fmt.Sprintf("SELECT * FROM %s WHERE %s AND %s ORDER BY %s LIMIT %d", t, where, q.beyond(true), q.orderBy(), q.Size)
+		args = append(args, *q.After)
+	case q.Before != nil:
+		rev := q
+		rev.Desc = !q.Desc
+		inner = fmt.Sprintf("SELECT * FROM %s WHERE %s AND %s ORDER BY %s LIMIT %d", t, where, q.beyond(false), rev.orderBy(), q.Size)
+		args = append(args, *q.Before)
+	}
+	return fmt.Sprintf("SELECT %s FROM (%s) ORDER BY %s", strings.Join(cols, ", "), inner, q.orderBy()), args, labels
 }
 
 // countSQL counts the groups the filters keep.
@@ -301,44 +380,26 @@ func (q listQuery) countSQL(table string, by []string) (string, []any) {
 	return fmt.Sprintf("SELECT count(*) FROM %s WHERE %s", udf.QuoteIdent(table), where), args
 }
 
-// neighbourSQL finds the group before (dir < 0) or after the one with
-// plumb_id id in the filtered order, or none.
+// neighbourSQL finds the group after (or before) the one with plumb_id id
+// in the filtered order, or none.
 func (q listQuery) neighbourSQL(table string, by []string, id int64, after bool) (string, []any) {
 	where, args := q.where(by)
-	key := q.sortKey()
-	cur := fmt.Sprintf("(SELECT %s FROM %s WHERE plumb_id = ?)", key, udf.QuoteIdent(table))
-	ahead := (after != q.Desc)
-	cmp, idCmp, order := ">", ">", q.sortKey()+", plumb_id"
-	if !ahead {
-		cmp = "<"
-	}
+	t := udf.QuoteIdent(table)
+	order := q
 	if !after {
-		idCmp = "<"
+		order.Desc = !q.Desc
 	}
-	switch {
-	case after && q.Desc:
-		order = key + " DESC, plumb_id"
-	case !after && !q.Desc:
-		order = key + " DESC, plumb_id DESC"
-	case !after && q.Desc:
-		order = key + ", plumb_id DESC"
-	}
-	sql := fmt.Sprintf("SELECT plumb_id FROM %s WHERE %s AND (%s %s %s OR (%s = %s AND plumb_id %s ?)) ORDER BY %s LIMIT 1",
-		udf.QuoteIdent(table), where, key, cmp, cur, key, cur, idCmp, order)
-	return sql, append(args, id, id, id)
+	cur := fmt.Sprintf("(SELECT %s FROM %s WHERE plumb_id = ?)", q.sortKey(), t)
+	return fmt.Sprintf("SELECT plumb_id FROM %s WHERE %s AND %s ORDER BY %s LIMIT 1",
+		t, where, strings.Replace(q.beyond(after), "?", cur, 1), order.orderBy()), append(args, id)
 }
 
-// positionSQL counts the filtered groups before plumb_id id, and whether id passes the filters.
+// positionSQL counts the filtered groups before the group with plumb_id
+// id, whether that group passes the filters, and all filtered groups.
 func (q listQuery) positionSQL(table string, by []string, id int64) (string, []any) {
 	where, args := q.where(by)
-	key := q.sortKey()
-	cur := fmt.Sprintf("(SELECT %s FROM %s WHERE plumb_id = ?)", key, udf.QuoteIdent(table))
-	cmp := "<"
-	if q.Desc {
-		cmp = ">"
-	}
-	sql := fmt.Sprintf("SELECT count(*) FILTER (WHERE %s %s %s OR (%s = %s AND plumb_id < ?)), count(*) FILTER (WHERE plumb_id = ?), count(*) FROM %s WHERE %s",
-		key, cmp, cur, key, cur, udf.QuoteIdent(table), where)
-	// The arguments of the FILTER clauses come before the WHERE's.
-	return sql, append([]any{id, id, id, id}, args...)
+	t := udf.QuoteIdent(table)
+	cur := fmt.Sprintf("(SELECT %s FROM %s WHERE plumb_id = ?)", q.sortKey(), t)
+	return fmt.Sprintf("SELECT count(*) FILTER (WHERE %s), count(*) FILTER (WHERE plumb_id = ?), count(*) FROM %s WHERE %s",
+		strings.Replace(q.beyond(false), "?", cur, 1), t, where), append([]any{id, id}, args...)
 }

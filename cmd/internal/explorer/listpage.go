@@ -55,9 +55,10 @@ type listRow struct {
 // page is one page of the list: its rows and the number of groups the
 // filters keep. Both queries run in DuckDB over the run's table.
 type listPage struct {
-	Labels   []string
-	Rows     []listRow
-	Matching int
+	Labels            []string
+	Rows              []listRow
+	Matching          int
+	FirstKey, LastKey int64 // the sort keys of the first and last row, for keyset links
 }
 
 func readPage(ctx context.Context, conn *sql.Conn, run *run, q listQuery) (listPage, error) {
@@ -75,10 +76,10 @@ func readPage(ctx context.Context, conn *sql.Conn, run *run, q listQuery) (listP
 	defer rows.Close()
 	nk := len(run.Spec.By)
 	for rows.Next() {
-		var id, rank sql.NullInt64
+		var id, key, rank sql.NullInt64
 		keys := make([]sql.NullString, nk)
 		cells := make([]any, len(labels))
-		ptrs := []any{&id, &rank}
+		ptrs := []any{&id, &key, &rank}
 		for i := range keys {
 			ptrs = append(ptrs, &keys[i])
 		}
@@ -95,6 +96,10 @@ func readPage(ctx context.Context, conn *sql.Conn, run *run, q listQuery) (listP
 		for _, c := range cells {
 			row.Cells = append(row.Cells, report.FormatCell(c))
 		}
+		if len(p.Rows) == 0 {
+			p.FirstKey = key.Int64
+		}
+		p.LastKey = key.Int64
 		p.Rows = append(p.Rows, row)
 	}
 	return p, rows.Err()
@@ -147,14 +152,14 @@ func (e *Explorer) handleList(w http.ResponseWriter, r *http.Request, s *session
 		}
 		return base
 	}
-	if q.Page > 1 {
+	if q.Page > 1 && len(p.Rows) > 0 {
 		prev := q
-		prev.Page--
+		prev.Page, prev.After, prev.Before = q.Page-1, nil, &p.FirstKey
 		d.PrevHref = link(prev)
 	}
-	if q.Page*q.Size < p.Matching {
+	if q.Page*q.Size < p.Matching && len(p.Rows) == q.Size {
 		next := q
-		next.Page++
+		next.Page, next.After, next.Before = q.Page+1, &p.LastKey, nil
 		d.NextHref = link(next)
 	}
 	if v := q.values(false).Encode(); v != "" {

@@ -2,6 +2,7 @@ package explorer
 
 import (
 	"context"
+	"database/sql"
 	"fmt"
 	"regexp"
 	"slices"
@@ -182,8 +183,8 @@ func (e *Explorer) materialize(ctx context.Context, s *session, r *run, saved so
 				return nil, fmt.Errorf("%s is not a diagnosis of %s's groups: it has no column %q", saved.Name, r.Src.Name, c)
 			}
 		}
-		q := fmt.Sprintf("CREATE OR REPLACE TEMP TABLE %s AS SELECT row_number() OVER (ORDER BY %s) AS plumb_id, * FROM %s",
-			tableName, order, savedFrom)
+		q := fmt.Sprintf("CREATE OR REPLACE TEMP TABLE %s AS WITH d AS (SELECT row_number() OVER (ORDER BY %s) AS plumb_id, * FROM %s) SELECT *, %s FROM d",
+			tableName, order, savedFrom, orderColumnsSQL(namesOf(names), spec.By))
 		if _, err := s.conn.ExecContext(ctx, q); err != nil {
 			return nil, fmt.Errorf("cannot read %s: %s", saved.Name, firstLine(err.Error()))
 		}
@@ -196,33 +197,53 @@ func (e *Explorer) materialize(ctx context.Context, s *session, r *run, saved so
 		r.mu.Lock()
 		r.total, r.startDone = total, udf.GroupsDone()
 		r.mu.Unlock()
-		q = fmt.Sprintf("CREATE OR REPLACE TEMP TABLE %s AS SELECT row_number() OVER (ORDER BY %s) AS plumb_id, * FROM %s",
-			tableName, order, spec.Call())
+		q = fmt.Sprintf("CREATE OR REPLACE TEMP TABLE %s AS WITH d AS (SELECT row_number() OVER (ORDER BY %s) AS plumb_id, * FROM %s) SELECT *, %s FROM d",
+			tableName, order, spec.Call(), orderColumnsSQL(diagnoseSortColumns, spec.By))
 		if _, err := s.conn.ExecContext(ctx, q); err != nil {
 			// The words plumb diagnose and plumb report use (diagnosis.Spec.Materialize).
 			return nil, fmt.Errorf("diagnose %s: %s", r.Src.Name, firstLine(err.Error()))
 		}
 	}
-	rows, err := s.conn.QueryContext(ctx, "SELECT column_name FROM (DESCRIBE "+tableName+")")
-	if err != nil {
+	if info.Columns, info.Counts, err = describeTable(ctx, s.conn, r.table); err != nil {
 		return nil, err
 	}
+	return info, nil
+}
+
+// describeTable reads a run table's columns and counts.
+func describeTable(ctx context.Context, conn *sql.Conn, table string) ([]string, counts, error) {
+	rows, err := conn.QueryContext(ctx, "SELECT column_name FROM (DESCRIBE "+udf.QuoteIdent(table)+")")
+	if err != nil {
+		return nil, counts{}, err
+	}
+	var cols []string
 	for rows.Next() {
 		var c string
 		if err := rows.Scan(&c); err != nil {
 			rows.Close()
-			return nil, err
+			return nil, counts{}, err
 		}
-		info.Columns = append(info.Columns, c)
+		cols = append(cols, c)
 	}
 	rows.Close()
 	if err := rows.Err(); err != nil {
-		return nil, err
+		return nil, counts{}, err
 	}
-	if info.Counts, err = countRun(ctx, s.conn, r.table); err != nil {
-		return nil, err
+	c, err := countRun(ctx, conn, table)
+	return cols, c, err
+}
+
+// diagnoseSortColumns are the columns of diagnose's rows that may sort the
+// list (udf/diagnose.go: score, and a p- and a q-value per test).
+var diagnoseSortColumns = []string{"score", "adf_p_value", "adf_q_value", "kpss_p_value", "kpss_q_value",
+	"mean_p_value", "mean_q_value", "spread_p_value", "spread_q_value", "ljung_box_p_value", "ljung_box_q_value"}
+
+func namesOf(cols []column) []string {
+	out := make([]string, len(cols))
+	for i, c := range cols {
+		out[i] = c.Name
 	}
-	return info, nil
+	return out
 }
 
 // findRun returns the session's run with that id.
