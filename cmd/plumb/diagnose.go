@@ -4,11 +4,13 @@ import (
 	"context"
 	"database/sql"
 	"fmt"
+	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
 
 	"github.com/spf13/cobra"
+	"github.com/spf13/pflag"
 
 	"github.com/plumb-sql/plumb/cmd/internal/diagnosis"
 	"github.com/plumb-sql/plumb/cmd/internal/output"
@@ -22,14 +24,16 @@ type seriesFlags struct {
 	dbPath      string
 	memoryLimit string
 	quiet       bool
+	flags       *pflag.FlagSet
 }
 
 func (f *seriesFlags) register(cmd *cobra.Command) {
 	fl := cmd.Flags()
+	f.flags = fl
 	fl.StringVar(&f.by, "by", "", "group `COLUMNS`, comma-separated (required)")
 	fl.StringVar(&f.spec.At, "at", "", "time `COLUMN`: DATE, TIMESTAMP or integer (required)")
 	fl.StringVar(&f.spec.Value, "value", "", "value `COLUMN` (required)")
-	fl.IntVar(&f.spec.Period, "period", 0, "seasonal period (0: detect among 7, 12, 24, 52, 365)")
+	fl.IntVar(&f.spec.Period, "period", 0, "seasonal period, at least 2 (left out: detected among 7, 12, 24, 52, 365)")
 	fl.Float64Var(&f.spec.Alpha, "alpha", 0.05, "level of the verdict's tests")
 	fl.StringVar(&f.spec.Fill, "fill", "none", "gaps and missing values: none, linear or previous")
 	fl.StringVar(&f.dbPath, "db", "", "DuckDB database `FILE` holding the source table (default: in memory)")
@@ -53,6 +57,18 @@ func (f *seriesFlags) open(ctx context.Context, source string) (*sql.DB, *sql.Co
 		if b = strings.TrimSpace(b); b != "" {
 			f.spec.By = append(f.spec.By, b)
 		}
+	}
+	// The options are checked as SQL checks them (udf's checks): a period
+	// given must be at least 2, and --alpha 0 is refused, not replaced.
+	var period *int
+	if f.flags != nil && f.flags.Changed("period") {
+		period = &f.spec.Period
+	}
+	if err := udf.CheckPeriod(period); err != nil {
+		return nil, nil, err
+	}
+	if err := udf.CheckAlpha(f.spec.Alpha); err != nil {
+		return nil, nil, err
 	}
 	db, err := udf.Open(ctx, udf.Options{Path: f.dbPath, ReadOnly: f.dbPath != "", Settings: f.settings()})
 	if err != nil {
@@ -85,9 +101,9 @@ and with --out writes every group's row to a .parquet, .csv or .json file.
 With --shard K/N it diagnoses only the groups of shard K of N (a stable hash
 of the group columns, the same on every machine) and writes them, unranked,
 to the Parquet file --out names; plumb combine ranks the N parts together.`,
-		Example: `  plumb diagnose 'plumb-demo/shops.parquet' --by shop,product --at day --value units --period 7
-  plumb diagnose 'sales/*.parquet' --by store,sku --at day --value units --out ranked.parquet
-  plumb diagnose 'sales/*.parquet' --by store,sku --at day --value units --shard 3/8 --out parts/part-3.parquet`,
+		Example: `  plumb diagnose plumb-demo/shops.parquet --by shop,product --at day --value units --period 7
+  plumb diagnose plumb-demo/shops.parquet --by shop,product --at day --value units --top 5 --out ranked.csv
+  plumb diagnose plumb-demo/shops.parquet --by shop,product --at day --value units --shard 3/4 --out parts/part-3.parquet`,
 		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if shard != "" {
@@ -109,6 +125,7 @@ to the Parquet file --out names; plumb combine ranks the N parts together.`,
 			defer conn.Close()
 			const table = "plumb_cli_diagnosis"
 			progress := diagnosis.StartProgress(cmd.ErrOrStderr(), flags.quiet)
+			progress.CountGroups(ctx, db, flags.spec)
 			n, err := flags.spec.Materialize(ctx, conn, table)
 			progress.Stop()
 			if err != nil {
@@ -130,6 +147,7 @@ to the Parquet file --out names; plumb combine ranks the N parts together.`,
 				if err := writeTable(ctx, conn, table, out); err != nil {
 					return err
 				}
+				fmt.Fprintf(cmd.ErrOrStderr(), "wrote %d groups to %s\n", n, out)
 			}
 			return printTop(ctx, conn, table, flags.spec.By, top, n, cmd)
 		},
@@ -178,8 +196,13 @@ func writeTable(ctx context.Context, conn *sql.Conn, table, path string) error {
 
 // writePart copies a table of one shard's rows to a Parquet file with the
 // shard's number and count in the file's key-value metadata, where plumb
-// combine checks that every shard is there once.
+// combine checks that every shard is there once. A missing folder is
+// created.
 func writePart(ctx context.Context, conn *sql.Conn, table, path string, shard, shards int) error {
+	// Parts go to a folder of their own (--out parts/part-3.parquet).
+	if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
+		return fmt.Errorf("write %s: %w", path, err)
+	}
 	q := fmt.Sprintf("COPY %s TO %s (FORMAT parquet, KV_METADATA {%s: '%d', %s: '%d'})", udf.QuoteIdent(table), udf.QuoteLiteral(path),
 		partShardKey, shard, partShardsKey, shards)
 	if _, err := conn.ExecContext(ctx, q); err != nil {
