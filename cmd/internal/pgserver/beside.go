@@ -107,11 +107,12 @@ func RunWith(ctx context.Context, cfg Config, log *slog.Logger, ready func(net.A
 	ctx, stop := signal.NotifyContext(ctx, os.Interrupt, syscall.SIGTERM)
 	defer stop()
 	besideCtx, stopBeside := context.WithCancel(ctx)
-	besideDone := make(chan error, 1)
+	// Without beside the channel stays nil, so the select below never
+	// picks it.
+	var besideDone chan error
 	if beside != nil {
+		besideDone = make(chan error, 1)
 		go func() { besideDone <- beside(besideCtx, srv) }()
-	} else {
-		besideDone <- nil
 	}
 	served := make(chan error, 1)
 	go func() { served <- srv.Serve(ln) }()
@@ -125,7 +126,7 @@ func RunWith(ctx context.Context, cfg Config, log *slog.Logger, ready func(net.A
 	}
 	log.Info("shutting down", "grace", cfg.Grace.String())
 	stopBeside()
-	if !besideFinished {
+	if !besideFinished && besideDone != nil {
 		besideErr = <-besideDone
 	}
 	serr := srv.Shutdown()
