@@ -3,6 +3,7 @@ package explorer
 import (
 	"context"
 	"database/sql"
+	"errors"
 	"fmt"
 	"regexp"
 	"slices"
@@ -126,6 +127,10 @@ func (e *Explorer) startRun(s *session, src source, spec diagnosis.Spec, saved s
 			r.mu.Unlock()
 		}
 		if err != nil {
+			// The page names a file as the page offered it, relative to --data.
+			if src.File {
+				err = errors.New(strings.ReplaceAll(err.Error(), src.SQL, src.Name))
+			}
 			r.mu.Lock()
 			r.err = err
 			r.mu.Unlock()

@@ -7,8 +7,10 @@ import (
 	"net/url"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
+	"time"
 )
 
 // dataWithShops makes a --data folder holding the demo shops, and beside
@@ -354,5 +356,31 @@ func TestLoginAttemptsLimited(t *testing.T) {
 	c.get("/login")
 	if _, body := c.post("/login", url.Values{"user": {"mallory"}, "password": {"x"}}, nil); !strings.Contains(body, "password authentication failed for user mallory") {
 		t.Errorf("unknown user: %.200s", body)
+	}
+}
+
+var errorParagraph = regexp.MustCompile(`<p class="error"[^<]*`)
+
+// With --auth trust (loopback only) a browser gets a session without a
+// login, and a failing diagnose shows the words plumb diagnose uses.
+func TestTrustNeedsNoLoginAndErrorsUseDiagnoseWords(t *testing.T) {
+	data, _ := dataWithShops(t)
+	ts := newTestServer(t, data, true, false, nil)
+	b := ts.browser(t)
+	code, body := b.get("/?source=shops.parquet")
+	if code != http.StatusOK || !strings.Contains(body, `id="diagnose"`) {
+		t.Fatalf("trust: %d %.300s", code, body)
+	}
+	code, body = b.post("/runs", url.Values{"source": {"shops.parquet"}, "by": {"shop"}, "at": {"day"}, "value": {"product"}}, nil)
+	for i := 0; i < 100 && strings.Contains(body, `id="progress"`); i++ {
+		time.Sleep(100 * time.Millisecond)
+		code, body = b.get("/runs/1")
+	}
+	// diagnosis.Spec.Check's words, as plumb diagnose prints them.
+	if want := `the value column &#34;product&#34; of shops.parquet is VARCHAR, not a number`; code != http.StatusOK || !strings.Contains(body, want) {
+		t.Errorf("a text value column: %d, want %q in %s", code, want, errorParagraph.FindString(body))
+	}
+	if code, _ := b.get("/runs/1/groups"); code != http.StatusOK {
+		t.Errorf("the failed run's list should lead back to its error page: %d", code)
 	}
 }
