@@ -29,6 +29,14 @@ var (
 	demoErr  error
 )
 
+func TestMain(m *testing.M) {
+	code := m.Run()
+	if demoDir != "" {
+		os.RemoveAll(demoDir)
+	}
+	os.Exit(code)
+}
+
 // demoFiles writes the demo scenario (seed 1, default sizes) once per test
 // binary into a folder of its own.
 func demoFiles(t testing.TB) string {
