@@ -32,7 +32,7 @@ func (e *Explorer) authed(h http.HandlerFunc) http.HandlerFunc {
 		s := e.sessions.get(r)
 		if s == nil && e.cfg.Trust {
 			var err error
-			if s, err = e.sessions.open(r.Context(), e.cfg.DB, "trust"); err != nil {
+			if s, err = e.sessions.open(r.Context(), e.cfg.DB, "trust", true); err != nil {
 				e.fail(w, r, http.StatusServiceUnavailable, err)
 				return
 			}
@@ -129,7 +129,7 @@ func (e *Explorer) handleLogin(w http.ResponseWriter, r *http.Request) {
 	if old := e.sessions.get(r); old != nil {
 		e.sessions.end(old)
 	}
-	s, err := e.sessions.open(r.Context(), e.cfg.DB, user)
+	s, err := e.sessions.open(r.Context(), e.cfg.DB, user, false)
 	if err != nil {
 		e.loginPage(w, r, http.StatusServiceUnavailable, err.Error())
 		return

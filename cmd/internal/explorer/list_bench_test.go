@@ -58,7 +58,7 @@ func benchRun(b *testing.B, e *Explorer, s *session, n int) *run {
 func BenchmarkListPage(b *testing.B) {
 	ts := newTestServer(b, demoFiles(b), false, false, nil)
 	ctx := context.Background()
-	s, err := ts.explorer.sessions.open(ctx, ts.explorer.cfg.DB, "bench")
+	s, err := ts.explorer.sessions.open(ctx, ts.explorer.cfg.DB, "bench", false)
 	if err != nil {
 		b.Fatal(err)
 	}

@@ -384,3 +384,40 @@ func TestTrustNeedsNoLoginAndErrorsUseDiagnoseWords(t *testing.T) {
 		t.Errorf("the failed run's list should lead back to its error page: %d", code)
 	}
 }
+
+// Sessions are limited; with --auth trust, where every browser without a
+// cookie gets one, the least recently used idle session makes room, so a
+// client that drops its cookies cannot lock the page; with logins the
+// limit refuses.
+func TestSessionLimit(t *testing.T) {
+	for _, trust := range []bool{true, false} {
+		ts := newTestServer(t, demoFiles(t), trust, false, func(c *Config) { c.MaxSessions = 2 })
+		var bs []*browser
+		for i := 0; i < 3; i++ {
+			b := ts.browser(t)
+			if trust {
+				if code, _ := b.get("/"); code != http.StatusOK {
+					t.Errorf("trust, browser %d: %d", i, code)
+				}
+			} else if i < 2 {
+				b.login([]string{"ana", "bob"}[i], testUsers[[]string{"ana", "bob"}[i]])
+			} else {
+				b.get("/login")
+				code, body := b.post("/login", url.Values{"user": {"ana"}, "password": {testUsers["ana"]}}, nil)
+				if code != http.StatusServiceUnavailable || !strings.Contains(body, "too many sessions") {
+					t.Errorf("a third login over the limit: %d", code)
+				}
+			}
+			bs = append(bs, b)
+			time.Sleep(5 * time.Millisecond)
+		}
+		if trust {
+			if ts.explorer.sessions.get(sessionRequest(t, bs[0])) != nil {
+				t.Error("trust: the least recently used session should have made room")
+			}
+			if ts.explorer.sessions.get(sessionRequest(t, bs[2])) == nil {
+				t.Error("trust: the newest browser has no session")
+			}
+		}
+	}
+}

@@ -87,11 +87,31 @@ func newSessions(max int) *sessions { return &sessions{max: max, m: map[string]*
 
 var errTooManySessions = errors.New("too many sessions at once: log out elsewhere or try again later")
 
-// open starts a session for user on its own connection of db.
-func (ss *sessions) open(ctx context.Context, db *sql.DB, user string) (*session, error) {
+// open starts a session for user on its own connection of db. When the
+// sessions are at their limit and evict is set (--auth trust, where any
+// request without a cookie gets a session), the least recently used one
+// with no diagnose running makes room.
+func (ss *sessions) open(ctx context.Context, db *sql.DB, user string, evict bool) (*session, error) {
 	ss.mu.Lock()
 	full := len(ss.m) >= ss.max
+	var oldest *session
+	var oldestUsed time.Time
+	if full && evict {
+		for _, s := range ss.m {
+			s.mu.Lock()
+			idle := !s.busy()
+			used := s.lastUsed
+			s.mu.Unlock()
+			if idle && (oldest == nil || used.Before(oldestUsed)) {
+				oldest, oldestUsed = s, used
+			}
+		}
+	}
 	ss.mu.Unlock()
+	if oldest != nil {
+		ss.end(oldest)
+		full = false
+	}
 	if full {
 		return nil, errTooManySessions
 	}
