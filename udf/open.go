@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"net/url"
 	"strings"
+	"sync"
 	"sync/atomic"
 
 	"github.com/duckdb/duckdb-go/v2"
@@ -159,9 +160,16 @@ var macros = strings.Join([]string{
 	shardMacros,
 }, "\n")
 
-// createMacros creates plumb's TEMP macros on one connection.
+var (
+	qualifiedOnce   sync.Once
+	qualifiedMacros string
+)
+
+// createMacros creates plumb's TEMP macros on one connection, with every
+// call of a plumb scalar function qualified (qualifyCalls).
 func createMacros(ctx context.Context, execer driver.ExecerContext) error {
-	if _, err := execer.ExecContext(ctx, macros, nil); err != nil {
+	qualifiedOnce.Do(func() { qualifiedMacros = qualifyCalls(macros) })
+	if _, err := execer.ExecContext(ctx, qualifiedMacros, nil); err != nil {
 		return fmt.Errorf("udf: create macros: %w", err)
 	}
 	return nil

@@ -22,7 +22,7 @@ func ServeBeside(ctx context.Context, srv *pgserver.Server, addr string, cfg pgs
 	if ip := net.ParseIP(host); !tls && host != "localhost" && (ip == nil || !ip.IsLoopback()) {
 		return fmt.Errorf("--http is allowed only on a loopback address without --tls-cert, not %q", host)
 	}
-	e, err := New(Config{DB: srv.DB(), DataDir: srv.DataDir(), Trust: srv.Trust(), CheckPassword: srv.CheckPassword,
+	e, err := New(Config{DB: srv.DB(), Files: srv.Files(), Trust: srv.Trust(), CheckPassword: srv.CheckPassword,
 		TLS: tls, Log: log, QueryTimeout: cfg.QueryTimeout})
 	if err != nil {
 		return err

@@ -72,7 +72,7 @@ func newTestServer(t testing.TB, dataDir string, trust, tls bool, tweak func(*Co
 	if err != nil {
 		t.Fatal(err)
 	}
-	ec := Config{DB: srv.DB(), DataDir: srv.DataDir(), Trust: srv.Trust(), CheckPassword: srv.CheckPassword, TLS: tls,
+	ec := Config{DB: srv.DB(), Files: srv.Files(), Trust: srv.Trust(), CheckPassword: srv.CheckPassword, TLS: tls,
 		Log: log, FailedLoginDelay: time.Millisecond}
 	if tweak != nil {
 		tweak(&ec)

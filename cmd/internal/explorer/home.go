@@ -49,9 +49,15 @@ func (e *Explorer) handleHome(w http.ResponseWriter, r *http.Request) {
 	defer s.release()
 	var d homeData
 	var err error
-	if d.Files, err = listFiles(e.cfg.DataDir); err != nil {
+	files, err := listFiles(e.cfg.Files.Data())
+	if err != nil {
 		e.fail(w, r, http.StatusInternalServerError, err)
 		return
+	}
+	for _, f := range files { // what the file policy would refuse is not offered
+		if _, err := e.cfg.Files.Resolve(f); err == nil {
+			d.Files = append(d.Files, f)
+		}
 	}
 	if d.Tables, err = listTables(ctx, s.conn); err != nil {
 		e.fail(w, r, http.StatusInternalServerError, err)

@@ -16,7 +16,7 @@ import (
 func benchRun(b *testing.B, e *Explorer, s *session, n int) *run {
 	b.Helper()
 	ctx := context.Background()
-	spec := diagnosis.Spec{Source: e.cfg.DataDir + "/shops.parquet", By: []string{"shop", "product"}, At: "day", Value: "units", Period: 7}
+	spec := diagnosis.Spec{Source: e.cfg.Files.Data() + "/shops.parquet", By: []string{"shop", "product"}, At: "day", Value: "units", Period: 7}
 	if _, err := s.conn.ExecContext(ctx, "CREATE OR REPLACE TEMP TABLE bench_demo AS FROM "+spec.Call()); err != nil {
 		b.Fatal(err)
 	}

@@ -19,12 +19,16 @@ import (
 	"net/http"
 	"sync"
 	"time"
+
+	"github.com/plumb-sql/plumb/cmd/internal/sandbox"
 )
 
 // Config says what the explorer serves and to whom.
 type Config struct {
-	DB      *sql.DB // the server's (sandboxed) database
-	DataDir string  // --data: the only directory sources may come from ("": tables only)
+	DB *sql.DB // the server's (sandboxed) database
+	// Files is the server's file policy: sources come only from its data
+	// directory (none: tables only).
+	Files *sandbox.Paths
 	// Trust skips the login (plumb serve --auth trust, loopback only).
 	Trust bool
 	// CheckPassword verifies a user's password (against plumb serve's SCRAM
@@ -84,8 +88,8 @@ type Explorer struct {
 // New prepares the explorer; Close ends its sessions.
 func New(cfg Config) (*Explorer, error) {
 	cfg.defaults()
-	if cfg.DB == nil {
-		return nil, errors.New("explorer: no database")
+	if cfg.DB == nil || cfg.Files == nil {
+		return nil, errors.New("explorer: no database or no file policy")
 	}
 	if !cfg.Trust && cfg.CheckPassword == nil {
 		return nil, errors.New("explorer: no password check and not --auth trust")

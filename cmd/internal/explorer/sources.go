@@ -11,7 +11,6 @@ import (
 	"sort"
 	"strings"
 
-	"github.com/plumb-sql/plumb/cmd/internal/pgserver"
 	"github.com/plumb-sql/plumb/udf"
 )
 
@@ -101,9 +100,11 @@ func listTables(ctx context.Context, conn *sql.Conn) ([]string, error) {
 var errUnknownSource = errors.New("not a file under --data or a table of the database")
 
 // resolveSource checks a source name sent by the page: a table or view the
-// database lists, or a data file under --data through the same sandbox
-// check as plumb serve's (pgserver.ResolveDataPath: no absolute path, no
-// "..", no symbolic link out of --data, no glob).
+// database lists, or a data file under --data through the same file policy
+// as plumb serve's clients (sandbox.Paths.Resolve: nothing outside --data,
+// symbolic links resolved, never the server's own files). The page offers
+// only plain relative file names, so an absolute path or a glob is refused
+// before that.
 func (e *Explorer) resolveSource(ctx context.Context, conn *sql.Conn, name string) (source, error) {
 	if name == "" {
 		return source{}, fmt.Errorf("pick a source")
@@ -124,7 +125,10 @@ func (e *Explorer) resolveSource(ctx context.Context, conn *sql.Conn, name strin
 	if !hasDataExtension(name) {
 		return source{}, fmt.Errorf("%q: %w", name, errUnknownSource)
 	}
-	path, err := pgserver.ResolveDataPath(e.cfg.DataDir, filepath.FromSlash(name))
+	if filepath.IsAbs(name) || strings.ContainsAny(name, "\x00*?[]{}") {
+		return source{}, fmt.Errorf("%q: %w", name, errUnknownSource)
+	}
+	path, err := e.cfg.Files.Resolve(filepath.FromSlash(name))
 	if err != nil {
 		return source{}, fmt.Errorf("%q: %w", name, errUnknownSource)
 	}

@@ -5,13 +5,10 @@ import (
 	"crypto/subtle"
 	"database/sql"
 	"errors"
-	"fmt"
 	"log/slog"
 	"net"
 	"os"
 	"os/signal"
-	"path/filepath"
-	"strings"
 	"syscall"
 
 	"github.com/xdg-go/scram"
@@ -19,13 +16,10 @@ import (
 
 // This file is what code serving beside the PostgreSQL listener in the same
 // process (the explorer page of plumb serve --http) needs from the server:
-// its database, its users' verifiers and its --data sandbox.
+// its database, its users' verifiers and its file policy (Files).
 
 // DB is the server's database, sandboxed as every client's session is.
 func (s *Server) DB() *sql.DB { return s.db }
-
-// DataDir is the --data directory ("" when none was given).
-func (s *Server) DataDir() string { return s.cfg.DataDir }
 
 // Trust reports whether the server runs with --auth trust (loopback only).
 func (s *Server) Trust() bool { return s.cfg.Auth == "trust" }
@@ -51,43 +45,6 @@ func (s *Server) CheckPassword(user, password string) bool {
 	return same && known
 }
 
-// ErrOutsideData is returned for a path the --data sandbox does not allow.
-var ErrOutsideData = errors.New("not a file under --data")
-
-// ResolveDataPath turns p, a path relative to the data directory dir, into
-// the path of that file under dir, or fails with ErrOutsideData: for an
-// absolute path, a URL, a home-relative path, a glob, a path that climbs
-// out (..), and a path whose symbolic links lead out of dir. The file must
-// exist. What it returns has no symbolic link below dir, so DuckDB's own
-// allowed_directories check sees the same directory.
-func ResolveDataPath(dir, p string) (string, error) {
-	refuse := fmt.Errorf("%q: %w", p, ErrOutsideData)
-	if dir == "" || p == "" || strings.ContainsAny(p, "\x00*?[]{}") || strings.Contains(p, "://") ||
-		strings.HasPrefix(p, "~") || filepath.IsAbs(p) || filepath.VolumeName(p) != "" {
-		return "", refuse
-	}
-	joined, changed := resolvePath(p, dir, false)
-	if !changed {
-		return "", refuse
-	}
-	if rel, err := filepath.Rel(dir, joined); err != nil || rel == ".." || strings.HasPrefix(rel, ".."+string(filepath.Separator)) {
-		return "", refuse
-	}
-	realDir, err := filepath.EvalSymlinks(dir)
-	if err != nil {
-		return "", refuse
-	}
-	real, err := filepath.EvalSymlinks(joined)
-	if err != nil {
-		return "", refuse
-	}
-	rel, err := filepath.Rel(realDir, real)
-	if err != nil || rel == "." || rel == ".." || strings.HasPrefix(rel, ".."+string(filepath.Separator)) {
-		return "", refuse
-	}
-	return filepath.Join(dir, rel), nil
-}
-
 // RunWith is Run with beside started once the database is open: it serves
 // on the same database until ctx ends, and is stopped (its context
 // cancelled, then waited for) before the database closes. beside may be nil.
@@ -98,7 +55,7 @@ func RunWith(ctx context.Context, cfg Config, log *slog.Logger, ready func(net.A
 	}
 	ln, err := net.Listen("tcp", cfg.Addr)
 	if err != nil {
-		srv.db.Close()
+		srv.Shutdown()
 		return err
 	}
 	if ready != nil {
