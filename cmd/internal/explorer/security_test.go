@@ -11,6 +11,8 @@ import (
 	"strings"
 	"testing"
 	"time"
+
+	"github.com/plumb-sql/plumb/udf"
 )
 
 // dataWithShops makes a --data folder holding the demo shops, and beside
@@ -420,4 +422,27 @@ func TestSessionLimit(t *testing.T) {
 			}
 		}
 	}
+}
+
+// While diagnose runs, the run's page shows groups done of total and
+// refreshes itself, without JavaScript.
+func TestProgressPage(t *testing.T) {
+	ts := newTestServer(t, demoFiles(t), false, false, nil)
+	b := ts.browser(t)
+	b.login("ana", testUsers["ana"])
+	s := ts.explorer.sessions.get(sessionRequest(t, b))
+	r := &run{ID: 7, Src: source{Name: "shops.parquet"}, started: time.Now(), cancel: func() {}, done: make(chan struct{}),
+		total: 1000, startDone: udf.GroupsDone()}
+	s.mu.Lock()
+	s.runs = append(s.runs, r)
+	s.mu.Unlock()
+	code, body := b.get("/runs/7")
+	if code != http.StatusOK || !strings.Contains(body, `<meta http-equiv="refresh" content="1">`) ||
+		!regexp.MustCompile(`\d+ of 1000 groups done`).MatchString(body) {
+		t.Errorf("progress page: %d %.600s", code, body)
+	}
+	if code, body := b.get("/runs/7/groups"); code != http.StatusOK || !strings.Contains(body, "of 1000 groups done") {
+		t.Errorf("the list of a running diagnose leads to its progress: %d", code)
+	}
+	close(r.done)
 }
