@@ -3,6 +3,8 @@ package stats
 import (
 	"fmt"
 	"math"
+
+	"github.com/plumb-sql/plumb/defaults"
 )
 
 // BreakKind names what the Zivot-Andrews test lets break once.
@@ -38,7 +40,7 @@ func (k BreakKind) dummies() int {
 
 // Trimming limits: the p-value table covers these fractions.
 const (
-	DefaultBreakTrim = 0.15
+	DefaultBreakTrim = defaults.Trimming
 	minBreakTrim     = 0.05
 	maxBreakTrim     = 0.30
 )

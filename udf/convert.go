@@ -4,6 +4,8 @@ import (
 	"database/sql/driver"
 	"fmt"
 	"math"
+
+	"github.com/plumb-sql/plumb/stats"
 )
 
 // floats converts a DuckDB LIST(DOUBLE) value into a []float64. NULL
@@ -37,12 +39,14 @@ func floats(v driver.Value) ([]float64, error) {
 // duckdb-go as listOrNull does.
 type doubleList []float64
 
-// resultValue turns doubleLists, also inside a STRUCT's map, into what
-// duckdb-go's setter takes.
+// resultValue turns doubleLists, also inside a STRUCT's map, and records
+// into what duckdb-go's setter takes.
 func resultValue(v any) any {
 	switch x := v.(type) {
 	case doubleList:
 		return listOrNull(x)
+	case record:
+		return resultValue(x.asMap())
 	case map[string]any:
 		for k, m := range x {
 			if l, ok := m.(doubleList); ok {
@@ -92,4 +96,21 @@ func orNull(v float64) any {
 		return nil
 	}
 	return v
+}
+
+// textList is a LIST(VARCHAR) value of violations.
+func textList(v []stats.Violation) []any {
+	out := make([]any, len(v))
+	for i, x := range v {
+		out[i] = string(x)
+	}
+	return out
+}
+
+// textOrNull returns s, or SQL NULL for the empty string.
+func textOrNull(s string) any {
+	if s == "" {
+		return nil
+	}
+	return s
 }

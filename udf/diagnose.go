@@ -2,6 +2,7 @@ package udf
 
 import (
 	"database/sql/driver"
+	_ "embed"
 	"fmt"
 	"math"
 	"slices"
@@ -12,6 +13,11 @@ import (
 
 	"github.com/plumb-sql/plumb/stats"
 )
+
+// The maths: stats.Regularize and stats.Stationarity (stats/gaps.go, stats/verdict*.go), stats.BenjaminiHochberg (stats/fdr.go); the SQL in diagnoseSQL, batches.go and series.go.
+
+//go:embed sql/diagnose.sql
+var diagnoseMacros string
 
 // diagnoseFunctions provides the per-group work and the SQL of
 //
@@ -30,17 +36,12 @@ import (
 // and shards columns instead; combine_diagnoses ranks the union of the n
 // parts.
 func diagnoseFunctions(t *types) []*function {
-	fields := append(verdictFields(t),
-		field{"n_used", t.bigint()}, field{"step", t.bigint()},
-		field{"gaps", t.bigint()}, field{"missing", t.bigint()},
-		field{"ljung_box_p_value", t.double()}, field{"shift_point", t.bigint()},
-	)
 	return []*function{{
 		name:     "plumb_diagnose",
 		parallel: true,
 		reuse:    true, // the result is a STRUCT of numbers and text
 		params:   []duckdb.TypeInfo{t.anyType(), t.bigint(), t.double(), t.varchar()},
-		result:   t.structOf(fields...),
+		result:   diagnoseLayout.info(t),
 		nullable: true,
 		eval: withPoints(func(p points, args []driver.Value) (any, error) {
 			opts, err := stationarityOptions(args[1], args[2])
@@ -108,12 +109,11 @@ func GroupsDone() int64 { return groupsDone.Load() }
 func diagnoseGroup(at []int64, x []float64, order []int, opts stats.StationarityOptions, fill stats.FillMethod) (any, error) {
 	for i := 1; i < len(at); i++ {
 		if at[i] == at[i-1] {
-			out := stationarityStruct(stats.StationarityResult{Status: duplicateAt, BoxCoxLambda: math.NaN(), ShiftIndex: -1})
-			out["seasonal_strength"], out["reason"] = nil, nil
-			for _, k := range []string{"n_used", "step", "gaps", "missing", "ljung_box_p_value", "shift_point"} {
-				out[k] = nil
+			d := diagnosed{
+				verdict:   stats.StationarityResult{Status: duplicateAt, BoxCoxLambda: math.NaN(), ShiftIndex: -1},
+				duplicate: true,
 			}
-			return out, nil
+			return diagnoseLayout.record(&d), nil
 		}
 	}
 	defer groupsDone.Add(1)
@@ -125,34 +125,112 @@ func diagnoseGroup(at []int64, x []float64, order []int, opts stats.Stationarity
 	if err != nil {
 		return nil, err
 	}
-	out := stationarityStruct(v)
-	out["n_used"] = int64(len(reg.Values))
-	out["step"] = int64(reg.Step)
-	out["gaps"] = int64(reg.Gaps)
-	out["missing"] = int64(reg.Missing)
-	out["ljung_box_p_value"], out["shift_point"] = nil, nil
+	d := diagnosed{verdict: v, regular: reg, status: string(v.Status), shiftPoint: -1}
 	failed := v.Status != stats.StatusOK && v.Status != stats.StatusSeasonUnknown
 	if !failed {
 		// The series after its recommended transform (the verdict's own,
 		// applied to the series with its outliers set aside).
 		if v.Differenced != nil {
 			if lb, err := stats.LjungBox(v.Differenced, 0, 0); err == nil && lb.Status == stats.StatusOK {
-				out["ljung_box_p_value"] = lb.PValue
+				d.ljungBox = lb.PValue
 			}
 		}
 		if v.ShiftIndex >= 0 {
-			out["shift_point"] = int64(observationAt(at, reg, v.ShiftIndex, order))
+			d.shiftPoint = observationAt(at, reg, v.ShiftIndex, order)
 		}
 	}
 	switch {
 	case failed:
 	case (reg.Gaps > 0 || reg.Missing > 0) && fill != stats.FillNone && fill != "":
-		out["status"] = "gaps_filled"
+		d.status = "gaps_filled"
 	case reg.Gaps > 0 || reg.Irregular > 0:
-		out["status"] = "gaps_ignored"
+		d.status = "gaps_ignored"
 	}
-	return out, nil
+	return diagnoseLayout.record(&d), nil
 }
+
+// diagnosed is one group's judgement as plumb_diagnose returns it.
+type diagnosed struct {
+	verdict stats.StationarityResult
+	regular stats.Regular
+	// status is the verdict's, or gaps_filled or gaps_ignored.
+	status string
+	// ljungBox is the Ljung-Box p-value after the recipe (nil: none).
+	ljungBox any
+	// shiftPoint is where, in the list as aggregated, the first observation
+	// after a level shift stands (-1: none); diagnoseSQL reads its time.
+	shiftPoint int
+	// duplicate: the group repeats a time, and nothing was judged.
+	duplicate bool
+}
+
+// diagnoseLayout is plumb_diagnose's STRUCT, in the order of diagnose's
+// columns (diagnoseFields): the verdict's fields (verdictLayout) with the
+// group's own around them, then step and shift_point, which diagnoseSQL
+// uses and does not show. A new column of diagnose's rows is one more
+// entry here; sharded parts and combine_diagnoses carry it through.
+var diagnoseLayout = func() *layout[diagnosed] {
+	// fromVerdict is the verdict's column of that name; a group with a
+	// repeated time has the verdict of nothing judged, without its
+	// reason and seasonal strength.
+	fromVerdict := func(name string) column[diagnosed] {
+		c, ok := verdictLayout.column(name)
+		if !ok {
+			panic("udf: the verdict has no field " + name) // caught by every test that opens a database
+		}
+		return column[diagnosed]{name, c.kind, func(d *diagnosed) any {
+			if d.duplicate && (name == "reason" || name == "seasonal_strength") {
+				return nil
+			}
+			return c.get(&d.verdict)
+		}}
+	}
+	// judged is v for a group whose times do not repeat, NULL otherwise.
+	judged := func(f func(*diagnosed) any) func(*diagnosed) any {
+		return func(d *diagnosed) any {
+			if d.duplicate {
+				return nil
+			}
+			return f(d)
+		}
+	}
+	cols := []column[diagnosed]{
+		varchar("status", func(d *diagnosed) any {
+			if d.duplicate {
+				return duplicateAt
+			}
+			return d.status
+		}),
+		fromVerdict("reason"),
+		integer64("gaps", judged(func(d *diagnosed) any { return int64(d.regular.Gaps) })),
+		integer64("missing", judged(func(d *diagnosed) any { return int64(d.regular.Missing) })),
+		integer64("n_used", judged(func(d *diagnosed) any { return int64(len(d.regular.Values)) })),
+	}
+	for _, name := range []string{"mean_stable", "spread_stable", "seasonal", "stationary", "violations",
+		"mean_cause", "shift_at", "shift_size", "trend_slope", "spread_cause", "seasonal_kind", "second_period",
+		"zero_share", "demand_class", "outliers",
+		"differences", "seasonal_differences", "box_cox_lambda", "period", "seasonal_strength",
+		"cured", "left_violations", "over_differenced", "score",
+		"adf_statistic", "adf_p_value", "adf_lags", "kpss_statistic", "kpss_p_value", "kpss_lags",
+		"mean_p_value", "spread_p_value"} {
+		cols = append(cols, fromVerdict(name))
+	}
+	cols = append(cols,
+		num("ljung_box_p_value", func(d *diagnosed) any { return d.ljungBox }),
+		integer64("step", judged(func(d *diagnosed) any { return int64(d.regular.Step) })),
+		integer64("shift_point", judged(func(d *diagnosed) any {
+			if d.shiftPoint >= 0 {
+				return int64(d.shiftPoint)
+			}
+			return nil
+		})),
+	)
+	return newLayout(cols...)
+}()
+
+// diagnoseHidden are the fields of plumb_diagnose's STRUCT that are not
+// columns of diagnose.
+var diagnoseHidden = map[string]bool{"step": true, "shift_point": true}
 
 // observationAt returns where, in the list of points as aggregated, the
 // first observation at or after position i of the judged series stands:
@@ -183,19 +261,18 @@ func sqlLiteral(v driver.Value) string {
 var diagnoseTests = []string{"adf", "kpss", "mean", "spread", "ljung_box"}
 
 // diagnoseFields are diagnose's columns after the group columns, n,
-// first_at and last_at, in order; status must come first. Each is a field
-// of plumb_diagnose's STRUCT, except shift_at, which the query reads from
-// the group's points (diagnoseSQL). A new column of diagnose's rows is one
-// more name here (and a field of the STRUCT); sharded parts and
-// combine_diagnoses carry it through unchanged.
-var diagnoseFields = []string{"status", "reason", "gaps", "missing", "n_used",
-	"mean_stable", "spread_stable", "seasonal", "stationary", "violations",
-	"mean_cause", "shift_at", "shift_size", "trend_slope", "spread_cause", "seasonal_kind", "second_period",
-	"zero_share", "demand_class", "outliers",
-	"differences", "seasonal_differences", "box_cox_lambda", "period", "seasonal_strength",
-	"cured", "left_violations", "over_differenced", "score",
-	"adf_statistic", "adf_p_value", "adf_lags", "kpss_statistic", "kpss_p_value", "kpss_lags",
-	"mean_p_value", "spread_p_value", "ljung_box_p_value"}
+// first_at and last_at, in order (status first): diagnoseLayout's names but
+// the hidden ones. shift_at is the exception among them: the query reads
+// it from the group's points (diagnoseSQL).
+var diagnoseFields = func() []string {
+	var names []string
+	for _, n := range diagnoseLayout.names {
+		if !diagnoseHidden[n] {
+			names = append(names, n)
+		}
+	}
+	return names
+}()
 
 // diagnoseSQL judges every group a batch at a time (batchedCTEs), then
 // ranks them (rankedSQL); with shards set it returns the groups of one shard
@@ -262,9 +339,3 @@ SELECT * FROM (
 )
 ORDER BY rank, %[3]s`, strings.Join(lists, ",\n           "), strings.Join(qs, ",\n       "), orderTail)
 }
-
-const diagnoseMacro = `
-CREATE OR REPLACE TEMP MACRO diagnose(source, "by", "at", value, period := NULL, alpha := 0.05, fill := 'none',
-                                      shard := NULL, shards := NULL) AS TABLE
-    FROM query(plumb_diagnose_sql(source, "by", "at", value, period::BIGINT, alpha::DOUBLE, fill, shard::BIGINT, shards::BIGINT));
-`

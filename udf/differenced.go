@@ -2,10 +2,16 @@ package udf
 
 import (
 	"database/sql/driver"
+	_ "embed"
 	"fmt"
 
 	"github.com/duckdb/duckdb-go/v2"
 )
+
+// The maths: stats.Difference (stats/difference.go); the SQL in differencedSQL.
+
+//go:embed sql/differenced.sql
+var differencedMacros string
 
 // differencedFunctions provides the SQL behind the differenced table macro:
 //
@@ -77,8 +83,3 @@ func readSeriesQuery(function string, args []driver.Value) (seriesQuery, error) 
 	}
 	return q, nil
 }
-
-const differencedMacro = `
-CREATE OR REPLACE TEMP MACRO differenced(source, "by", "at", value, lag := 1, times := 1) AS TABLE
-    FROM query(plumb_differenced_sql(source, "by", "at", value, lag, times));
-`

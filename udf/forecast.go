@@ -2,6 +2,7 @@ package udf
 
 import (
 	"database/sql/driver"
+	_ "embed"
 	"fmt"
 	"math"
 	"strings"
@@ -9,8 +10,14 @@ import (
 
 	"github.com/duckdb/duckdb-go/v2"
 
+	"github.com/plumb-sql/plumb/defaults"
 	"github.com/plumb-sql/plumb/stats"
 )
+
+// The maths: stats.ForecastByRecipe (stats/forecast_recipe.go, stats/forecast.go, stats/ar.go, stats/accuracy.go).
+
+//go:embed sql/forecast.sql
+var forecastMacros string
 
 // forecastFunctions provides two table functions that forecast every group
 // through its own recipe (stats.ForecastByRecipe):
@@ -148,7 +155,7 @@ func readForecastOptions(args []driver.Value) (forecastOptions, error) {
 	if o.fill, err = fillMethod(args[4]); err != nil {
 		return o, err
 	}
-	if o.holdout, err = intOr(args[5], "holdout", 0); err != nil {
+	if o.holdout, err = intOr(args[5], "holdout", defaults.Holdout); err != nil {
 		return o, err
 	}
 	o.biasAdjust, _ = args[6].(bool)
@@ -328,14 +335,3 @@ FROM (
 )
 ORDER BY %[1]s, step`, by, quoteIdent(q.at), actualOut, actual)
 }
-
-const forecastMacros = `
-CREATE OR REPLACE TEMP MACRO forecast(source, "by", "at", value, horizon := 14, coverage := 0.95, period := NULL,
-                                      alpha := 0.05, fill := 'none', holdout := 0, bias_adjust := false) AS TABLE
-    FROM query(plumb_forecast_sql(source, "by", "at", value, horizon::BIGINT, coverage::DOUBLE, period::BIGINT,
-                                  alpha::DOUBLE, fill, holdout::BIGINT, bias_adjust::BOOLEAN, false));
-CREATE OR REPLACE TEMP MACRO forecast_models(source, "by", "at", value, horizon := 14, coverage := 0.95, period := NULL,
-                                             alpha := 0.05, fill := 'none', holdout := 0, bias_adjust := false) AS TABLE
-    FROM query(plumb_forecast_sql(source, "by", "at", value, horizon::BIGINT, coverage::DOUBLE, period::BIGINT,
-                                  alpha::DOUBLE, fill, holdout::BIGINT, bias_adjust::BOOLEAN, true));
-`

@@ -2,6 +2,7 @@ package udf
 
 import (
 	"database/sql/driver"
+	_ "embed"
 	"fmt"
 
 	"github.com/duckdb/duckdb-go/v2"
@@ -9,15 +10,18 @@ import (
 	"github.com/plumb-sql/plumb/stats"
 )
 
-// outlierFunctions wraps stats.Outliers and stats.Demand:
+// The maths: stats.Outliers (stats/outliers.go).
+
+//go:embed sql/outlier_positions.sql
+var outlierPositionsMacros string
+
+// outlierPositionsFunctions wraps stats.Outliers:
 //
 //	outlier_positions(series, period := NULL) -> BIGINT[], the 1-based
 //	    positions of the isolated outliers the verdict sets aside
-//	demand_profile(series) -> STRUCT(zero_share, average_interval,
-//	    size_variation, demand_class)
 //
 // A series with a missing value gives NULL.
-func outlierFunctions(t *types) []*function {
+func outlierPositionsFunctions(t *types) []*function {
 	return []*function{{
 		name:     "plumb_outlier_positions",
 		parallel: true,
@@ -42,27 +46,5 @@ func outlierFunctions(t *types) []*function {
 			}
 			return out, nil
 		}),
-	}, {
-		name:     "plumb_demand_profile",
-		parallel: true,
-		params:   []duckdb.TypeInfo{t.doubles()},
-		result: t.structOf(field{"zero_share", t.double()}, field{"average_interval", t.double()},
-			field{"size_variation", t.double()}, field{"demand_class", t.varchar()}),
-		nullable: true,
-		eval: withSeries(func(x []float64, args []driver.Value) (any, error) {
-			if stats.CheckFinite(x) != stats.StatusOK {
-				return nil, nil
-			}
-			p := stats.Demand(x)
-			return map[string]any{"zero_share": orNull(p.ZeroShare), "average_interval": orNull(p.AverageInterval),
-				"size_variation": orNull(p.SizeVariation), "demand_class": textOrNull(string(p.Class))}, nil
-		}),
 	}}
 }
-
-const outlierMacros = `
-CREATE OR REPLACE TEMP MACRO outlier_positions(series, period := NULL) AS
-    plumb_outlier_positions(series::DOUBLE[], period::BIGINT);
-CREATE OR REPLACE TEMP MACRO demand_profile(series) AS
-    plumb_demand_profile(series::DOUBLE[]);
-`

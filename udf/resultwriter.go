@@ -14,8 +14,9 @@ import (
 // result type is made of the kinds below, executeDirect writes the whole
 // chunk here instead: DOUBLE, BIGINT, BOOLEAN and VARCHAR values, a
 // LIST(DOUBLE) given as a doubleList (NaN for NULL), a LIST(VARCHAR) given
-// as a []any of strings, and a STRUCT of those given as a map[string]any. Every result is checked first; if one has
-// another Go type, nothing is written and the chunk goes through
+// as a []any of strings, and a STRUCT of those given as a record (layout.go)
+// or a map[string]any. Every result is checked first; if one has another Go
+// type, nothing is written and the chunk goes through
 // duckdb-go's setter as before.
 
 // columnWriter writes one column (or a struct member) of a chunk.
@@ -283,36 +284,76 @@ func (w *textListWriter) write(row int, v any) {
 	}
 }
 
-// structWriter writes a map[string]any member by member; a NULL struct has
-// NULL members too, as duckdb-go writes it.
+// structWriter writes a STRUCT given as a record (by position) or as a
+// map[string]any (by name), member by member; a NULL struct has NULL
+// members too, as duckdb-go writes it.
 type structWriter struct {
 	vec    mapping.Vector
 	names  []string
 	fields []columnWriter
 	valid  validity
+	// layout is the last record's names found equal to names, so that a
+	// chunk of records of one layout compares the names once.
+	layout *string
 }
 
-func (w *structWriter) accepts(v any) bool {
-	if v == nil {
-		return true
-	}
-	m, ok := v.(map[string]any)
-	if !ok {
+// fits reports whether a record's fields are the vector's, in order.
+func (w *structWriter) fits(r record) bool {
+	if len(r.names) != len(w.names) || len(r.values) != len(w.names) {
 		return false
 	}
-	for i, name := range w.names {
-		x, ok := m[name]
-		if !ok || !w.fields[i].accepts(x) {
+	if len(r.names) == 0 || &r.names[0] == w.layout {
+		return true
+	}
+	for i, n := range r.names {
+		if n != w.names[i] {
 			return false
 		}
 	}
+	w.layout = &r.names[0]
 	return true
 }
-func (w *structWriter) count(v any) {
-	if m, ok := v.(map[string]any); ok {
-		for i, name := range w.names {
-			w.fields[i].count(m[name])
+
+func (w *structWriter) accepts(v any) bool {
+	switch x := v.(type) {
+	case nil:
+		return true
+	case record:
+		if !w.fits(x) {
+			return false
 		}
+		for i, f := range w.fields {
+			if !f.accepts(x.values[i]) {
+				return false
+			}
+		}
+		return true
+	case map[string]any:
+		for i, name := range w.names {
+			m, ok := x[name]
+			if !ok || !w.fields[i].accepts(m) {
+				return false
+			}
+		}
+		return true
+	}
+	return false
+}
+
+// member returns field i of v, a record or a map accepted before.
+func (w *structWriter) member(v any, i int) any {
+	if r, ok := v.(record); ok {
+		return r.values[i]
+	}
+	return v.(map[string]any)[w.names[i]]
+}
+
+func (w *structWriter) count(v any) {
+	if v == nil {
+		return
+	}
+	for i, f := range w.fields {
+		f.count(w.member(v, i))
 	}
 }
 func (w *structWriter) begin(rows int) {
@@ -322,13 +363,12 @@ func (w *structWriter) begin(rows int) {
 	}
 }
 func (w *structWriter) write(row int, v any) {
-	m, ok := v.(map[string]any)
-	if !ok {
+	if v == nil {
 		w.null(row)
 		return
 	}
-	for i, name := range w.names {
-		w.fields[i].write(row, m[name])
+	for i, f := range w.fields {
+		f.write(row, w.member(v, i))
 	}
 	w.valid.set(uint64(row), true)
 }

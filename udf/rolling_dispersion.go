@@ -2,10 +2,16 @@ package udf
 
 import (
 	"database/sql/driver"
+	_ "embed"
 	"fmt"
 
 	"github.com/duckdb/duckdb-go/v2"
 )
+
+// The maths: stats.Rolling (stats/rolling.go).
+
+//go:embed sql/rolling_dispersion.sql
+var rollingDispersionMacros string
 
 // rollingDispersionFunctions provides
 //
@@ -60,8 +66,3 @@ FROM plumb_done`, q.byList(""), quoteIdent(q.at), quoteIdent(q.value)), nil
 		},
 	}}
 }
-
-const rollingDispersionMacro = `
-CREATE OR REPLACE TEMP MACRO rolling_dispersion(source, "by", "at", value, width := 30) AS TABLE
-    FROM query(plumb_rolling_dispersion_sql(source, "by", "at", value, width::BIGINT));
-`

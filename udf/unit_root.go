@@ -2,12 +2,19 @@ package udf
 
 import (
 	"database/sql/driver"
+	_ "embed"
 	"fmt"
 
 	"github.com/duckdb/duckdb-go/v2"
 
+	"github.com/plumb-sql/plumb/defaults"
 	"github.com/plumb-sql/plumb/stats"
 )
+
+// The maths: stats.ADF, stats.KPSS, stats.PhillipsPerron and stats.DFGLS (stats/adf.go, stats/kpss.go, stats/pp.go, stats/dfgls.go; p-values in stats/mackinnon.go, stats/kpss_limit.go, stats/dfgls_table.go).
+
+//go:embed sql/unit_root.sql
+var unitRootMacros string
 
 // unitRootFunctions wraps stats.ADF, stats.KPSS, stats.PhillipsPerron and
 // stats.DFGLS:
@@ -49,7 +56,7 @@ func unitRootFunctions(t *types) []*function {
 			if err != nil {
 				return nil, err
 			}
-			method, deterministic, rule := "adf", "constant", "aic"
+			method, deterministic, rule := defaults.UnitRootMethod, defaults.Deterministic, defaults.LagRule
 			for i, dst := range map[int]*string{1: &method, 2: &deterministic, 4: &rule} {
 				if args[i] != nil {
 					if *dst, err = text(args[i], "option"); err != nil {
@@ -127,8 +134,3 @@ func unitRootStruct(r stats.UnitRootResult) map[string]any {
 		"status":          string(r.Status),
 	}
 }
-
-const unitRootMacros = `
-CREATE OR REPLACE TEMP MACRO unit_root(series, method := 'adf', deterministic := 'constant', lags := NULL, lag_rule := 'aic') AS
-    plumb_unit_root(series::DOUBLE[], method, deterministic, lags::BIGINT, lag_rule);
-`

@@ -2,23 +2,27 @@ package udf
 
 import (
 	"database/sql/driver"
+	_ "embed"
 	"fmt"
 
 	"github.com/duckdb/duckdb-go/v2"
 
+	"github.com/plumb-sql/plumb/defaults"
 	"github.com/plumb-sql/plumb/stats"
 )
 
-// breakFunctions wraps the two tests for one structural break:
+// The maths: stats.ZivotAndrews (stats/zivot_andrews*.go).
+
+//go:embed sql/zivot_andrews.sql
+var zivotAndrewsMacros string
+
+// zivotAndrewsFunctions wraps the Zivot-Andrews test:
 //
 //	zivot_andrews(series, kind := 'intercept', lags := NULL, lag_rule := 'aic', trimming := 0.15) -> STRUCT
 //	    stats.ZivotAndrews: a unit root against a break in the intercept,
 //	    the trend or both (kind); break_at is the 1-based position of the
 //	    first observation after the break.
-//	mean_break(series) -> STRUCT
-//	    stats.MeanBreak: the sup-Wald test for one break in the mean of a
-//	    stationary series, its date and size.
-func breakFunctions(t *types) []*function {
+func zivotAndrewsFunctions(t *types) []*function {
 	d := t.double()
 	return []*function{{
 		name:     "plumb_zivot_andrews",
@@ -31,7 +35,7 @@ func breakFunctions(t *types) []*function {
 			field{"kind", t.varchar()}, field{"status", t.varchar()}),
 		nullable: true,
 		eval: withSeries(func(x []float64, args []driver.Value) (any, error) {
-			o := stats.ZivotAndrewsOptions{Break: stats.BreakIntercept, LagRule: stats.LagAIC}
+			o := stats.ZivotAndrewsOptions{Break: stats.BreakKind(defaults.BreakKind), LagRule: stats.LagRule(defaults.LagRule)}
 			var err error
 			if args[1] != nil {
 				s, err := text(args[1], "kind")
@@ -71,33 +75,5 @@ func breakFunctions(t *types) []*function {
 			}
 			return out, nil
 		}),
-	}, {
-		name:     "plumb_mean_break",
-		parallel: true,
-		reuse:    true,
-		params:   []duckdb.TypeInfo{t.doubles()},
-		result: t.structOf(field{"statistic", d}, field{"p_value", d}, field{"p_value_bound", t.varchar()},
-			field{"break_at", t.bigint()}, field{"before", d}, field{"after", d}, field{"size", d},
-			field{"size_sd", d}, field{"status", t.varchar()}),
-		nullable: true,
-		eval: withSeries(func(x []float64, args []driver.Value) (any, error) {
-			r := stats.MeanBreak(x)
-			ok := r.Status == stats.StatusOK
-			out := map[string]any{
-				"statistic": value(r.Statistic, ok), "p_value": value(r.PValue, ok), "p_value_bound": nil,
-				"break_at": nil, "before": value(r.Before, ok), "after": value(r.After, ok),
-				"size": value(r.Size, ok), "size_sd": value(r.SizeSD, ok), "status": string(r.Status)}
-			if ok {
-				out["p_value_bound"], out["break_at"] = string(r.PValueBound), int64(r.Index+1)
-			}
-			return out, nil
-		}),
 	}}
 }
-
-const breakMacros = `
-CREATE OR REPLACE TEMP MACRO zivot_andrews(series, kind := 'intercept', lags := NULL, lag_rule := 'aic', trimming := 0.15) AS
-    plumb_zivot_andrews(series::DOUBLE[], kind, lags::BIGINT, lag_rule, trimming::DOUBLE);
-CREATE OR REPLACE TEMP MACRO mean_break(series) AS
-    plumb_mean_break(series::DOUBLE[]);
-`

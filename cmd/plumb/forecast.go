@@ -10,6 +10,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/plumb-sql/plumb/cmd/internal/output"
+	"github.com/plumb-sql/plumb/defaults"
 )
 
 func newForecastCommand() *cobra.Command {
@@ -71,8 +72,8 @@ coverage.`,
 	}
 	flags.register(cmd)
 	fl := cmd.Flags()
-	fl.IntVar(&horizon, "horizon", 14, "steps to forecast")
-	fl.Float64Var(&coverage, "coverage", 0.95, "coverage of the central prediction interval, between 0 and 1")
+	fl.IntVar(&horizon, "horizon", defaults.Horizon, "steps to forecast")
+	fl.Float64Var(&coverage, "coverage", defaults.Coverage, "coverage of the central prediction interval, between 0 and 1")
 	fl.IntVar(&holdout, "holdout", 0, "hold out the last `K` values of each group and forecast them (0: none)")
 	fl.BoolVar(&biasAdjust, "bias-adjust", false, "after a Box-Cox transform, forecast the mean instead of the median")
 	fl.IntVar(&top, "top", 20, "print this many rows")
