@@ -13,12 +13,12 @@ import (
 
 // Every table function hands DuckDB the groups of its source a batch at a
 // time, so that it completes under DuckDB's memory_limit whatever the
-// number of groups. What DuckDB 1.5.6 does, measured (DEVELOPERS.md has the
-// numbers):
+// number of groups. What DuckDB 1.5.6 does (DEVELOPERS.md, "Bounded
+// memory", has the measurements):
 //
-//   - list() cannot spill to disk: a GROUP BY that gathers 36.5 million
-//     (at, value) pairs into lists needs about 1.1 GB and fails with an
-//     out-of-memory error under a smaller memory_limit.
+//   - list() cannot spill to disk: a GROUP BY that gathers (at, value)
+//     pairs into lists fails with an out-of-memory error once the lists
+//     outgrow memory_limit.
 //   - Two GROUP BYs in one query, as UNION ALL branches or MATERIALIZED
 //     CTEs, keep their lists until the query ends, even on one thread:
 //     splitting the groups inside one plain query saves nothing.
@@ -50,17 +50,11 @@ import (
 // functions that return a row per source row rowBytes, which adds their
 // output.
 //
-// Gathering took about 30 bytes a row, measured with BIGINT and DOUBLE
-// columns: 100,000 groups × 365 rows needed a memory_limit between 1.0 and
-// 1.1 GB, in group order and in time order alike. But on a source in time
-// order every thread meets every group, and merging the threads' partial
-// lists copies them: 1,000,000 groups × 365 rows in time order ran out of
-// memory under memory_limit = '4GB' in batches of 67 million rows (30 bytes
-// a row would have allowed 74 million) and completed in batches of 36
-// million. gatherBytesPerRow allows for that copy. Under memory_limit =
-// '100MB', 8,000 groups of 350 rows on average on two threads,
-// stationarize_recipes ran out of memory until the chunks' lists were
-// counted.
+// gatherBytesPerRow is about twice what gathering takes on a source in
+// group order: on a source in time order every thread meets every group,
+// and merging the threads' partial lists copies them. The chunks' lists
+// (chunkBytes) are counted because a small memory_limit is exhausted by
+// them alone.
 const (
 	batchMemoryShare  = 0.6
 	batchReserve      = 40 << 20
@@ -70,10 +64,7 @@ const (
 
 // batchRowsCap bounds a batch even when memory_limit would allow more:
 // gathering more than a few GB at once only costs the kernel time to hand
-// out fresh pages. 1,000,000 groups × 365 rows on two cores (group-sorted
-// Parquet): one batch took 48 s, 68 s of user and 20 s of system CPU time
-// and 10.9 GB; batches of at most 73.5 million rows 42 s, 67 s and 7 s,
-// and 2.6 GB; of at most 2^26 rows 39 s and 2.6 GB (median of 3).
+// out fresh pages, and takes memory for no gain in speed.
 const batchRowsCap = 1 << 26
 
 // rowBytes is what a batch of a function that returns a row per source row
@@ -81,9 +72,8 @@ const batchRowsCap = 1 << 26
 // values (at, the value, and its results): the gathering, plus its output
 // held twice while the next batch runs (the recursive CTE keeps the last
 // batch's rows beside the batch's own), plus a third for the lists'
-// overhead. rolling_dispersion (7 lists) ran out of memory under
-// memory_limit = '80MB' (8,000 groups) when every function was allowed 128
-// bytes a row.
+// overhead: a function returning many lists needs more than a fixed
+// allowance per row.
 func rowBytes(lists int) int { return gatherBytesPerRow + 24*lists }
 
 // chunkBytes is, per source row, what DuckDB holds while one chunk of
