@@ -6,13 +6,14 @@ import (
 	"math"
 
 	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/udf/internal/vectors"
 )
 
 // floats converts a DuckDB LIST(DOUBLE) value into a []float64. NULL
 // elements become NaN: plumb treats NULL and NaN alike as missing, and every
 // function documents what it does with a missing value.
 func floats(v driver.Value) ([]float64, error) {
-	if x, ok := v.([]float64); ok { // read unboxed by listColumn
+	if x, ok := v.([]float64); ok { // read unboxed by vectors.List
 		return x, nil
 	}
 	list, ok := v.([]any)
@@ -35,9 +36,9 @@ func floats(v driver.Value) ([]float64, error) {
 
 // doubleList is a LIST(DOUBLE) result with NaN standing for NULL, alone or
 // as a member of a STRUCT result. executeDirect writes them straight into
-// DuckDB's vectors (resultwriter.go); the other paths hand them to
-// duckdb-go as listOrNull does.
-type doubleList []float64
+// DuckDB's vectors (vectors.Write); the fallback hands them to duckdb-go as
+// listOrNull does.
+type doubleList = vectors.Floats
 
 // resultValue turns doubleLists, also inside a STRUCT's map, and records
 // into what duckdb-go's setter takes.
@@ -46,7 +47,7 @@ func resultValue(v any) any {
 	case doubleList:
 		return listOrNull(x)
 	case record:
-		return resultValue(x.asMap())
+		return resultValue(x.Map())
 	case map[string]any:
 		for k, m := range x {
 			if l, ok := m.(doubleList); ok {

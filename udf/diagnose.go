@@ -21,8 +21,8 @@ var diagnoseMacros string
 
 // diagnoseFunctions provides the per-group work and the SQL of
 //
-//	diagnose(source, by := ..., at := ..., value := ..., period := NULL, alpha := 0.05, fill := 'none',
-//	         shard := NULL, shards := NULL)
+//	diagnose(source, by := ..., at := ..., value := ..., period, alpha, fill, shard, shards)
+//	    (the defaults in udf/sql/diagnose.sql, from package defaults)
 //
 // which returns one row per group: the group columns; n, first_at, last_at,
 // gaps (time points missing from the group's usual step), missing (NULL

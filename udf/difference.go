@@ -16,8 +16,8 @@ var differenceMacros string
 
 // differenceFunctions wraps stats.Difference and stats.Undifference.
 //
-//	difference(series, lag := 1, times := 1)       -> DOUBLE[]
-//	undifference(series, anchor, lag := 1)         -> DOUBLE[]
+//	difference(series, lag, times)       -> DOUBLE[]
+//	undifference(series, anchor, lag)    -> DOUBLE[] (defaults in udf/sql/difference.sql)
 func differenceFunctions(t *types) []*function {
 	return []*function{{
 		name:   "plumb_difference",

@@ -15,7 +15,7 @@ var differencedMacros string
 
 // differencedFunctions provides the SQL behind the differenced table macro:
 //
-//	differenced(source, by := ..., at := ..., value := ..., lag := 1, times := 1)
+//	differenced(source, by := ..., at := ..., value := ..., lag, times) (defaults in udf/sql/differenced.sql)
 //
 // returns one row per source row: the group columns, at, the original value
 // and differenced_value, the value differenced times times at lag lag within

@@ -22,8 +22,8 @@ var forecastMacros string
 // forecastFunctions provides two table functions that forecast every group
 // through its own recipe (stats.ForecastByRecipe):
 //
-//	forecast(source, by, at, value, horizon := 14, coverage := 0.95, period := NULL,
-//	         alpha := 0.05, fill := 'none', holdout := 0, bias_adjust := false)
+//	forecast(source, by, at, value, horizon, coverage, period, alpha, fill, holdout, bias_adjust)
+//	    (the defaults in udf/sql/forecast.sql, from package defaults)
 //	    one row per group and step: the group columns, at (continuing each
 //	    group's own step, in the at column's type), step (1..horizon),
 //	    forecast, lower, upper (the central prediction interval of the given

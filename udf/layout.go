@@ -2,6 +2,8 @@ package udf
 
 import (
 	"github.com/duckdb/duckdb-go/v2"
+
+	"github.com/plumb-sql/plumb/udf/internal/vectors"
 )
 
 // One declaration per result.
@@ -73,7 +75,7 @@ func (l *layout[R]) record(r *R) record {
 	for i, c := range l.columns {
 		values[i] = c.get(r)
 	}
-	return record{names: l.names, values: values}
+	return record{Names: l.names, Values: values}
 }
 
 // column returns the column called name and whether there is one.
@@ -86,21 +88,8 @@ func (l *layout[R]) column(name string) (column[R], bool) {
 	return column[R]{}, false
 }
 
-// record is one STRUCT value: values[i] is the field names[i]. The result
-// writer writes it by position; duckdb-go's setter gets it as a map (asMap).
-type record struct {
-	names  []string
-	values []any
-}
-
-// asMap is the record as duckdb-go's STRUCT setter takes it.
-func (r record) asMap() map[string]any {
-	m := make(map[string]any, len(r.names))
-	for i, n := range r.names {
-		m[n] = r.values[i]
-	}
-	return m
-}
+// record is one STRUCT value, written by position (vectors.Record).
+type record = vectors.Record
 
 // Column constructors, one per kind.
 

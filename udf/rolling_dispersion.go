@@ -15,7 +15,7 @@ var rollingDispersionMacros string
 
 // rollingDispersionFunctions provides
 //
-//	rolling_dispersion(source, by := ..., at := ..., value := ..., width := 30)
+//	rolling_dispersion(source, by := ..., at := ..., value := ..., width) (default in udf/sql/rolling_dispersion.sql)
 //
 // returning one row per source row: the group columns, at, the value, and
 // over the trailing window of width values rolling_mean, rolling_sd,

@@ -12,7 +12,7 @@ import (
 	"github.com/plumb-sql/plumb/stats"
 )
 
-// stationarity(series, period := NULL, alpha := 0.05) -> STRUCT: the
+// stationarity(series, period, alpha) -> STRUCT (udf/sql/stationarity.sql): the
 // verdict on one series, the three conditions, their causes, the recipe
 // that cures them and whether it does, a reason and a score.
 //

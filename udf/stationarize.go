@@ -19,11 +19,11 @@ var stationarizeMacros string
 // stationarizeFunctions provides two table functions that transform every
 // group by its own recommended recipe:
 //
-//	stationarize(source, by, at, value, period := NULL, alpha := 0.05)
+//	stationarize(source, by, at, value, period, alpha)
 //	    one row per source row: the group columns, at, the value and
 //	    stationary_value, the value after the group's recipe; each group's
 //	    first D·period + d rows have none (NULL).
-//	stationarize_recipes(source, by, at, value, period := NULL, alpha := 0.05)
+//	stationarize_recipes(source, by, at, value, period, alpha)
 //	    one row per group: the group columns, n, last_at, step, status, and
 //	    the recipe (see stats.Recipe): box_cox_lambda (NULL for none),
 //	    period, seasonal_means (NULL for none), seasonal_differences,

@@ -19,7 +19,7 @@ var unitRootMacros string
 // unitRootFunctions wraps stats.ADF, stats.KPSS, stats.PhillipsPerron and
 // stats.DFGLS:
 //
-//	unit_root(series, method := 'adf', deterministic := 'constant', lags := NULL, lag_rule := 'aic')
+//	unit_root(series, method, deterministic, lags, lag_rule) (defaults in udf/sql/unit_root.sql)
 //
 // method is adf, kpss, pp or dfgls; deterministic none, constant or trend;
 // lags is the maximum (or, with lag_rule 'fixed', the exact) number of

@@ -10,7 +10,7 @@ import (
 	"github.com/plumb-sql/plumb/stats"
 )
 
-// white_noise(series, lags := 10, fitted := 0) -> STRUCT: the Ljung-Box
+// white_noise(series, lags, fitted) -> STRUCT (udf/sql/white_noise.sql): the Ljung-Box
 // test that the first lags autocorrelations are zero, with df = lags −
 // fitted.
 //

@@ -18,7 +18,7 @@ var zivotAndrewsMacros string
 
 // zivotAndrewsFunctions wraps the Zivot-Andrews test:
 //
-//	zivot_andrews(series, kind := 'intercept', lags := NULL, lag_rule := 'aic', trimming := 0.15) -> STRUCT
+//	zivot_andrews(series, kind, lags, lag_rule, trimming) -> STRUCT (defaults in udf/sql/zivot_andrews.sql)
 //	    stats.ZivotAndrews: a unit root against a break in the intercept,
 //	    the trend or both (kind); break_at is the 1-based position of the
 //	    first observation after the break.
