@@ -74,7 +74,7 @@ coverage.`,
 	fl := cmd.Flags()
 	fl.IntVar(&horizon, "horizon", defaults.Horizon, "steps to forecast")
 	fl.Float64Var(&coverage, "coverage", defaults.Coverage, "coverage of the central prediction interval, between 0 and 1")
-	fl.IntVar(&holdout, "holdout", 0, "hold out the last `K` values of each group and forecast them (0: none)")
+	fl.IntVar(&holdout, "holdout", defaults.Holdout, "hold out the last `K` values of each group and forecast them (0: none)")
 	fl.BoolVar(&biasAdjust, "bias-adjust", false, "after a Box-Cox transform, forecast the mean instead of the median")
 	fl.IntVar(&top, "top", 20, "print this many rows")
 	fl.StringVarP(&out, "out", "o", "", "write every row to `FILE` (.parquet, .csv or .json)")
