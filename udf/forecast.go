@@ -38,22 +38,12 @@ var forecastMacros string
 //	    intervals.
 func forecastFunctions(t *types) []*function {
 	d := t.double()
-	fields := []field{
-		{"status", t.varchar()}, {"reason", t.varchar()},
-		{"offsets", t.doubles()}, {"forecast", t.doubles()}, {"lower", t.doubles()}, {"upper", t.doubles()},
-		{"actual", t.doubles()},
-		{"mean_cause", t.varchar()}, {"seasonal_kind", t.varchar()}, {"period", t.bigint()},
-		{"box_cox_lambda", d}, {"seasonal_differences", t.bigint()}, {"differences", t.bigint()},
-		{"ar_order", t.bigint()}, {"ar_constant", d}, {"ar_coefficients", t.doubles()},
-		{"residual_variance", d}, {"nobs", t.bigint()}, {"aic", d}, {"ljung_box_p_value", d},
-		{"mase", d}, {"interval_coverage", d},
-	}
 	funcs := []*function{{
 		name:     "plumb_forecast",
 		parallel: true,
 		params: []duckdb.TypeInfo{t.anyType(), t.bigint(), d, t.bigint(), d, t.varchar(), t.bigint(),
 			t.boolean()},
-		result:   t.structOf(fields...),
+		result:   forecastLayout.info(t),
 		nullable: true,
 		eval: withPoints(func(p points, args []driver.Value) (any, error) {
 			o, err := readForecastOptions(args[1:])
@@ -190,14 +180,11 @@ func forecastLiteral(v driver.Value) string {
 // forecastGroup judges one group (on all but the held-out values), fits the
 // recipe's model and forecasts.
 func forecastGroup(at []int64, x []float64, o forecastOptions) (any, error) {
-	out := map[string]any{"status": nil, "reason": nil, "offsets": nil, "forecast": nil, "lower": nil, "upper": nil,
-		"actual": nil, "mean_cause": nil, "seasonal_kind": nil, "period": nil, "box_cox_lambda": nil,
-		"seasonal_differences": nil, "differences": nil, "ar_order": nil, "ar_constant": nil, "ar_coefficients": nil,
-		"residual_variance": nil, "nobs": nil, "aic": nil, "ljung_box_p_value": nil, "mase": nil, "interval_coverage": nil}
+	var out forecastRow
 	for i := 1; i < len(at); i++ {
 		if at[i] == at[i-1] {
-			out["status"] = duplicateAt
-			return out, nil
+			out.status = duplicateAt
+			return forecastLayout.record(&out), nil
 		}
 	}
 	reg, err := stats.Regularize(at, x, o.fill)
@@ -218,7 +205,7 @@ func forecastGroup(at []int64, x []float64, o forecastOptions) (any, error) {
 			offsets[h] = float64(timeAt(at, reg, n+h) - at[0])
 		}
 	}
-	out["offsets"], out["forecast"], out["lower"], out["upper"] = offsets, nan, nan, nan
+	out.offsets, out.forecast, out.lower, out.upper = offsets, nan, nan, nan
 	if o.holdout > 0 {
 		actual := make(doubleList, o.horizon)
 		for h := range actual {
@@ -227,62 +214,98 @@ func forecastGroup(at []int64, x []float64, o forecastOptions) (any, error) {
 				actual[h] = y[n+h]
 			}
 		}
-		out["actual"] = actual
+		out.actual = actual
 	}
 	if n < 2 {
-		out["status"] = string(stats.StatusTooShort)
-		out["reason"] = stats.StatusReason(stats.StatusTooShort)
-		return out, nil
+		out.status = string(stats.StatusTooShort)
+		out.reason = stats.StatusReason(stats.StatusTooShort)
+		return forecastLayout.record(&out), nil
 	}
 	train := y[:n]
 	v, err := stats.Stationarity(train, o.verdict)
 	if err != nil {
 		return nil, err
 	}
-	out["status"], out["reason"] = string(v.Status), v.Reason
+	out.status, out.reason = string(v.Status), v.Reason
 	if v.Status != stats.StatusOK && v.Status != stats.StatusSeasonUnknown {
-		return out, nil
+		return forecastLayout.record(&out), nil
 	}
 	rec := v.Recipe()
-	out["mean_cause"], out["seasonal_kind"] = textOrNull(string(v.MeanCause)), textOrNull(string(v.SeasonalKind))
+	out.meanCause, out.seasonalKind = textOrNull(string(v.MeanCause)), textOrNull(string(v.SeasonalKind))
 	if rec.Period > 0 {
-		out["period"] = int64(rec.Period)
+		out.period = int64(rec.Period)
 	}
 	if rec.BoxCox {
-		out["box_cox_lambda"] = rec.Lambda
+		out.boxCoxLambda = rec.Lambda
 	}
-	out["seasonal_differences"], out["differences"] = int64(rec.SeasonalDifferences), int64(rec.Differences)
+	out.seasonalDifferences, out.differences = int64(rec.SeasonalDifferences), int64(rec.Differences)
 	f, err := stats.ForecastByRecipe(v.Judged(), rec, stats.RecipeForecastOptions{
 		Horizon: o.horizon, Coverage: o.coverage, AR: stats.AROptions{Period: rec.Period}, BiasAdjust: o.biasAdjust})
 	if err != nil {
 		return nil, err
 	}
 	if f.Status != stats.StatusOK {
-		out["status"] = string(f.Status)
-		return out, nil
+		out.status = string(f.Status)
+		return forecastLayout.record(&out), nil
 	}
-	out["forecast"], out["lower"], out["upper"] = doubleList(f.Mean), doubleList(f.Lower), doubleList(f.Upper)
+	out.forecast, out.lower, out.upper = doubleList(f.Mean), doubleList(f.Lower), doubleList(f.Upper)
 	m := f.Model
-	out["ar_order"], out["ar_constant"], out["ar_coefficients"] = int64(m.Order), orNull(m.Constant), doubleList(m.Coefficients)
-	out["residual_variance"], out["nobs"], out["aic"] = orNull(m.Variance), int64(m.NObs), orNull(m.AIC)
+	out.arOrder, out.arConstant, out.arCoefficients = int64(m.Order), orNull(m.Constant), doubleList(m.Coefficients)
+	out.residualVariance, out.nobs, out.aic = orNull(m.Variance), int64(m.NObs), orNull(m.AIC)
 	if f.WhiteNoise.Status == stats.StatusOK {
-		out["ljung_box_p_value"] = orNull(f.WhiteNoise.PValue)
+		out.ljungBox = orNull(f.WhiteNoise.PValue)
 	}
 	if o.holdout > 0 {
-		actual := []float64(out["actual"].(doubleList))
+		actual := []float64(out.actual.(doubleList))
 		lag := 1
 		if v.Seasonal && rec.Period > 1 {
 			lag = rec.Period
 		}
 		if e, err := stats.MeanAbsoluteScaledError(actual, f.Mean, train, lag); err == nil && e.Status == stats.StatusOK {
-			out["mase"] = orNull(e.MASE)
+			out.mase = orNull(e.MASE)
 		}
 		if share, used, err := stats.IntervalCoverage(actual, f.Lower, f.Upper); err == nil && used > 0 {
-			out["interval_coverage"] = share
+			out.intervalCoverage = share
 		}
 	}
-	return out, nil
+	return forecastLayout.record(&out), nil
 }
+
+// forecastRow is one group's forecast as plumb_forecast returns it; nil is
+// NULL.
+type forecastRow struct {
+	status, reason, offsets, forecast, lower, upper, actual     any
+	meanCause, seasonalKind, period, boxCoxLambda               any
+	seasonalDifferences, differences, arOrder, arConstant       any
+	arCoefficients, residualVariance, nobs, aic, ljungBox, mase any
+	intervalCoverage                                            any
+}
+
+// forecastLayout is plumb_forecast's STRUCT, which forecastSQL unpacks.
+var forecastLayout = newLayout(
+	varchar("status", func(r *forecastRow) any { return r.status }),
+	varchar("reason", func(r *forecastRow) any { return r.reason }),
+	doubles("offsets", func(r *forecastRow) any { return r.offsets }),
+	doubles("forecast", func(r *forecastRow) any { return r.forecast }),
+	doubles("lower", func(r *forecastRow) any { return r.lower }),
+	doubles("upper", func(r *forecastRow) any { return r.upper }),
+	doubles("actual", func(r *forecastRow) any { return r.actual }),
+	varchar("mean_cause", func(r *forecastRow) any { return r.meanCause }),
+	varchar("seasonal_kind", func(r *forecastRow) any { return r.seasonalKind }),
+	integer64("period", func(r *forecastRow) any { return r.period }),
+	num("box_cox_lambda", func(r *forecastRow) any { return r.boxCoxLambda }),
+	integer64("seasonal_differences", func(r *forecastRow) any { return r.seasonalDifferences }),
+	integer64("differences", func(r *forecastRow) any { return r.differences }),
+	integer64("ar_order", func(r *forecastRow) any { return r.arOrder }),
+	num("ar_constant", func(r *forecastRow) any { return r.arConstant }),
+	doubles("ar_coefficients", func(r *forecastRow) any { return r.arCoefficients }),
+	num("residual_variance", func(r *forecastRow) any { return r.residualVariance }),
+	integer64("nobs", func(r *forecastRow) any { return r.nobs }),
+	num("aic", func(r *forecastRow) any { return r.aic }),
+	num("ljung_box_p_value", func(r *forecastRow) any { return r.ljungBox }),
+	num("mase", func(r *forecastRow) any { return r.mase }),
+	num("interval_coverage", func(r *forecastRow) any { return r.intervalCoverage }),
+)
 
 // timeAt is the time of position i of the judged series (on the regular
 // grid when Regularize filled it, the i-th observation otherwise), and

@@ -23,6 +23,7 @@ const (
 	kindBoolean              // BOOLEAN
 	kindVarchar              // VARCHAR
 	kindVarchars             // VARCHAR[], given as a []any of strings
+	kindDoubles              // DOUBLE[], given as a doubleList (NaN for NULL)
 )
 
 func (k kind) info(t *types) duckdb.TypeInfo {
@@ -35,6 +36,8 @@ func (k kind) info(t *types) duckdb.TypeInfo {
 		return t.varchar()
 	case kindVarchars:
 		return t.list(t.varchar())
+	case kindDoubles:
+		return t.doubles()
 	}
 	return t.double()
 }
@@ -107,4 +110,7 @@ func varchar[R any](name string, get func(*R) any) column[R] {
 }
 func varchars[R any](name string, get func(*R) any) column[R] {
 	return column[R]{name, kindVarchars, get}
+}
+func doubles[R any](name string, get func(*R) any) column[R] {
+	return column[R]{name, kindDoubles, get}
 }

@@ -37,20 +37,11 @@ var stationarizeMacros string
 // stationarize and stationarize_recipes judge each group with the same
 // rules as diagnose (without filling gaps), so they agree with it.
 func stationarizeFunctions(t *types) []*function {
-	d := t.double()
-	recipeFields := []field{
-		{"box_cox_lambda", d}, {"period", t.bigint()},
-		{"seasonal_means", t.doubles()}, {"seasonal_differences", t.bigint()},
-		{"trend_intercept", d}, {"trend_slope", d},
-		{"shift_position", t.bigint()}, {"shift_size", d},
-		{"differences", t.bigint()},
-		{"head", t.doubles()}, {"tail", t.doubles()},
-	}
 	return []*function{{
 		name:     "plumb_stationarize",
 		parallel: true,
 		params:   []duckdb.TypeInfo{t.doubles(), t.bigint(), t.double()},
-		result:   t.structOf(append([]field{{"values", t.doubles()}, {"status", t.varchar()}}, recipeFields...)...),
+		result:   stationarizeLayout.info(t),
 		nullable: true,
 		eval: withSeries(func(x []float64, args []driver.Value) (any, error) {
 			opts, err := stationarityOptions(args[1], args[2])
@@ -80,16 +71,13 @@ func stationarizeFunctions(t *types) []*function {
 
 // stationarizeGroup judges x, applies its recipe and lays out the result.
 func stationarizeGroup(x []float64, opts stats.StationarityOptions) (any, error) {
-	out := map[string]any{"values": nil, "status": nil, "box_cox_lambda": nil, "period": nil,
-		"seasonal_means": nil, "seasonal_differences": nil, "trend_intercept": nil, "trend_slope": nil,
-		"shift_position": nil, "shift_size": nil, "differences": nil, "head": nil, "tail": nil}
 	v, err := stats.Stationarity(x, opts)
 	if err != nil {
 		return nil, err
 	}
-	out["status"] = string(v.Status)
+	out := stationarized{status: string(v.Status)}
 	if v.Status != stats.StatusOK && v.Status != stats.StatusSeasonUnknown {
-		return out, nil
+		return stationarizeLayout.record(&out), nil
 	}
 	recipe := v.Recipe()
 	y, status, err := recipe.Apply(x)
@@ -97,44 +85,89 @@ func stationarizeGroup(x []float64, opts stats.StationarityOptions) (any, error)
 		return nil, err
 	}
 	if status != stats.StatusOK {
-		out["status"] = string(status)
-		return out, nil
+		out.status = string(status)
+		return stationarizeLayout.record(&out), nil
 	}
 	padded := make([]float64, 0, len(x))
 	for i := 0; i < recipe.Lost(); i++ {
 		padded = append(padded, math.NaN())
 	}
-	out["values"] = doubleList(append(padded, y...))
-	for k, v := range recipeColumns(recipe) {
-		out[k] = v
-	}
-	return out, nil
+	out.values = doubleList(append(padded, y...))
+	out.recipe = &recipe
+	return stationarizeLayout.record(&out), nil
 }
 
-// recipeColumns lays out a recipe's steps as stationarize_recipes stores
-// them (without the anchors).
-func recipeColumns(r stats.Recipe) map[string]any {
-	out := map[string]any{"box_cox_lambda": nil, "period": nil, "seasonal_means": nil,
-		"trend_intercept": nil, "trend_slope": nil, "shift_position": nil, "shift_size": nil,
-		"seasonal_differences": int64(r.SeasonalDifferences), "differences": int64(r.Differences),
-		"head": flatten(r.Head), "tail": flatten(r.Tail)}
-	if r.BoxCox {
-		out["box_cox_lambda"] = r.Lambda
-	}
-	if r.Period > 0 {
-		out["period"] = int64(r.Period)
-	}
-	if r.SeasonalMeans != nil {
-		out["seasonal_means"] = doubleList(r.SeasonalMeans)
-	}
-	if r.Trend {
-		out["trend_intercept"], out["trend_slope"] = r.TrendIntercept, r.TrendSlope
-	}
-	if r.Shift {
-		out["shift_position"], out["shift_size"] = int64(r.ShiftIndex+1), r.ShiftSize
-	}
-	return out
+// stationarized is one group as plumb_stationarize returns it: the
+// stationary values and the recipe (nil when none was applied).
+type stationarized struct {
+	values any
+	status string
+	recipe *stats.Recipe
 }
+
+// stationarizeLayout is plumb_stationarize's STRUCT: the values, the status
+// and the recipe's steps as stationarize_recipes stores them. Steps a
+// recipe does not take are NULL.
+var stationarizeLayout = func() *layout[stationarized] {
+	step := func(f func(r *stats.Recipe) any) func(*stationarized) any {
+		return func(s *stationarized) any {
+			if s.recipe == nil {
+				return nil
+			}
+			return f(s.recipe)
+		}
+	}
+	return newLayout(
+		doubles("values", func(s *stationarized) any { return s.values }),
+		varchar("status", func(s *stationarized) any { return s.status }),
+		num("box_cox_lambda", step(func(r *stats.Recipe) any {
+			if r.BoxCox {
+				return r.Lambda
+			}
+			return nil
+		})),
+		integer64("period", step(func(r *stats.Recipe) any {
+			if r.Period > 0 {
+				return int64(r.Period)
+			}
+			return nil
+		})),
+		doubles("seasonal_means", step(func(r *stats.Recipe) any {
+			if r.SeasonalMeans != nil {
+				return doubleList(r.SeasonalMeans)
+			}
+			return nil
+		})),
+		integer64("seasonal_differences", step(func(r *stats.Recipe) any { return int64(r.SeasonalDifferences) })),
+		num("trend_intercept", step(func(r *stats.Recipe) any {
+			if r.Trend {
+				return r.TrendIntercept
+			}
+			return nil
+		})),
+		num("trend_slope", step(func(r *stats.Recipe) any {
+			if r.Trend {
+				return r.TrendSlope
+			}
+			return nil
+		})),
+		integer64("shift_position", step(func(r *stats.Recipe) any {
+			if r.Shift {
+				return int64(r.ShiftIndex + 1)
+			}
+			return nil
+		})),
+		num("shift_size", step(func(r *stats.Recipe) any {
+			if r.Shift {
+				return r.ShiftSize
+			}
+			return nil
+		})),
+		integer64("differences", step(func(r *stats.Recipe) any { return int64(r.Differences) })),
+		doubles("head", step(func(r *stats.Recipe) any { return flatten(r.Head) })),
+		doubles("tail", step(func(r *stats.Recipe) any { return flatten(r.Tail) })),
+	)
+}()
 
 // flatten joins the recipe's anchors, one slice per pass, into one list.
 func flatten(parts [][]float64) doubleList {
