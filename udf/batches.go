@@ -185,23 +185,10 @@ func (q seriesQuery) planCTEs(bytesPerRow int) string {
 	for i, b := range q.by {
 		null[i] = quoteIdent(b) + " IS NULL"
 	}
-	return fmt.Sprintf(`%[1]s, plumb_keys AS MATERIALIZED (
-    SELECT %[2]s, count(*) AS plumb_rows, (%[3]s) AS plumb_null_key
-    FROM plumb_input
-    GROUP BY %[2]s%[4]s
-), plumb_plan AS MATERIALIZED (
-    SELECT %[2]s, plumb_rows, plumb_null_key, dense_rank() OVER (ORDER BY plumb_start // plumb_batch_rows) - 1 AS plumb_batch
-    FROM (
-        SELECT *, sum(plumb_rows) OVER (ORDER BY %[2]s ROWS BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW) - plumb_rows AS plumb_start
-        FROM plumb_keys
-    ), (
-        SELECT CASE WHEN getvariable('plumb_batch_rows') IS NULL
-                    THEN plumb_batch_rows(current_setting('memory_limit'), current_setting('threads')::BIGINT,
-                                          count(*), sum(plumb_rows)::BIGINT, %[5]d, %[6]d)
-                    ELSE greatest(getvariable('plumb_batch_rows')::BIGINT, 1) END AS plumb_batch_rows
-        FROM plumb_keys
-    )
-)`, q.inputCTE(), by, strings.Join(null, " OR "), q.shardFilter(), bytesPerRow, q.chunkBytes())
+	return renderStage("plan.sql", struct {
+		Input, By, NullKey, ShardFilter string
+		BytesPerRow, ChunkBytes         int
+	}{q.inputCTE(), by, strings.Join(null, " OR "), q.shardFilter(), bytesPerRow, q.chunkBytes()})
 }
 
 // batchedCTEs returns a WITH RECURSIVE clause whose last table, plumb_done,
@@ -226,41 +213,14 @@ func (q seriesQuery) batchedCTEs(perGroup string, bytesPerRow int) string {
 		equal[i] = fmt.Sprintf("plumb_input.%[1]s = plumb_k.%[1]s", c)
 		same[i] = fmt.Sprintf("plumb_input.%[1]s IS NOT DISTINCT FROM plumb_k.%[1]s", c)
 	}
-	return fmt.Sprintf(`WITH RECURSIVE %[1]s, plumb_batches AS (
-    SELECT -1::BIGINT AS plumb_batch, (SELECT count(DISTINCT plumb_batch) FROM plumb_plan) AS plumb_batch_count,
-           true AS plumb_marker, plumb_out AS plumb_row
-    FROM (
-        WITH %[2]s, plumb_series AS (
-            SELECT plumb_no_series.* FROM (SELECT 1) AS plumb_one(plumb_x) LEFT JOIN plumb_no_series ON false
-        )
-        SELECT * FROM (
-            %[4]s
-        ) LIMIT 1
-    ) AS plumb_out
-    UNION ALL (
-        WITH plumb_next AS (
-            SELECT DISTINCT plumb_batch + 1 AS plumb_batch, plumb_batch_count
-            FROM plumb_batches
-            WHERE plumb_marker AND plumb_batch + 1 < plumb_batch_count
-        ), plumb_batch_keys AS (
-            SELECT plumb_plan.* FROM plumb_plan JOIN plumb_next USING (plumb_batch)
-        ), plumb_batch_input AS (
-            SELECT plumb_input.*, plumb_k.plumb_rows AS plumb_counted
-            FROM plumb_input JOIN (FROM plumb_batch_keys WHERE NOT plumb_null_key) AS plumb_k ON %[5]s
-            UNION ALL
-            SELECT plumb_input.*, plumb_k.plumb_rows AS plumb_counted
-            FROM plumb_input JOIN (FROM plumb_batch_keys WHERE plumb_null_key) AS plumb_k ON %[6]s
-        ), %[3]s, plumb_out AS MATERIALIZED (
-            %[4]s
-        )
-        SELECT plumb_next.plumb_batch, plumb_next.plumb_batch_count, false, plumb_out FROM plumb_out, plumb_next
-        UNION ALL
-        SELECT plumb_batch, plumb_batch_count, true, NULL FROM plumb_next
-    )
-), plumb_done AS (
-    SELECT plumb_row.* FROM plumb_batches WHERE NOT plumb_marker
-)`, q.planCTEs(bytesPerRow),
-		q.seriesCTEs("(SELECT *, NULL::BIGINT AS plumb_counted FROM plumb_input LIMIT 0)", "plumb_no_series"),
-		q.seriesCTEs("plumb_batch_input", "plumb_series"),
-		perGroup, strings.Join(equal, " AND "), strings.Join(same, " AND "))
+	return renderStage("batches.sql", struct {
+		Plan, NoSeries, Series, PerGroup, KeysEqual, KeysSame string
+	}{
+		Plan:      q.planCTEs(bytesPerRow),
+		NoSeries:  q.seriesCTEs("(SELECT *, NULL::BIGINT AS plumb_counted FROM plumb_input LIMIT 0)", "plumb_no_series"),
+		Series:    q.seriesCTEs("plumb_batch_input", "plumb_series"),
+		PerGroup:  perGroup,
+		KeysEqual: strings.Join(equal, " AND "),
+		KeysSame:  strings.Join(same, " AND "),
+	})
 }

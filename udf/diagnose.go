@@ -6,7 +6,6 @@ import (
 	"fmt"
 	"math"
 	"slices"
-	"strings"
 	"sync/atomic"
 
 	"github.com/duckdb/duckdb-go/v2"
@@ -283,11 +282,7 @@ var diagnoseFields = func() []string {
 // group (TestDiagnoseShiftAt counts the calls).
 func diagnoseSQL(q seriesQuery, period, alpha, fill string) string {
 	by := q.byList("")
-	perGroup := fmt.Sprintf(`SELECT %[1]s, n, first_at, last_at, plumb_d,
-                   CASE WHEN plumb_d.shift_point IS NOT NULL THEN plumb_points[plumb_d.shift_point + 1].t END AS plumb_shift_at
-            FROM (SELECT %[1]s, plumb_points, plumb_rows AS n, plumb_first_at AS first_at, plumb_last_at AS last_at,
-                         plumb_diagnose(plumb_points, %[2]s, %[3]s, %[4]s) AS plumb_d
-                  FROM plumb_series)`, by, period, alpha, fill)
+	perGroup := renderStage("judge_group", struct{ By, Period, Alpha, Fill string }{by, period, alpha, fill})
 	picks := make([]string, len(diagnoseFields))
 	for i, f := range diagnoseFields {
 		picks[i] = fmt.Sprintf("plumb_d.%s AS %s", f, f)
@@ -296,10 +291,10 @@ func diagnoseSQL(q seriesQuery, period, alpha, fill string) string {
 		}
 	}
 	picks[0] = q.duplicateAtCheck("plumb_d.status") + " AS status"
-	judged := fmt.Sprintf(`, plumb_judged AS (
-    SELECT %s, n, first_at, last_at, %s
-    FROM plumb_done
-)`, by, strings.Join(picks, ", "))
+	judged := renderStage("judged", struct {
+		By    string
+		Picks []string
+	}{by, picks})
 	if q.shards > 0 {
 		return q.batchedCTEs(perGroup, gatherBytesPerRow) + judged + fmt.Sprintf(`
 SELECT *, %d AS shard, %d AS shards FROM plumb_judged ORDER BY %s`, q.shard, q.shards, by)
@@ -318,24 +313,8 @@ SELECT *, %d AS shard, %d AS shards FROM plumb_judged ORDER BY %s`, q.shard, q.s
 // joined back: ten window sorts that carried every column took about 0.1 s
 // at 10,000 groups, single-threaded.
 func rankedSQL(orderTail string) string {
-	var lists, qs []string
-	for _, test := range diagnoseTests {
-		lists = append(lists, fmt.Sprintf("plumb_q_values(list(%[1]s_p_value ORDER BY plumb_row)) AS %[1]s", test))
-		qs = append(qs, fmt.Sprintf("unnest(%[1]s) AS %[1]s_q_value", test))
-	}
-	return fmt.Sprintf(`, plumb_numbered AS MATERIALIZED (
-    SELECT *, row_number() OVER () AS plumb_row FROM plumb_judged
-), plumb_lists AS (
-    SELECT count(*) AS plumb_count, %[1]s
-    FROM plumb_numbered
-), plumb_q AS (
-    SELECT unnest(range(1, plumb_count + 1)) AS plumb_row, %[2]s
-    FROM plumb_lists
-)
-SELECT * FROM (
-    SELECT plumb_numbered.* EXCLUDE (plumb_row), plumb_q.* EXCLUDE (plumb_row),
-           rank() OVER (ORDER BY score DESC NULLS LAST) AS rank
-    FROM plumb_numbered JOIN plumb_q USING (plumb_row)
-)
-ORDER BY rank, %[3]s`, strings.Join(lists, ",\n           "), strings.Join(qs, ",\n       "), orderTail)
+	return renderStage("rank.sql", struct {
+		Tests     []string
+		OrderTail string
+	}{diagnoseTests, orderTail})
 }
