@@ -31,7 +31,7 @@ var diagnoseMacros string
 // and rank, 1 for the group furthest from stationary.
 //
 // With shard := k, shards := n it judges only the groups of shard k
-// (shard.go) and returns their rows without q-values and rank, with shard
+// (combine_diagnoses.go) and returns their rows without q-values and rank, with shard
 // and shards columns instead; combine_diagnoses ranks the union of the n
 // parts.
 func diagnoseFunctions(t *types) []*function {
