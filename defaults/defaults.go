@@ -27,9 +27,9 @@ const (
 	// Holdout is how many of a series' last values forecast holds back to
 	// score itself: 0, none.
 	Holdout = 0
-	// BiasAdjust asks forecast for the mean rather than the median on the
-	// original scale of a Box-Cox transformed series.
-	BiasAdjust = false
+	// Point is which centre of the forecast distribution forecast gives in
+	// original units after a Box-Cox transform: the median.
+	Point = "median"
 	// WhiteNoiseLags is the number of autocorrelations white_noise sums.
 	WhiteNoiseLags = 10
 	// WhiteNoiseFitted is the number of fitted parameters white_noise takes
@@ -38,11 +38,11 @@ const (
 	// UnitRootMethod is the test unit_root runs.
 	UnitRootMethod = "adf"
 	// Deterministic is the deterministic part of unit_root's regression.
-	Deterministic = "constant"
+	Deterministic = "level"
 	// LagRule is how unit_root and zivot_andrews choose their lags.
 	LagRule = "aic"
 	// BreakKind is what breaks in zivot_andrews' alternative.
-	BreakKind = "intercept"
+	BreakKind = "level"
 	// Trimming is the share of each end of the series zivot_andrews does
 	// not search for a break.
 	Trimming = 0.15
@@ -75,7 +75,7 @@ var Table = []Default{
 	{"horizon", strconv.Itoa(Horizon)},
 	{"coverage", float(Coverage)},
 	{"holdout", strconv.Itoa(Holdout)},
-	{"bias_adjust", strconv.FormatBool(BiasAdjust)},
+	{"point", text(Point)},
 	{"white_noise_lags", strconv.Itoa(WhiteNoiseLags)},
 	{"white_noise_fitted", strconv.Itoa(WhiteNoiseFitted)},
 	{"method", text(UnitRootMethod)},

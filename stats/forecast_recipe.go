@@ -9,10 +9,10 @@ type RecipeForecastOptions struct {
 	// AR chooses the autoregression's order (zero value: AIC up to
 	// DefaultMaxAROrder).
 	AR AROptions
-	// BiasAdjust makes the point forecast the mean in original units
+	// MeanPoint makes the point forecast the mean in original units
 	// instead of the median when the recipe has a Box-Cox transform (see
 	// ToOriginalUnits).
-	BiasAdjust bool
+	MeanPoint bool
 }
 
 // RecipeForecast is a series' forecast in original units with the model
@@ -73,7 +73,7 @@ func ForecastByRecipe(x []float64, rec Recipe, opts RecipeForecastOptions) (Reci
 			path[i] = rec.Deterministic(len(x) + i)
 		}
 	}
-	f, err := ToOriginalUnits(sf.Forecast, BackTransform{Path: path, BoxCox: rec.BoxCox, Lambda: rec.Lambda, BiasAdjust: opts.BiasAdjust})
+	f, err := ToOriginalUnits(sf.Forecast, BackTransform{Path: path, BoxCox: rec.BoxCox, Lambda: rec.Lambda, MeanPoint: opts.MeanPoint})
 	if err != nil {
 		return RecipeForecast{}, err
 	}

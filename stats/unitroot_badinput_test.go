@@ -10,11 +10,11 @@ import (
 // default options.
 func allUnitRootTests(x []float64) []UnitRootResult {
 	adf, _ := ADF(x, ADFOptions{})
-	adfTrend, _ := ADF(x, ADFOptions{Deterministic: DeterministicTrend, LagRule: LagTStat})
+	adfTrend, _ := ADF(x, ADFOptions{Deterministic: DeterministicLevelAndSlope, LagRule: LagDropInsignificant})
 	kpss, _ := KPSS(x, KPSSOptions{})
-	kpssTrend, _ := KPSS(x, KPSSOptions{Deterministic: DeterministicTrend})
+	kpssTrend, _ := KPSS(x, KPSSOptions{Deterministic: DeterministicLevelAndSlope})
 	pp, _ := PhillipsPerron(x, PPOptions{})
-	dfgls, _ := DFGLS(x, DFGLSOptions{Deterministic: DeterministicTrend})
+	dfgls, _ := DFGLS(x, DFGLSOptions{Deterministic: DeterministicLevelAndSlope})
 	return []UnitRootResult{adf, adfTrend, kpss, kpssTrend, pp.UnitRootResult, dfgls}
 }
 
@@ -68,7 +68,7 @@ func TestUnitRootBadInput(t *testing.T) {
 	}
 	// A lag request larger than the series allows.
 	big := 40
-	if r, _ := ADF(ramp(30), ADFOptions{LagRule: LagFixed, MaxLag: &big}); r.Status != StatusTooShort {
+	if r, _ := ADF(ramp(30), ADFOptions{LagRule: LagGiven, MaxLag: &big}); r.Status != StatusTooShort {
 		t.Errorf("ADF with 40 lags on 30 values: %s", r.Status)
 	}
 	if r, _ := KPSS(ramp(30), KPSSOptions{Bandwidth: &big}); r.Status != StatusTooShort {

@@ -68,7 +68,8 @@ const (
 
 // StationarityResult is the verdict on one series.
 type StationarityResult struct {
-	// The three conditions and their conjunction.
+	// Whether the level and the spread are steady and a seasonal pattern
+	// is present; Stationary when neither is unsteady and there is none.
 	MeanStable, SpreadStable, Seasonal, Stationary bool
 	Violations                                     []Violation
 	// MeanCause is why the mean moves ("" when it is stable).
@@ -182,9 +183,9 @@ func joinViolations(v []Violation) string {
 	return strings.Join(parts, ",")
 }
 
-// Stationarity judges the three conditions of stationarity for x, says
-// why each broken one is broken, and recommends a recipe that cures what
-// it diagnoses:
+// Stationarity decides whether x's level and spread are steady and whether
+// it carries a seasonal pattern, says what makes each unsteady part move,
+// and recommends a recipe that cures what it diagnoses:
 //
 //  1. Demand profile (Demand): the share of zeros and, for series that are
 //     never negative, the demand class. Intermittent or lumpy demand gets

@@ -268,15 +268,15 @@ func (j *judgement) meanDecision(z []float64, o judgeOptions, stabilityPeriod in
 	case unitRoot && deterministic:
 		// Cheapest first: ADF with a trend rejects a unit root only for a
 		// few series with one, so most never need the slope's Newey-West t.
-		if adf, err := ADF(z, ADFOptions{Deterministic: DeterministicTrend}); err == nil && adf.Status == StatusOK && adf.PValue < alpha {
-			kpss, err := KPSS(z, KPSSOptions{Deterministic: DeterministicTrend})
+		if adf, err := ADF(z, ADFOptions{Deterministic: DeterministicLevelAndSlope}); err == nil && adf.Status == StatusOK && adf.PValue < alpha {
+			kpss, err := KPSS(z, KPSSOptions{Deterministic: DeterministicLevelAndSlope})
 			trendOK = err == nil && kpss.Status == StatusOK && !(kpss.PValue < alpha) && line.pValue() < alpha
 		}
 		if shiftP < alpha {
 			// The lag ADF chose for the differencing sequence, fixed: one
 			// scan over the break dates instead of a lag search.
 			lags := j.adf.Lags
-			za, err := ZivotAndrews(z, ZivotAndrewsOptions{Break: BreakIntercept, LagRule: LagFixed, MaxLag: &lags})
+			za, err := ZivotAndrews(z, ZivotAndrewsOptions{Break: BreakLevel, LagRule: LagGiven, MaxLag: &lags})
 			if err != nil {
 				return nil, err
 			}

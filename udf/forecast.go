@@ -22,7 +22,7 @@ var forecastMacros string
 // forecastFunctions provides two table functions that forecast every group
 // through its own recipe (stats.ForecastByRecipe):
 //
-//	forecast(source, by, at, value, horizon, coverage, period, alpha, fill, holdout, bias_adjust)
+//	forecast(source, by, at, value, horizon, coverage, period, alpha, fill, holdout, point)
 //	    (the defaults in udf/sql/forecast.sql, from package defaults)
 //	    one row per group and step: the group columns, at (continuing each
 //	    group's own step, in the at column's type), step (1..horizon),
@@ -30,6 +30,9 @@ var forecastMacros string
 //	    coverage) and status. With holdout := k the last k values of each
 //	    group are held out: the recipe and the model come from the rest, the
 //	    rows forecast the held-out stretch, and actual holds its values.
+//	    point says which centre of the forecast distribution the forecast
+//	    column gives in original units after a Box-Cox transform: median
+//	    (the transform of the forecast on its scale) or mean.
 //	forecast_models(same arguments)
 //	    one row per group: the recipe and the autoregression behind the
 //	    forecasts (order, constant, coefficients, residual variance, the
@@ -42,7 +45,7 @@ func forecastFunctions(t *types) []*function {
 		name:     "plumb_forecast",
 		parallel: true,
 		params: []duckdb.TypeInfo{t.anyType(), t.bigint(), d, t.bigint(), d, t.varchar(), t.bigint(),
-			t.boolean()},
+			t.varchar()},
 		result:   forecastLayout.info(t),
 		nullable: true,
 		eval: withPoints(func(p points, args []driver.Value) (any, error) {
@@ -55,7 +58,7 @@ func forecastFunctions(t *types) []*function {
 		}),
 	}, {
 		name:     "plumb_forecast_sql",
-		params:   []duckdb.TypeInfo{t.varchar(), t.anyType(), t.varchar(), t.varchar(), t.bigint(), d, t.bigint(), d, t.varchar(), t.bigint(), t.boolean(), t.boolean()},
+		params:   []duckdb.TypeInfo{t.varchar(), t.anyType(), t.varchar(), t.varchar(), t.bigint(), d, t.bigint(), d, t.varchar(), t.bigint(), t.varchar(), t.boolean()},
 		result:   t.varchar(),
 		nullable: true,
 		eval: func(args []driver.Value) (any, error) {
@@ -125,11 +128,11 @@ type forecastOptions struct {
 	horizon, holdout int
 	coverage         float64
 	fill             stats.FillMethod
-	biasAdjust       bool
+	meanPoint        bool
 }
 
 // readForecastOptions reads (horizon, coverage, period, alpha, fill,
-// holdout, bias_adjust) and checks them.
+// holdout, point) and checks them.
 func readForecastOptions(args []driver.Value) (forecastOptions, error) {
 	var o forecastOptions
 	var err error
@@ -148,7 +151,19 @@ func readForecastOptions(args []driver.Value) (forecastOptions, error) {
 	if o.holdout, err = intOr(args[5], "holdout", defaults.Holdout); err != nil {
 		return o, err
 	}
-	o.biasAdjust, _ = args[6].(bool)
+	if args[6] != nil {
+		point, err := text(args[6], "point")
+		if err != nil {
+			return o, err
+		}
+		switch point {
+		case "median":
+		case "mean":
+			o.meanPoint = true
+		default:
+			return o, fmt.Errorf("unknown point %q: use median or mean", point)
+		}
+	}
 	switch {
 	case o.holdout < 0:
 		return o, fmt.Errorf("holdout must be 0 (none) or a positive number of values, got %d", o.holdout)
@@ -240,7 +255,7 @@ func forecastGroup(at []int64, x []float64, o forecastOptions) (any, error) {
 	}
 	out.seasonalDifferences, out.differences = int64(rec.SeasonalDifferences), int64(rec.Differences)
 	f, err := stats.ForecastByRecipe(v.Judged(), rec, stats.RecipeForecastOptions{
-		Horizon: o.horizon, Coverage: o.coverage, AR: stats.AROptions{Period: rec.Period}, BiasAdjust: o.biasAdjust})
+		Horizon: o.horizon, Coverage: o.coverage, AR: stats.AROptions{Period: rec.Period}, MeanPoint: o.meanPoint})
 	if err != nil {
 		return nil, err
 	}
@@ -251,7 +266,7 @@ func forecastGroup(at []int64, x []float64, o forecastOptions) (any, error) {
 	out.forecast, out.lower, out.upper = doubleList(f.Mean), doubleList(f.Lower), doubleList(f.Upper)
 	m := f.Model
 	out.arOrder, out.arConstant, out.arCoefficients = int64(m.Order), orNull(m.Constant), doubleList(m.Coefficients)
-	out.residualVariance, out.nobs, out.aic = orNull(m.Variance), int64(m.NObs), orNull(m.AIC)
+	out.residualVariance, out.observations, out.aic = orNull(m.Variance), int64(m.Observations), orNull(m.AIC)
 	if f.WhiteNoise.Status == stats.StatusOK {
 		out.ljungBox = orNull(f.WhiteNoise.PValue)
 	}
@@ -274,11 +289,11 @@ func forecastGroup(at []int64, x []float64, o forecastOptions) (any, error) {
 // forecastRow is one group's forecast as plumb_forecast returns it; nil is
 // NULL.
 type forecastRow struct {
-	status, reason, offsets, forecast, lower, upper, actual     any
-	meanCause, seasonalKind, period, boxCoxLambda               any
-	seasonalDifferences, differences, arOrder, arConstant       any
-	arCoefficients, residualVariance, nobs, aic, ljungBox, mase any
-	intervalCoverage                                            any
+	status, reason, offsets, forecast, lower, upper, actual             any
+	meanCause, seasonalKind, period, boxCoxLambda                       any
+	seasonalDifferences, differences, arOrder, arConstant               any
+	arCoefficients, residualVariance, observations, aic, ljungBox, mase any
+	intervalCoverage                                                    any
 }
 
 // forecastLayout is plumb_forecast's STRUCT, which forecastSQL unpacks.
@@ -300,7 +315,7 @@ var forecastLayout = newLayout(
 	num("ar_constant", func(r *forecastRow) any { return r.arConstant }),
 	doubles("ar_coefficients", func(r *forecastRow) any { return r.arCoefficients }),
 	num("residual_variance", func(r *forecastRow) any { return r.residualVariance }),
-	integer64("nobs", func(r *forecastRow) any { return r.nobs }),
+	integer64("observations", func(r *forecastRow) any { return r.observations }),
 	num("aic", func(r *forecastRow) any { return r.aic }),
 	num("ljung_box_p_value", func(r *forecastRow) any { return r.ljungBox }),
 	num("mase", func(r *forecastRow) any { return r.mase }),
@@ -333,7 +348,7 @@ func forecastSQL(q seriesQuery, literals []string, models bool) string {
                    plumb_f.box_cox_lambda AS box_cox_lambda, plumb_f.seasonal_differences AS seasonal_differences,
                    plumb_f.differences AS differences, plumb_f.ar_order AS ar_order, plumb_f.ar_constant AS ar_constant,
                    plumb_f.ar_coefficients AS ar_coefficients, plumb_f.residual_variance AS residual_variance,
-                   plumb_f.nobs AS nobs, plumb_f.aic AS aic, plumb_f.ljung_box_p_value AS ljung_box_p_value,
+                   plumb_f.observations AS observations, plumb_f.aic AS aic, plumb_f.ljung_box_p_value AS ljung_box_p_value,
                    plumb_f.mase AS mase, plumb_f.interval_coverage AS interval_coverage
             FROM (SELECT %[1]s, plumb_forecast(plumb_points, %[2]s) AS plumb_f FROM plumb_series)`,
 			by, strings.Join(literals, ", "), status)

@@ -68,6 +68,9 @@ func TestREADMEFieldTables(t *testing.T) {
 	if got := readmeFields(t, "The verdict's fields"); !slices.Equal(got, verdictLayout.names) {
 		t.Errorf("README's verdict table lists\n%v\nbut the declaration (verdictLayout) is\n%v", got, verdictLayout.names)
 	}
+	if got := readmeFields(t, "The STRUCT's fields come in this order"); !slices.Equal(got, unitRootLayout.names) {
+		t.Errorf("README's unit_root table lists\n%v\nbut the declaration (unitRootLayout) is\n%v", got, unitRootLayout.names)
+	}
 	for _, c := range []struct {
 		call  string
 		names []string
@@ -77,6 +80,7 @@ func TestREADMEFieldTables(t *testing.T) {
 		{"white_noise(", whiteNoiseLayout.names},
 		{"demand_profile(", demandProfileLayout.names},
 		{"mean_break(", meanBreakLayout.names},
+		{"zivot_andrews(", zivotAndrewsLayout.names},
 	} {
 		row := readmeRow(t, c.call)
 		for _, n := range c.names {

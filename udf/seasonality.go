@@ -71,7 +71,7 @@ var seasonalityLayout = func() *layout[seasonalityResult] {
 			}
 			return nil
 		}),
-		num("ocsb_critical_5pct", func(r *seasonalityResult) any {
+		num("ocsb_cutoff_05", func(r *seasonalityResult) any {
 			if ocsb(r) {
 				return r.OCSB.Critical5
 			}

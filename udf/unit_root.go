@@ -21,32 +21,23 @@ var unitRootMacros string
 //
 //	unit_root(series, method, deterministic, lags, lag_rule) (defaults in udf/sql/unit_root.sql)
 //
-// method is adf, kpss, pp or dfgls; deterministic none, constant or trend;
-// lags is the maximum (or, with lag_rule 'fixed', the exact) number of
-// lagged differences for adf and dfgls and the bandwidth for kpss and pp,
-// NULL meaning each test's default; lag_rule is aic, bic, t_stat or fixed
-// (adf and dfgls only).
+// method is adf, kpss, pp or dfgls; deterministic none, level or
+// level_and_slope; lags is the maximum (or, with lag_rule 'given', the
+// exact) number of lagged differences for adf and dfgls and the bandwidth
+// for kpss and pp, NULL meaning each test's default; lag_rule is aic, bic,
+// drop_insignificant or given (adf and dfgls only).
+//
+// The STRUCT reads in the order a reader asks: what was tested (method,
+// deterministic terms, null hypothesis), the evidence (statistic, p-value,
+// the cut-offs at 1%, 5% and 10%), then how it was computed (lags,
+// observations, status).
 func unitRootFunctions(t *types) []*function {
-	result := t.structOf(
-		field{"statistic", t.double()},
-		field{"p_value", t.double()},
-		field{"p_value_bound", t.varchar()},
-		field{"lags", t.bigint()},
-		field{"nobs", t.bigint()},
-		field{"crit_1pct", t.double()},
-		field{"crit_5pct", t.double()},
-		field{"crit_10pct", t.double()},
-		field{"method", t.varchar()},
-		field{"deterministic", t.varchar()},
-		field{"null_hypothesis", t.varchar()},
-		field{"status", t.varchar()},
-	)
 	return []*function{{
 		name:     "plumb_unit_root",
 		parallel: true,
 		reuse:    true,
 		params:   []duckdb.TypeInfo{t.doubles(), t.varchar(), t.varchar(), t.bigint(), t.varchar()},
-		result:   result,
+		result:   unitRootLayout.info(t),
 		nullable: true,
 		eval: func(args []driver.Value) (any, error) {
 			if args[0] == nil {
@@ -79,7 +70,7 @@ func unitRootFunctions(t *types) []*function {
 			if err != nil {
 				return nil, err
 			}
-			return unitRootStruct(r), nil
+			return unitRootLayout.record(&r), nil
 		},
 	}}
 }
@@ -99,38 +90,33 @@ func unitRoot(x []float64, method string, d stats.Deterministic, lags *int, rule
 	return stats.UnitRootResult{}, fmt.Errorf("unknown method %q: use adf, kpss, pp or dfgls", method)
 }
 
-// unitRootStruct lays a result out as the SQL STRUCT; a failed test has
-// NULL numbers and says why in status.
-func unitRootStruct(r stats.UnitRootResult) map[string]any {
-	ok := r.Status == stats.StatusOK
-	num := func(v float64) any {
-		if !ok {
+type unitRootResult = stats.UnitRootResult
+
+// unitRootLayout is unit_root's STRUCT, in the order a reader asks: what
+// was tested, the evidence, how it was computed. A failed test has NULL
+// numbers and says why in status.
+var unitRootLayout = func() *layout[unitRootResult] {
+	ok := func(r *unitRootResult) bool { return r.Status == stats.StatusOK }
+	n := func(name string, f func(*unitRootResult) float64) column[unitRootResult] {
+		return num(name, func(r *unitRootResult) any { return value(f(r), ok(r)) })
+	}
+	return newLayout(
+		varchar("method", func(r *unitRootResult) any { return r.Method }),
+		varchar("deterministic", func(r *unitRootResult) any { return string(r.Deterministic) }),
+		varchar("null_hypothesis", func(r *unitRootResult) any { return string(r.NullHypothesis) }),
+		n("statistic", func(r *unitRootResult) float64 { return r.Statistic }),
+		n("p_value", func(r *unitRootResult) float64 { return r.PValue }),
+		varchar("p_value_bound", func(r *unitRootResult) any {
+			if ok(r) {
+				return string(r.PValueBound)
+			}
 			return nil
-		}
-		return orNull(v)
-	}
-	count := func(v int) any {
-		if !ok {
-			return nil
-		}
-		return int64(v)
-	}
-	var bound any
-	if ok {
-		bound = string(r.PValueBound)
-	}
-	return map[string]any{
-		"statistic":       num(r.Statistic),
-		"p_value":         num(r.PValue),
-		"p_value_bound":   bound,
-		"lags":            count(r.Lags),
-		"nobs":            count(r.NObs),
-		"crit_1pct":       num(r.CriticalValues[0]),
-		"crit_5pct":       num(r.CriticalValues[1]),
-		"crit_10pct":      num(r.CriticalValues[2]),
-		"method":          r.Method,
-		"deterministic":   string(r.Deterministic),
-		"null_hypothesis": string(r.NullHypothesis),
-		"status":          string(r.Status),
-	}
-}
+		}),
+		n("cutoff_01", func(r *unitRootResult) float64 { return r.CriticalValues[0] }),
+		n("cutoff_05", func(r *unitRootResult) float64 { return r.CriticalValues[1] }),
+		n("cutoff_10", func(r *unitRootResult) float64 { return r.CriticalValues[2] }),
+		integer64("lags", func(r *unitRootResult) any { return count(r.Lags, ok(r)) }),
+		integer64("observations", func(r *unitRootResult) any { return count(r.Observations, ok(r)) }),
+		varchar("status", func(r *unitRootResult) any { return string(r.Status) }),
+	)
+}()

@@ -54,7 +54,7 @@ var whiteNoiseLayout = func() *layout[whiteNoiseResult] {
 		num("p_value", func(r *whiteNoiseResult) any { return value(r.PValue, ok(r)) }),
 		integer64("lags", func(r *whiteNoiseResult) any { return int64(r.Lags) }),
 		integer64("df", func(r *whiteNoiseResult) any { return int64(r.DF) }),
-		integer64("nobs", func(r *whiteNoiseResult) any { return int64(r.NObs) }),
+		integer64("observations", func(r *whiteNoiseResult) any { return int64(r.Observations) }),
 		varchar("status", func(r *whiteNoiseResult) any { return string(r.Status) }),
 	)
 }()

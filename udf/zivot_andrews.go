@@ -19,9 +19,11 @@ var zivotAndrewsMacros string
 // zivotAndrewsFunctions wraps the Zivot-Andrews test:
 //
 //	zivot_andrews(series, kind, lags, lag_rule, trimming) -> STRUCT (defaults in udf/sql/zivot_andrews.sql)
-//	    stats.ZivotAndrews: a unit root against a break in the intercept,
-//	    the trend or both (kind); break_at is the 1-based position of the
-//	    first observation after the break.
+//	    stats.ZivotAndrews: a unit root against a trend-stationary series
+//	    whose level, slope or both (kind: level, slope, level_and_slope)
+//	    break once; break_at is the 1-based position of the first
+//	    observation after the break. Fields as unit_root's: what was tested,
+//	    the evidence, how it was computed.
 func zivotAndrewsFunctions(t *types) []*function {
 	d := t.double()
 	return []*function{{
@@ -29,10 +31,7 @@ func zivotAndrewsFunctions(t *types) []*function {
 		parallel: true,
 		reuse:    true,
 		params:   []duckdb.TypeInfo{t.doubles(), t.varchar(), t.bigint(), t.varchar(), d},
-		result: t.structOf(field{"statistic", d}, field{"p_value", d}, field{"p_value_bound", t.varchar()},
-			field{"break_at", t.bigint()}, field{"lags", t.bigint()}, field{"nobs", t.bigint()},
-			field{"crit_1pct", d}, field{"crit_5pct", d}, field{"crit_10pct", d},
-			field{"kind", t.varchar()}, field{"status", t.varchar()}),
+		result:   zivotAndrewsLayout.info(t),
 		nullable: true,
 		eval: withSeries(func(x []float64, args []driver.Value) (any, error) {
 			o := stats.ZivotAndrewsOptions{Break: stats.BreakKind(defaults.BreakKind), LagRule: stats.LagRule(defaults.LagRule)}
@@ -64,16 +63,42 @@ func zivotAndrewsFunctions(t *types) []*function {
 			if err != nil {
 				return nil, err
 			}
-			ok := r.Status == stats.StatusOK
-			out := map[string]any{
-				"statistic": value(r.Statistic, ok), "p_value": value(r.PValue, ok), "p_value_bound": nil,
-				"break_at": nil, "lags": count(r.Lags, ok), "nobs": count(r.NObs, ok),
-				"crit_1pct": value(r.CriticalValues[0], ok), "crit_5pct": value(r.CriticalValues[1], ok),
-				"crit_10pct": value(r.CriticalValues[2], ok), "kind": string(r.Break), "status": string(r.Status)}
-			if ok {
-				out["p_value_bound"], out["break_at"] = string(r.PValueBound), int64(r.BreakIndex+1)
-			}
-			return out, nil
+			return zivotAndrewsLayout.record(&r), nil
 		}),
 	}}
 }
+
+type zivotAndrewsResult = stats.ZivotAndrewsResult
+
+// zivotAndrewsLayout is zivot_andrews' STRUCT, ordered as unit_root's:
+// what was tested, the evidence, how it was computed. NULL numbers unless
+// the status is ok.
+var zivotAndrewsLayout = func() *layout[zivotAndrewsResult] {
+	ok := func(r *zivotAndrewsResult) bool { return r.Status == stats.StatusOK }
+	n := func(name string, f func(*zivotAndrewsResult) float64) column[zivotAndrewsResult] {
+		return num(name, func(r *zivotAndrewsResult) any { return value(f(r), ok(r)) })
+	}
+	return newLayout(
+		varchar("kind", func(r *zivotAndrewsResult) any { return string(r.Break) }),
+		n("statistic", func(r *zivotAndrewsResult) float64 { return r.Statistic }),
+		n("p_value", func(r *zivotAndrewsResult) float64 { return r.PValue }),
+		varchar("p_value_bound", func(r *zivotAndrewsResult) any {
+			if ok(r) {
+				return string(r.PValueBound)
+			}
+			return nil
+		}),
+		n("cutoff_01", func(r *zivotAndrewsResult) float64 { return r.CriticalValues[0] }),
+		n("cutoff_05", func(r *zivotAndrewsResult) float64 { return r.CriticalValues[1] }),
+		n("cutoff_10", func(r *zivotAndrewsResult) float64 { return r.CriticalValues[2] }),
+		integer64("break_at", func(r *zivotAndrewsResult) any {
+			if ok(r) {
+				return int64(r.BreakIndex + 1)
+			}
+			return nil
+		}),
+		integer64("lags", func(r *zivotAndrewsResult) any { return count(r.Lags, ok(r)) }),
+		integer64("observations", func(r *zivotAndrewsResult) any { return count(r.Observations, ok(r)) }),
+		varchar("status", func(r *zivotAndrewsResult) any { return string(r.Status) }),
+	)
+}()

@@ -11,13 +11,14 @@ import (
 
 	"github.com/plumb-sql/plumb/cmd/internal/output"
 	"github.com/plumb-sql/plumb/defaults"
+	"github.com/plumb-sql/plumb/udf"
 )
 
 func newForecastCommand() *cobra.Command {
 	var flags seriesFlags
 	var horizon, holdout, top int
 	var coverage float64
-	var biasAdjust bool
+	var point string
 	var out string
 	cmd := &cobra.Command{
 		Use:   "forecast SOURCE --by COLUMNS --at COLUMN --value COLUMN",
@@ -44,8 +45,8 @@ coverage.`,
 			defer conn.Close()
 			s := flags.spec
 			call := func(fn string) string {
-				return fmt.Sprintf("%s(%s, horizon := %d, coverage := %v, holdout := %d, bias_adjust := %v)",
-					fn, s.Args(), horizon, coverage, holdout, biasAdjust)
+				return fmt.Sprintf("%s(%s, horizon := %d, coverage := %v, holdout := %d, point := %s)",
+					fn, s.Args(), horizon, coverage, holdout, udf.QuoteLiteral(point))
 			}
 			const table = "plumb_cli_forecast"
 			if _, err := conn.ExecContext(ctx, "CREATE OR REPLACE TEMP TABLE "+table+" AS FROM "+call("forecast")); err != nil {
@@ -75,7 +76,7 @@ coverage.`,
 	fl.IntVar(&horizon, "horizon", defaults.Horizon, "steps to forecast")
 	fl.Float64Var(&coverage, "coverage", defaults.Coverage, "coverage of the central prediction interval, between 0 and 1")
 	fl.IntVar(&holdout, "holdout", defaults.Holdout, "hold out the last `K` values of each group and forecast them (0: none)")
-	fl.BoolVar(&biasAdjust, "bias-adjust", false, "after a Box-Cox transform, forecast the mean instead of the median")
+	fl.StringVar(&point, "point", defaults.Point, "the point forecast in original units after a Box-Cox transform: median or mean")
 	fl.IntVar(&top, "top", 20, "print this many rows")
 	fl.StringVarP(&out, "out", "o", "", "write every row to `FILE` (.parquet, .csv or .json)")
 	return cmd
