@@ -29,6 +29,9 @@ func LjungBox(x []float64, h, fitted int) (WhiteNoiseResult, error) {
 	if h < 0 || fitted < 0 {
 		return WhiteNoiseResult{}, errorf("ljung-box: lags and fitted parameters must not be negative, got %d and %d", h, fitted)
 	}
+	if h > 0 && fitted >= h {
+		return WhiteNoiseResult{}, errorf("ljung-box: fitted parameters (%d) must be fewer than the lags (%d)", fitted, h)
+	}
 	n := len(x)
 	r := WhiteNoiseResult{Observations: n}
 	if h == 0 {
@@ -47,6 +50,11 @@ func LjungBox(x []float64, h, fitted int) (WhiteNoiseResult, error) {
 	}
 	if isConstant(x) {
 		return fail(StatusConstant)
+	}
+	if tooLarge(x) {
+		// The autocorrelations are scale-free; scaled to a largest
+		// magnitude of 1 their sums of squares cannot overflow.
+		x = scaledInto(make([]float64, n), x)
 	}
 	rho := Autocorrelation(x, h)
 	q := 0.0

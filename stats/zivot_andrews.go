@@ -38,6 +38,15 @@ func (k BreakKind) dummies() int {
 	return 1
 }
 
+// CheckBreakTrim accepts a trimming fraction in the range plumb's p-value
+// table covers, [0.05, 0.30].
+func CheckBreakTrim(trim float64) error {
+	if !(trim >= minBreakTrim && trim <= maxBreakTrim) {
+		return fmt.Errorf("trimming must lie in [%.2f, %.2f], got %v", minBreakTrim, maxBreakTrim, trim)
+	}
+	return nil
+}
+
 // Trimming limits: the p-value table covers these fractions.
 const (
 	DefaultBreakTrim = defaults.Trimming
@@ -146,8 +155,8 @@ func ZivotAndrews(x []float64, opts ZivotAndrewsOptions) (ZivotAndrewsResult, er
 	if trim == 0 {
 		trim = DefaultBreakTrim
 	}
-	if !(trim >= minBreakTrim && trim <= maxBreakTrim) {
-		return ZivotAndrewsResult{}, fmt.Errorf("stats: zivot-andrews trimming must lie in [%.2f, %.2f], got %v", minBreakTrim, maxBreakTrim, opts.Trim)
+	if err := CheckBreakTrim(trim); err != nil {
+		return ZivotAndrewsResult{}, err
 	}
 	if opts.MaxLag != nil && *opts.MaxLag < 0 {
 		return ZivotAndrewsResult{}, fmt.Errorf("stats: zivot-andrews: the maximum lag must not be negative, got %d", *opts.MaxLag)

@@ -62,7 +62,7 @@ func boxCoxFunctions(t *types) []*function {
 			result:   t.double(),
 			nullable: true,
 			eval: withSeries(func(x []float64, args []driver.Value) (any, error) {
-				period, err := intOr(args[1], "period", 0)
+				period, err := periodArgMeaning(args[1], "for none")
 				if err != nil {
 					return nil, err
 				}

@@ -131,7 +131,7 @@ func diagnoseGroup(at []int64, x []float64, order []int, opts stats.Stationarity
 		// applied to the series with its outliers set aside).
 		if v.Differenced != nil {
 			if lb, err := stats.LjungBox(v.Differenced, 0, 0); err == nil && lb.Status == stats.StatusOK {
-				d.ljungBox = lb.PValue
+				d.ljungBox = orNull(lb.PValue)
 			}
 		}
 		if v.ShiftIndex >= 0 {
@@ -311,7 +311,8 @@ SELECT *, %d AS shard, %d AS shards FROM plumb_judged ORDER BY %s`, q.shard, q.s
 // The q-values come from one list per test, in the groups' row order,
 // adjusted in Go (plumb_q_values), unnested beside their positions and
 // joined back: ten window sorts that carried every column took about 0.1 s
-// at 10,000 groups, single-threaded.
+// at 10,000 groups, single-threaded. A group without a score (not judged)
+// has no rank.
 func rankedSQL(orderTail string) string {
 	return renderStage("rank.sql", struct {
 		Tests     []string

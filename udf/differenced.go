@@ -4,6 +4,7 @@ import (
 	"database/sql/driver"
 	_ "embed"
 	"fmt"
+	"strings"
 
 	"github.com/duckdb/duckdb-go/v2"
 )
@@ -72,6 +73,7 @@ func readSeriesQuery(function string, args []driver.Value) (seriesQuery, error) 
 	if q.source, err = sourceSQL(source); err != nil {
 		return q, err
 	}
+	q.label = strings.TrimSpace(source)
 	if q.by, err = columnNames(args[1], "by"); err != nil {
 		return q, err
 	}

@@ -62,7 +62,12 @@ func forecastFunctions(t *types) []*function {
 		result:   t.varchar(),
 		nullable: true,
 		eval: func(args []driver.Value) (any, error) {
-			q, err := readSeriesQuery("forecast", args[:4])
+			models, _ := args[11].(bool)
+			name := "forecast"
+			if models {
+				name = "forecast_models"
+			}
+			q, err := readSeriesQuery(name, args[:4])
 			if err != nil {
 				return nil, err
 			}
@@ -74,7 +79,6 @@ func forecastFunctions(t *types) []*function {
 			for i, a := range args[4:11] {
 				literals[i] = forecastLiteral(a)
 			}
-			models, _ := args[11].(bool)
 			return forecastSQL(q, literals, models), nil
 		},
 	}}

@@ -134,6 +134,7 @@ var families = []family{
 	{"forecast", forecastFunctions, forecastMacros},
 	{"batches", batchFunctions, ""},
 	{"combine_diagnoses", combineDiagnosesFunctions, combineDiagnosesMacros},
+	{"columns", columnsFunctions, ""},
 }
 
 // allFunctions lists every Go scalar function plumb registers.

@@ -3,7 +3,6 @@ package udf
 import (
 	"database/sql/driver"
 	_ "embed"
-	"fmt"
 
 	"github.com/duckdb/duckdb-go/v2"
 
@@ -29,12 +28,9 @@ func outlierPositionsFunctions(t *types) []*function {
 		result:   t.list(t.bigint()),
 		nullable: true,
 		eval: withSeries(func(x []float64, args []driver.Value) (any, error) {
-			period, err := intOr(args[1], "period", 0)
+			period, err := periodArgMeaning(args[1], "for none")
 			if err != nil {
 				return nil, err
-			}
-			if period < 0 || period == 1 {
-				return nil, fmt.Errorf("period must be NULL (none) or at least 2, got %d", period)
 			}
 			if stats.CheckFinite(x) != stats.StatusOK {
 				return nil, nil

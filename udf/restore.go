@@ -61,6 +61,7 @@ func restoreFunctions(t *types) []*function {
 				if err != nil {
 					return nil, err
 				}
+				recipesSQL = checkedRecipes(q.by, recipesSQL, strings.TrimSpace(recipes))
 				anchor, err := text(args[5], "anchor")
 				if err != nil {
 					return nil, err
@@ -222,4 +223,24 @@ func restoreSQL(q seriesQuery, recipes, anchor string) string {
 	return q.batchedCTEs(perGroup, rowBytes(2)) + fmt.Sprintf(`
 SELECT %[1]s, unnest(plumb_at) AS %[2]s, unnest(plumb_restored) AS %[3]s
 FROM plumb_done`, q.byList(""), quoteIdent(q.at), quoteIdent(q.value))
+}
+
+// restoreReads are the columns of stationarize_recipes' rows that restore
+// reads, beside the group columns.
+var restoreReads = []string{"n", "last_at", "step", "box_cox_lambda", "period", "seasonal_means", "seasonal_differences",
+	"trend_intercept", "trend_slope", "shift_position", "shift_size", "differences", "head", "tail"}
+
+// checkedRecipes is restore's recipes source as a subquery that fails with
+// plumb's message (columnsCheck) when it lacks a group column or a column of
+// the recipe.
+func checkedRecipes(by []string, recipes, label string) string {
+	var wanted []wantedColumn
+	var names []string
+	for _, b := range by {
+		wanted, names = append(wanted, wantedColumn{b, "by"}), append(names, b)
+	}
+	for _, c := range restoreReads {
+		wanted, names = append(wanted, wantedColumn{c, "recipe"}), append(names, c)
+	}
+	return fmt.Sprintf("(%s\n    WHERE (%s))", guardedSelect(recipes, names), columnsCheck("restore", recipes, label, wanted, ""))
 }

@@ -27,7 +27,7 @@ func seasonalityFunctions(t *types) []*function {
 		result:   seasonalityLayout.info(t),
 		nullable: true,
 		eval: withSeries(func(x []float64, args []driver.Value) (any, error) {
-			period, err := intOr(args[1], "period", 0)
+			period, err := periodArg(args[1])
 			if err != nil {
 				return nil, err
 			}

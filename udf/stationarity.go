@@ -3,7 +3,6 @@ package udf
 import (
 	"database/sql/driver"
 	_ "embed"
-	"fmt"
 	"math"
 
 	"github.com/duckdb/duckdb-go/v2"
@@ -47,7 +46,7 @@ func stationarityFunctions(t *types) []*function {
 // stationarityOptions checks (period, alpha), the options every function
 // that judges a series takes.
 func stationarityOptions(period, alpha driver.Value) (stats.StationarityOptions, error) {
-	p, err := intOr(period, "period", 0)
+	p, err := periodArg(period)
 	if err != nil {
 		return stats.StationarityOptions{}, err
 	}
@@ -55,11 +54,8 @@ func stationarityOptions(period, alpha driver.Value) (stats.StationarityOptions,
 	if err != nil {
 		return stats.StationarityOptions{}, err
 	}
-	if !(a > 0 && a < 1) {
-		return stats.StationarityOptions{}, fmt.Errorf("alpha must be between 0 and 1, got %v", a)
-	}
-	if p < 0 || p == 1 {
-		return stats.StationarityOptions{}, fmt.Errorf("period must be NULL (detect) or at least 2, got %d", p)
+	if err := CheckAlpha(a); err != nil {
+		return stats.StationarityOptions{}, err
 	}
 	return stats.StationarityOptions{Period: p, Alpha: a}, nil
 }

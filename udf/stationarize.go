@@ -56,14 +56,18 @@ func stationarizeFunctions(t *types) []*function {
 		result:   t.varchar(),
 		nullable: true,
 		eval: func(args []driver.Value) (any, error) {
-			q, err := readSeriesQuery("stationarize", args[:4])
+			recipes, _ := args[6].(bool)
+			name := "stationarize"
+			if recipes {
+				name = "stationarize_recipes"
+			}
+			q, err := readSeriesQuery(name, args[:4])
 			if err != nil {
 				return nil, err
 			}
 			if _, err := stationarityOptions(args[4], args[5]); err != nil {
 				return nil, err
 			}
-			recipes, _ := args[6].(bool)
 			return stationarizeSQL(q, sqlLiteral(args[4]), sqlLiteral(args[5]), recipes), nil
 		},
 	}}

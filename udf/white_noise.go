@@ -6,7 +6,6 @@ import (
 
 	"github.com/duckdb/duckdb-go/v2"
 
-	"github.com/plumb-sql/plumb/defaults"
 	"github.com/plumb-sql/plumb/stats"
 )
 
@@ -26,11 +25,7 @@ func whiteNoiseFunctions(t *types) []*function {
 		result:   whiteNoiseLayout.info(t),
 		nullable: true,
 		eval: withSeries(func(x []float64, args []driver.Value) (any, error) {
-			lags, err := intOr(args[1], "lags", defaults.WhiteNoiseLags)
-			if err != nil {
-				return nil, err
-			}
-			fitted, err := intOr(args[2], "fitted", defaults.WhiteNoiseFitted)
+			lags, fitted, err := whiteNoiseArgs(args[1], args[2])
 			if err != nil {
 				return nil, err
 			}

@@ -56,7 +56,7 @@ func zivotAndrewsFunctions(t *types) []*function {
 				}
 				o.LagRule = stats.LagRule(s)
 			}
-			if o.Trim, err = floatOr(args[4], "trimming", stats.DefaultBreakTrim); err != nil {
+			if o.Trim, err = trimmingArg(args[4]); err != nil {
 				return nil, err
 			}
 			r, err := stats.ZivotAndrews(x, o)

@@ -37,6 +37,7 @@ coverage.`,
 		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			ctx := cmd.Context()
+			flags.spec.Function = "forecast"
 			db, conn, err := flags.open(ctx, args[0])
 			if err != nil {
 				return err

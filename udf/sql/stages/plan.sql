@@ -1,6 +1,7 @@
 {{.Input}}, plumb_keys AS MATERIALIZED (
     SELECT {{.By}}, count(*) AS plumb_rows, ({{.NullKey}}) AS plumb_null_key
     FROM plumb_input
+    WHERE (SELECT plumb_ok FROM plumb_source_ok)
     GROUP BY {{.By}}{{.ShardFilter}}
 ), plumb_plan AS MATERIALIZED (
     SELECT {{.By}}, plumb_rows, plumb_null_key, dense_rank() OVER (ORDER BY plumb_start // plumb_batch_rows) - 1 AS plumb_batch

@@ -11,7 +11,7 @@
 )
 SELECT * FROM (
     SELECT plumb_numbered.* EXCLUDE (plumb_row), plumb_q.* EXCLUDE (plumb_row),
-           rank() OVER (ORDER BY score DESC NULLS LAST) AS rank
+           CASE WHEN score IS NOT NULL THEN rank() OVER (ORDER BY score DESC NULLS LAST) END AS rank
     FROM plumb_numbered JOIN plumb_q USING (plumb_row)
 )
 ORDER BY rank, {{.OrderTail}}

@@ -45,7 +45,7 @@ WITH plumb_parts AS NOT MATERIALIZED (
 )
 SELECT * FROM (
     SELECT plumb_numbered.* EXCLUDE (plumb_row), plumb_q.* EXCLUDE (plumb_row),
-           rank() OVER (ORDER BY score DESC NULLS LAST) AS rank
+           CASE WHEN score IS NOT NULL THEN rank() OVER (ORDER BY score DESC NULLS LAST) END AS rank
     FROM plumb_numbered JOIN plumb_q USING (plumb_row)
 )
 ORDER BY rank, COLUMNS(lambda c: c NOT IN ('n', 'first_at', 'last_at', 'status', 'reason', 'gaps', 'missing', 'n_used', 'mean_stable', 'spread_stable', 'seasonal', 'stationary', 'violations', 'mean_cause', 'shift_at', 'shift_size', 'trend_slope', 'spread_cause', 'seasonal_kind', 'second_period', 'zero_share', 'demand_class', 'outliers', 'differences', 'seasonal_differences', 'box_cox_lambda', 'period', 'seasonal_strength', 'cured', 'left_violations', 'over_differenced', 'score', 'adf_statistic', 'adf_p_value', 'adf_lags', 'kpss_statistic', 'kpss_p_value', 'kpss_lags', 'mean_p_value', 'spread_p_value', 'ljung_box_p_value', 'adf_q_value', 'kpss_q_value', 'mean_q_value', 'spread_q_value', 'ljung_box_q_value', 'rank', 'shard', 'shards'))

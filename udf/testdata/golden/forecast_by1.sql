@@ -1,9 +1,15 @@
-WITH RECURSIVE plumb_input AS NOT MATERIALIZED (
-    SELECT COLUMNS(lambda c: c = 'store'), COLUMNS(lambda c: c = 'day'), COLUMNS(lambda c: c = 'units')
-    FROM 'sales.parquet'
+WITH RECURSIVE plumb_source_ok AS MATERIALIZED (
+    SELECT CASE WHEN plumb_problem IS NULL THEN true ELSE error(plumb_problem) END AS plumb_ok
+    FROM (SELECT plumb_columns_problem('', '', ['store', 'day', 'units']::VARCHAR[], ['by', 'at', 'value']::VARCHAR[], 'units',
+                                       list(column_name), list(column_type), (SELECT count(*) > 0 FROM (SELECT 1 FROM 'sales.parquet' LIMIT 1))) AS plumb_problem
+          FROM (DESCRIBE SELECT * FROM 'sales.parquet'))
+), plumb_input AS NOT MATERIALIZED (
+    SELECT "store", "day", "units"
+    FROM (SELECT *, NULL AS "store", NULL AS "day", NULL AS "units" FROM 'sales.parquet')
 ), plumb_keys AS MATERIALIZED (
     SELECT "store", count(*) AS plumb_rows, ("store" IS NULL) AS plumb_null_key
     FROM plumb_input
+    WHERE (SELECT plumb_ok FROM plumb_source_ok)
     GROUP BY "store"
 ), plumb_plan AS MATERIALIZED (
     SELECT "store", plumb_rows, plumb_null_key, dense_rank() OVER (ORDER BY plumb_start // plumb_batch_rows) - 1 AS plumb_batch
