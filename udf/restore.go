@@ -13,7 +13,7 @@ import (
 	"github.com/plumb-sql/plumb/stats"
 )
 
-// restore(source, recipes, by, at, value, anchor := 'last'): source holds
+// restore(source, recipes, by, at, value, anchor) (udf/sql/restore.sql): source holds
 // values on the transformed scale. With anchor 'last' they are forecasts
 // continuing after each group's last_at on its step (a forecast that
 // starts anywhere else is an error naming the group); with 'first' they

@@ -231,7 +231,7 @@ func drawPanel(p *Panel, spec diagnosis.Spec, atList, valueList any, period sql.
 			y[i] = math.NaN()
 		}
 	}
-	width := 30
+	width := defaults.RollingWidth
 	if period.Valid && period.Int64 > 1 {
 		width = int(max(period.Int64, 7))
 	}

@@ -7,9 +7,9 @@
 // chunk) and Write (a chunk's results). Where duckdb-go's internals are not
 // as this package expects, Available is false, and Write reports false;
 // udf then reads and writes through duckdb-go's own iterator and setter,
-// its single fallback path. TestDirectEqualsIterator checks the behaviour:
-// every type plumb reads and writes, NULLs and empty lists included, gives
-// the same rows on both paths. reflect and the unexported fields are used
+// its single fallback path. TestReadEqualsIterator and TestWriteEqualsSetter
+// check the behaviour: every type plumb reads and writes, NULLs and empty
+// lists included, gives the same rows on both paths. reflect and the unexported fields are used
 // here only.
 package vectors
 

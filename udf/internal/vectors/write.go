@@ -82,7 +82,7 @@ func newColumnWriter(vec mapping.Vector, lt mapping.LogicalType) (columnWriter, 
 		defer mapping.DestroyLogicalType(&ct)
 		switch mapping.GetTypeId(ct) {
 		case mapping.TypeDouble:
-			return &FloatsWriter{listRows: listRows{vec: vec}}, true
+			return &floatsWriter{listRows: listRows{vec: vec}}, true
 		case mapping.TypeVarchar:
 			return &textListWriter{listRows: listRows{vec: vec}}, true
 		}
@@ -236,30 +236,30 @@ func (w *listRows) null(row int) {
 	w.valid.set(uint64(row), false)
 }
 
-// FloatsWriter writes a LIST(DOUBLE) given as Floats.
-type FloatsWriter struct {
+// floatsWriter writes a LIST(DOUBLE) given as Floats.
+type floatsWriter struct {
 	listRows
 	data    []float64
 	element validity
 }
 
-func (w *FloatsWriter) accepts(v any) bool {
+func (w *floatsWriter) accepts(v any) bool {
 	_, ok := v.(Floats)
 	return ok || v == nil
 }
-func (w *FloatsWriter) count(v any) {
+func (w *floatsWriter) count(v any) {
 	if l, ok := v.(Floats); ok {
 		w.total += uint64(len(l))
 	}
 }
-func (w *FloatsWriter) begin(rows int) {
+func (w *floatsWriter) begin(rows int) {
 	child := w.reserve(rows)
 	if size := w.at + w.total; size > 0 {
 		w.data = unsafe.Slice((*float64)(mapping.VectorGetData(child)), size)
 	}
 	w.element = writableValidity(child)
 }
-func (w *FloatsWriter) write(row int, v any) {
+func (w *floatsWriter) write(row int, v any) {
 	l, ok := v.(Floats)
 	if !ok {
 		w.null(row)
