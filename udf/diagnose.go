@@ -310,9 +310,9 @@ SELECT *, %d AS shard, %d AS shards FROM plumb_judged ORDER BY %s`, q.shard, q.s
 //
 // The q-values come from one list per test, in the groups' row order,
 // adjusted in Go (plumb_q_values), unnested beside their positions and
-// joined back: ten window sorts that carried every column took about 0.1 s
-// at 10,000 groups, single-threaded. A group without a score (not judged)
-// has no rank.
+// joined back, which is cheaper than a window sort per test carrying every
+// column (DEVELOPERS.md, "Performance notes"). A group without a score (not
+// judged) has no rank.
 func rankedSQL(orderTail string) string {
 	return renderStage("rank.sql", struct {
 		Tests     []string
