@@ -144,7 +144,29 @@ func allFunctions() ([]*function, error) {
 	for _, f := range families {
 		all = append(all, f.functions(t)...)
 	}
+	for _, f := range all {
+		if strings.HasSuffix(f.name, "_sql") {
+			raiseInSQL(f)
+		}
+	}
 	return all, t.err
+}
+
+// raiseInSQL makes a function that writes a table function's query (the
+// plumb_<name>_sql functions) answer a bad argument with a query that
+// raises it through SQL's error(): the user then reads "Invalid Input
+// Error: period must be at least 2, ...", the same words the commands
+// print, instead of the message behind duckdb-go's prefix for a Go
+// function's error ("database/sql/driver: API error: plumb_diagnose_sql:").
+func raiseInSQL(f *function) {
+	eval := f.eval
+	f.eval = func(args []driver.Value) (any, error) {
+		v, err := eval(args)
+		if err != nil {
+			return "SELECT error(" + quoteLiteral(err.Error()) + ")", nil
+		}
+		return v, nil
+	}
 }
 
 // macros is the SQL that creates plumb's TEMP macros on a connection: every
