@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"net/url"
 	"strings"
+	"sync"
 	"sync/atomic"
 	"text/template"
 
@@ -191,9 +192,16 @@ var macros = func() string {
 	return b.String()
 }()
 
-// createMacros creates plumb's TEMP macros on one connection.
+var (
+	qualifiedOnce   sync.Once
+	qualifiedMacros string
+)
+
+// createMacros creates plumb's TEMP macros on one connection, with every
+// call of a plumb scalar function qualified (qualifyCalls).
 func createMacros(ctx context.Context, execer driver.ExecerContext) error {
-	if _, err := execer.ExecContext(ctx, macros, nil); err != nil {
+	qualifiedOnce.Do(func() { qualifiedMacros = qualifyCalls(macros) })
+	if _, err := execer.ExecContext(ctx, qualifiedMacros, nil); err != nil {
 		return fmt.Errorf("udf: create macros: %w", err)
 	}
 	return nil
