@@ -5,6 +5,7 @@ import (
 	"context"
 	"fmt"
 	"io"
+	"net"
 	"os"
 	"sort"
 	"strings"
@@ -25,7 +26,9 @@ import (
 // purpose (a missing table, a bad cast, a SAVEPOINT). Meanwhile 8 abusive
 // clients each repeat one attack of loadAttacks (issue 19's), at most
 // attackRounds times, 20 ms apart, and only while the 32 run; every attack must be
-// refused every time. The loop is bounded and stops by itself. Only the
+// refused every time. Three more abuse the wire (wireAttacks): a Bind whose
+// array header claims 2^31-1 elements, connections that never log in, and
+// a client killed while its statement runs. The loop is bounded and stops by itself. Only the
 // intended errors may occur, and the server must still serve at the end;
 // p50 and p99 latency and the process's peak RSS are printed.
 func TestLoad(t *testing.T) {
@@ -147,6 +150,26 @@ func TestLoad(t *testing.T) {
 			}
 		}(a, attack)
 	}
+	wireDone := make(chan int, len(wireAttacks))
+	for _, attack := range wireAttacks {
+		go func(attack wireAttack) {
+			n := 0
+			defer func() { wireDone <- n }()
+			for ; n < attack.rounds; n++ {
+				select {
+				case <-stop:
+					return
+				case <-time.After(attack.pause):
+				}
+				if err := attack.run(ctx, ts); err != nil {
+					mu.Lock()
+					unexpected = append(unexpected, fmt.Sprintf("wire attack %q: %v", attack.name, err))
+					mu.Unlock()
+					return
+				}
+			}
+		}(attack)
+	}
 	for c := 0; c < clients; c++ {
 		wg.Add(1)
 		go func(c int) {
@@ -179,6 +202,9 @@ func TestLoad(t *testing.T) {
 	for range loadAttacks {
 		attacks += <-attacksDone
 	}
+	for range wireAttacks {
+		attacks += <-wireDone
+	}
 	servesUser(t, ts, "ben")
 	if len(unexpected) > 0 {
 		t.Errorf("%d unexpected outcomes, first: %s", len(unexpected), unexpected[0])
@@ -188,8 +214,8 @@ func TestLoad(t *testing.T) {
 		t.Errorf("%d statements ran, want %d", len(latencies), clients*each)
 	}
 	p := func(q float64) time.Duration { return latencies[int(q*float64(len(latencies)-1))] }
-	t.Logf("%d clients x %d statements (%d kinds), beside %d abusive clients (%d attacks, all refused): p50 %v, p99 %v, max %v; peak RSS of the test process (server and clients) %s",
-		clients, each, len(statements), len(loadAttacks), attacks, p(0.50), p(0.99), latencies[len(latencies)-1], peakRSS())
+	t.Logf("%d clients x %d statements (%d kinds), beside %d abusive clients (%d attacks, all refused or survived): p50 %v, p99 %v, max %v; peak RSS of the test process (server and clients) %s",
+		clients, each, len(statements), len(loadAttacks)+len(wireAttacks), attacks, p(0.50), p(0.99), latencies[len(latencies)-1], peakRSS())
 }
 
 // attackRounds bounds how often each abusive client of TestLoad attacks.
@@ -212,6 +238,62 @@ var loadAttacks = []loadAttack{
 	{"a read user writes", "cy", "CREATE TABLE cy_was_here AS SELECT 1", ""},
 	{"a bound source that reads the log", "ben", "SELECT count(*) FROM diagnose($1, by := 'grp', at := 'day', value := 'v')", "(SELECT * FROM duckdb_logs)"},
 	{"a path outside --data", "cy", "SELECT * FROM read_text('../../../../etc/passwd')", ""},
+}
+
+// wireAttack is an attack on the protocol itself that an abusive client of
+// TestLoad repeats at most rounds times, pause apart; run returns an error
+// only for an outcome other than the intended refusal.
+type wireAttack struct {
+	name   string
+	rounds int
+	pause  time.Duration
+	run    func(ctx context.Context, ts *testServer) error
+}
+
+// wireAttacks are issue 19's attacks on the wire, connections and
+// sessions. Each holds at most a few of the server's 48 slots at a time,
+// beside the 32 clients and 8 statement attackers, so that none of them can
+// crowd a client out by design; what is measured is that the server
+// survives them and keeps serving.
+var wireAttacks = []wireAttack{
+	{"a Bind whose int4[] header claims 2^31-1 elements", attackRounds, 20 * time.Millisecond, func(ctx context.Context, ts *testServer) error {
+		conn, err := pgx.Connect(ctx, ts.url("ana", "s3cret"))
+		if err != nil {
+			return err
+		}
+		defer conn.Close(context.Background())
+		res := conn.PgConn().ExecParams(ctx, "SELECT len($1)", [][]byte{binaryIntArray(1<<31-1, 1, 2)}, []uint32{1007}, []int16{1}, nil).Read()
+		if sqlStateOf(res.Err) != stateInvalidText {
+			return fmt.Errorf("answered %v, want SQLSTATE %s", res.Err, stateInvalidText)
+		}
+		return nil
+	}},
+	{"four connections that never log in", 40, 200 * time.Millisecond, func(ctx context.Context, ts *testServer) error {
+		var conns []net.Conn
+		defer func() {
+			for _, c := range conns {
+				c.Close()
+			}
+		}()
+		for range 4 {
+			c, err := net.DialTimeout("tcp", ts.addr, 2*time.Second)
+			if err != nil {
+				return err
+			}
+			conns = append(conns, c)
+		}
+		time.Sleep(500 * time.Millisecond)
+		return nil
+	}},
+	{"a client killed while its statement runs", 20, time.Second, func(ctx context.Context, ts *testServer) error {
+		conn, err := pgx.Connect(ctx, ts.url("ana", "s3cret"))
+		if err != nil {
+			return err
+		}
+		go conn.Exec(ctx, "SELECT count(*) FROM range(10000000000)") //nolint:errcheck // its socket is closed under it
+		time.Sleep(200 * time.Millisecond)
+		return conn.PgConn().Conn().Close()
+	}},
 }
 
 // peakRSS reads VmHWM from /proc/self/status.
