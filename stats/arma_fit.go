@@ -75,7 +75,9 @@ func MinARMALength(o ARMAOrder) int { return o.span() + o.parameters() + 3 }
 
 // armaLikelihood evaluates the exact, σ²-concentrated log-likelihood of w
 // (already centred and scaled as the caller wishes) at the given
-// coefficients.
+// coefficients: by the full Kalman filter when the residuals (and the
+// final state) are wanted, otherwise by the Chandrasekhar recursions
+// (fastSums), the same sums at O(r) a value.
 func armaLikelihood(w []float64, o ARMAOrder, ar, ma, sar, sma []float64, mean float64, keep bool) (armaFilterResult, float64, float64) {
 	a, b := expandARMA(ar, ma, sar, sma, o.Period)
 	ss := newARMAStateSpace(a, b)
@@ -87,7 +89,12 @@ func armaLikelihood(w []float64, o ARMAOrder, ar, ma, sar, sma []float64, mean f
 			x[i] = v - mean
 		}
 	}
-	res := ss.filter(x, keep)
+	var res armaFilterResult
+	if keep {
+		res = ss.filter(x, true)
+	} else {
+		res.SumSquares, res.SumLogF, res.OK = ss.fastSums(x)
+	}
 	if !res.OK {
 		return res, math.Inf(-1), nan()
 	}
@@ -128,6 +135,24 @@ func armaParams(x []float64, o ARMAOrder) (ar, ma, sar, sma []float64, mean floa
 // same order (a warm start, see ChooseARMA), otherwise from white noise
 // around the sample mean.
 func FitARMA(w []float64, o ARMAOrder, start *ARMAModel) (ARMAModel, error) {
+	return fitARMA(w, o, start, tightFit)
+}
+
+// fitPrecision is how far FitARMA's optimiser goes: tightFit to the
+// gradient noise of the finite differences, looseFit far enough to rank
+// candidates by AICc (the log-likelihood within about 1e-6 of its maximum
+// on a few hundred values) at a fraction of the evaluations; ChooseARMA
+// searches loosely and polishes the chosen model tightly.
+type fitPrecision struct {
+	gradient, function float64
+}
+
+var (
+	tightFit = fitPrecision{gradient: 1e-9, function: 1e-14}
+	looseFit = fitPrecision{gradient: 1e-5, function: 1e-10}
+)
+
+func fitARMA(w []float64, o ARMAOrder, start *ARMAModel, precision fitPrecision) (ARMAModel, error) {
 	if o.AR < 0 || o.MA < 0 || o.SeasonalAR < 0 || o.SeasonalMA < 0 {
 		return ARMAModel{}, errorf("arma: orders must not be negative, got %+v", o)
 	}
@@ -187,8 +212,8 @@ func FitARMA(w []float64, o ARMAOrder, start *ARMAModel) (ARMAModel, error) {
 			},
 		}
 		settings := &optimize.Settings{
-			GradientThreshold: 1e-9,
-			Converger:         &optimize.FunctionConverge{Absolute: 1e-14, Relative: 1e-14, Iterations: 20},
+			GradientThreshold: precision.gradient,
+			Converger:         &optimize.FunctionConverge{Absolute: precision.function, Relative: precision.function, Iterations: 20},
 			MajorIterations:   400,
 			FuncEvaluations:   20000,
 		}
@@ -223,7 +248,11 @@ func armaFree(m ARMAModel, center, scale float64) ([]float64, bool) {
 		x = append(x, f...)
 	}
 	if m.Order.WithMean {
-		x = append(x, (m.Mean-center)/scale)
+		mean := 0.0 // a new mean starts at w's sample mean
+		if !math.IsNaN(m.Mean) {
+			mean = (m.Mean - center) / scale
+		}
+		x = append(x, mean)
 	}
 	return x, true
 }

@@ -281,3 +281,200 @@ func (res armaFilterResult) concentratedLogLikelihood(n int) (logL, sigma2 float
 	logL = -nf/2*(math.Log(2*math.Pi)+1+math.Log(sigma2)) - res.SumLogF/2
 	return logL, sigma2
 }
+
+// firstColumn returns F_1 = Z·P_1·Zᵀ and G_1 = T·P_1·Zᵀ for the
+// stationary covariance P_1, from the process's autocovariances γ_k and
+// ψ-weights (unit innovation variance): with the state
+//
+//	α_t[j] = Σ_{i>j} φ_i·x_{t+j-i} + Σ_{i≥j} θ_i·e_{t+j-i}   (j ≥ 1),
+//
+// Cov(α_t[j], x_t) = Σ_{i>j} φ_i·γ_{i-j} + Σ_{i≥j} θ_i·ψ_{i-j}. The
+// autocovariances solve the first p+1 equations γ_k - Σ_i φ_i·γ_{|k-i|} =
+// Σ_{j≥k} θ_j·ψ_{j-k} and follow the recursion beyond (Brockwell & Davis
+// 1991, Time Series: Theory and Methods, §3.3, second method). ok is false
+// when the system is singular or γ_0 is not positive (not stationary).
+func (ss *armaStateSpace) firstColumn(g []float64) (f float64, ok bool) {
+	r := ss.r
+	phi, theta := ss.phi, ss.theta // theta[j] = θ_j, θ_0 = 1
+	p := 0
+	for i := r - 1; i >= 0; i-- {
+		if phi[i] != 0 {
+			p = i + 1
+			break
+		}
+	}
+	psi := make([]float64, r+1)
+	for j := 0; j <= r; j++ {
+		v := 0.0
+		if j < r {
+			v = theta[j]
+		}
+		for i := 1; i <= min(j, p); i++ {
+			v += phi[i-1] * psi[j-i]
+		}
+		psi[j] = v
+	}
+	rhs := func(k int) float64 {
+		s := 0.0
+		for j := k; j < r; j++ {
+			s += theta[j] * psi[j-k]
+		}
+		return s
+	}
+	gamma := make([]float64, r+1)
+	if p == 0 {
+		for k := 0; k <= r; k++ {
+			gamma[k] = rhs(k)
+		}
+	} else {
+		// (p+1)×(p+1) system in γ_0..γ_p, Gaussian elimination with partial pivoting.
+		m := p + 1
+		a := make([]float64, m*(m+1))
+		for k := 0; k < m; k++ {
+			a[k*(m+1)+k] += 1
+			for i := 1; i <= p; i++ {
+				lag := k - i
+				if lag < 0 {
+					lag = -lag
+				}
+				a[k*(m+1)+lag] -= phi[i-1]
+			}
+			a[k*(m+1)+m] = rhs(k)
+		}
+		for c := 0; c < m; c++ {
+			piv := c
+			for rr := c + 1; rr < m; rr++ {
+				if math.Abs(a[rr*(m+1)+c]) > math.Abs(a[piv*(m+1)+c]) {
+					piv = rr
+				}
+			}
+			if !(math.Abs(a[piv*(m+1)+c]) > 1e-300) {
+				return 0, false
+			}
+			if piv != c {
+				for j := 0; j <= m; j++ {
+					a[c*(m+1)+j], a[piv*(m+1)+j] = a[piv*(m+1)+j], a[c*(m+1)+j]
+				}
+			}
+			for rr := c + 1; rr < m; rr++ {
+				fac := a[rr*(m+1)+c] / a[c*(m+1)+c]
+				if fac == 0 {
+					continue
+				}
+				for j := c; j <= m; j++ {
+					a[rr*(m+1)+j] -= fac * a[c*(m+1)+j]
+				}
+			}
+		}
+		for c := m - 1; c >= 0; c-- {
+			s := a[c*(m+1)+m]
+			for j := c + 1; j < m; j++ {
+				s -= a[c*(m+1)+j] * gamma[j]
+			}
+			gamma[c] = s / a[c*(m+1)+c]
+		}
+		for k := m; k <= r; k++ {
+			v := rhs(k)
+			for i := 1; i <= p; i++ {
+				v += phi[i-1] * gamma[k-i]
+			}
+			gamma[k] = v
+		}
+	}
+	if !(gamma[0] > 0) || math.IsInf(gamma[0], 0) {
+		return 0, false
+	}
+	// c_j = Cov(α_1[j], x_1), then G_1 = T·c.
+	c := make([]float64, r)
+	c[0] = gamma[0]
+	for j := 1; j < r; j++ {
+		v := 0.0
+		for i := j + 1; i <= r; i++ {
+			v += phi[i-1] * gamma[i-j]
+		}
+		for i := j; i < r; i++ {
+			v += theta[i] * psi[i-j]
+		}
+		c[j] = v
+	}
+	for i := 0; i < r; i++ {
+		v := phi[i] * c[0]
+		if i+1 < r {
+			v += c[i+1]
+		}
+		g[i] = v
+	}
+	return gamma[0], true
+}
+
+// fastSums returns Σ v_t²/F_t and Σ log F_t over x, the same prediction-
+// error decomposition as filter, by the Chandrasekhar recursions (Morf,
+// Sidhu & Kailath 1974; for ARMA likelihoods, Herbst 2015): for a
+// time-invariant model started from its stationary covariance, P_{t+1} -
+// P_t has rank one, w_t·m_t·w_tᵀ, and with G_t = T·P_t·Zᵀ,
+//
+//	F_{t+1} = F_t + m_t·(Z·w_t)²,  G_{t+1} = G_t + m_t·(Z·w_t)·T·w_t,
+//	w_{t+1} = T·w_t - (Z·w_t / F_t)·G_t,  m_{t+1} = m_t·F_t / F_{t+1},
+//
+// from w_1 = G_1, m_1 = -1/F_1 (derived by expanding the Riccati step). It
+// needs only the first column of P_1 (firstColumn) and costs O(r) a value,
+// against O(r²) for filter and O(r³) for the covariance filter starts
+// from; it is what the optimiser evaluates. Once the update m_t·(Z·w_t)² is
+// negligible (steadyTolerance relative to F), F and G stay fixed.
+func (ss *armaStateSpace) fastSums(x []float64) (sumSquares, sumLogF float64, ok bool) {
+	r := ss.r
+	phi := ss.phi
+	buf := getScratch(4 * r)
+	defer putScratch(buf)
+	g, w, a, tw := buf[:r], buf[r:2*r], buf[2*r:3*r], buf[3*r:4*r]
+	f, ok := ss.firstColumn(g)
+	if !ok {
+		return 0, 0, false
+	}
+	copy(w, g)
+	m := -1 / f
+	for i := range a {
+		a[i] = 0
+	}
+	steady := false
+	for _, xt := range x {
+		v := xt - a[0]
+		sumSquares += v * v / f
+		sumLogF += math.Log(f)
+		// a ← T·a + (G/F)·v
+		a0 := a[0]
+		for i := 0; i < r-1; i++ {
+			a[i] = phi[i]*a0 + a[i+1] + g[i]/f*v
+		}
+		a[r-1] = phi[r-1]*a0 + g[r-1]/f*v
+		if steady {
+			continue
+		}
+		u := w[0]
+		for i := 0; i < r-1; i++ {
+			tw[i] = phi[i]*u + w[i+1]
+		}
+		tw[r-1] = phi[r-1] * u
+		df := m * u * u
+		fNext := f + df
+		if !(fNext > 0) {
+			return 0, 0, false
+		}
+		dg := 0.0
+		for i := 0; i < r; i++ {
+			w[i] = tw[i] - u/f*g[i] // the old G
+			step := m * u * tw[i]
+			g[i] += step
+			dg = math.Max(dg, math.Abs(step))
+		}
+		m *= f / fNext
+		f = fNext
+		if math.Abs(df) < steadyTolerance*f && dg < steadyTolerance*f {
+			steady = true
+		}
+	}
+	if !(sumSquares < math.Inf(1)) || math.IsNaN(sumSquares) {
+		return 0, 0, false
+	}
+	return sumSquares, sumLogF, true
+}
