@@ -303,8 +303,8 @@ func stationarityOptions(period, alpha driver.Value) (stats.StationarityOptions,
 	if !(a > 0 && a < 1) {
 		return stats.StationarityOptions{}, fmt.Errorf("alpha must be between 0 and 1, got %v", a)
 	}
-	if p < 0 || p == 1 {
-		return stats.StationarityOptions{}, fmt.Errorf("period must be NULL (detect) or at least 2, got %d", p)
+	if p < 0 {
+		return stats.StationarityOptions{}, fmt.Errorf("period must be NULL (detect), 1 (not seasonal) or at least 2, got %d", p)
 	}
 	return stats.StationarityOptions{Period: p, Alpha: a}, nil
 }

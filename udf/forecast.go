@@ -24,11 +24,19 @@ import (
 //	    group are held out: the recipe and the model come from the rest, the
 //	    rows forecast the held-out stretch, and actual holds its values.
 //	forecast_models(same arguments)
-//	    one row per group: the recipe and the autoregression behind the
-//	    forecasts (order, constant, coefficients, residual variance, the
-//	    Ljung-Box p-value of its residuals), and with holdout := k the mean
+//	    one row per group: the recipe and the model behind the forecasts,
+//	    chosen by AICc among ARMA models fitted by exact likelihood and the
+//	    least-squares autoregression (stats.ChooseARMA): its orders
+//	    (ar_order, ma_order, seasonal_ar_order, seasonal_ma_order at
+//	    seasonal_period), constant, coefficients, residual variance, nobs
+//	    (values of the stationary series), log_likelihood, aic, aicc, how it
+//	    was fitted (model_fit: exact_likelihood or least_squares) and the
+//	    Ljung-Box p-value of its residuals; with holdout := k the mean
 //	    absolute scaled error and the share of held-out values inside the
-//	    intervals.
+//	    intervals. mase is scaled by the in-sample naive error at the lag of
+//	    the period passed (period := 1: lag 1; a period ≥ 2: that lag, even
+//	    when the verdict found no seasonality), and at the detected period
+//	    of a seasonal series when period is NULL (lag 1 otherwise).
 func forecastFunctions(t *types) []*function {
 	d := t.double()
 	fields := []field{
@@ -40,6 +48,10 @@ func forecastFunctions(t *types) []*function {
 		{"ar_order", t.bigint()}, {"ar_constant", d}, {"ar_coefficients", t.doubles()},
 		{"residual_variance", d}, {"nobs", t.bigint()}, {"aic", d}, {"ljung_box_p_value", d},
 		{"mase", d}, {"interval_coverage", d},
+		{"ma_order", t.bigint()}, {"seasonal_ar_order", t.bigint()}, {"seasonal_ma_order", t.bigint()},
+		{"seasonal_period", t.bigint()}, {"ma_coefficients", t.doubles()},
+		{"seasonal_ar_coefficients", t.doubles()}, {"seasonal_ma_coefficients", t.doubles()},
+		{"log_likelihood", d}, {"aicc", d}, {"model_fit", t.varchar()},
 	}
 	funcs := []*function{{
 		name:     "plumb_forecast",
@@ -186,7 +198,9 @@ func forecastGroup(at []int64, x []float64, o forecastOptions) (any, error) {
 	out := map[string]any{"status": nil, "reason": nil, "offsets": nil, "forecast": nil, "lower": nil, "upper": nil,
 		"actual": nil, "mean_cause": nil, "seasonal_kind": nil, "period": nil, "box_cox_lambda": nil,
 		"seasonal_differences": nil, "differences": nil, "ar_order": nil, "ar_constant": nil, "ar_coefficients": nil,
-		"residual_variance": nil, "nobs": nil, "aic": nil, "ljung_box_p_value": nil, "mase": nil, "interval_coverage": nil}
+		"residual_variance": nil, "nobs": nil, "aic": nil, "ljung_box_p_value": nil, "mase": nil, "interval_coverage": nil,
+		"ma_order": nil, "seasonal_ar_order": nil, "seasonal_ma_order": nil, "seasonal_period": nil, "ma_coefficients": nil,
+		"seasonal_ar_coefficients": nil, "seasonal_ma_coefficients": nil, "log_likelihood": nil, "aicc": nil, "model_fit": nil}
 	for i := 1; i < len(at); i++ {
 		if at[i] == at[i-1] {
 			out["status"] = duplicateAt
@@ -255,16 +269,29 @@ func forecastGroup(at []int64, x []float64, o forecastOptions) (any, error) {
 		return out, nil
 	}
 	out["forecast"], out["lower"], out["upper"] = doubleList(f.Mean), doubleList(f.Lower), doubleList(f.Upper)
-	m := f.Model
-	out["ar_order"], out["ar_constant"], out["ar_coefficients"] = int64(m.Order), orNull(m.Constant), doubleList(m.Coefficients)
+	m := f.Chosen
+	out["ar_order"], out["ar_constant"], out["ar_coefficients"] = int64(m.Order.AR), orNull(m.Constant), doubleList(m.AR)
 	out["residual_variance"], out["nobs"], out["aic"] = orNull(m.Variance), int64(m.NObs), orNull(m.AIC)
+	out["ma_order"], out["seasonal_ar_order"], out["seasonal_ma_order"] = int64(m.Order.MA), int64(m.Order.SeasonalAR), int64(m.Order.SeasonalMA)
+	if m.Order.SeasonalAR+m.Order.SeasonalMA > 0 {
+		out["seasonal_period"] = int64(m.Order.Period)
+	}
+	out["ma_coefficients"], out["seasonal_ar_coefficients"], out["seasonal_ma_coefficients"] = doubleList(m.MA), doubleList(m.SeasonalAR), doubleList(m.SeasonalMA)
+	out["log_likelihood"], out["aicc"] = orNull(m.LogLikelihood), orNull(m.AICc)
+	out["model_fit"] = "exact_likelihood"
+	if m.LeastSquares {
+		out["model_fit"] = "least_squares"
+	}
 	if f.WhiteNoise.Status == stats.StatusOK {
 		out["ljung_box_p_value"] = orNull(f.WhiteNoise.PValue)
 	}
 	if o.holdout > 0 {
 		actual := []float64(out["actual"].(doubleList))
 		lag := 1
-		if v.Seasonal && rec.Period > 1 {
+		switch {
+		case o.verdict.Period >= 2: // the period the user passed
+			lag = o.verdict.Period
+		case o.verdict.Period == 0 && v.Seasonal && rec.Period > 1:
 			lag = rec.Period
 		}
 		if e, err := stats.MeanAbsoluteScaledError(actual, f.Mean, train, lag); err == nil && e.Status == stats.StatusOK {
@@ -304,7 +331,12 @@ func forecastSQL(q seriesQuery, literals []string, models bool) string {
                    plumb_f.differences AS differences, plumb_f.ar_order AS ar_order, plumb_f.ar_constant AS ar_constant,
                    plumb_f.ar_coefficients AS ar_coefficients, plumb_f.residual_variance AS residual_variance,
                    plumb_f.nobs AS nobs, plumb_f.aic AS aic, plumb_f.ljung_box_p_value AS ljung_box_p_value,
-                   plumb_f.mase AS mase, plumb_f.interval_coverage AS interval_coverage
+                   plumb_f.mase AS mase, plumb_f.interval_coverage AS interval_coverage,
+                   plumb_f.ma_order AS ma_order, plumb_f.seasonal_ar_order AS seasonal_ar_order,
+                   plumb_f.seasonal_ma_order AS seasonal_ma_order, plumb_f.seasonal_period AS seasonal_period,
+                   plumb_f.ma_coefficients AS ma_coefficients, plumb_f.seasonal_ar_coefficients AS seasonal_ar_coefficients,
+                   plumb_f.seasonal_ma_coefficients AS seasonal_ma_coefficients, plumb_f.log_likelihood AS log_likelihood,
+                   plumb_f.aicc AS aicc, plumb_f.model_fit AS model_fit
             FROM (SELECT %[1]s, plumb_forecast(plumb_points, %[2]s) AS plumb_f FROM plumb_series)`,
 			by, strings.Join(literals, ", "), status)
 		return q.batchedCTEs(perGroup, gatherBytesPerRow) + fmt.Sprintf("\nFROM plumb_done\nORDER BY %s", by)
