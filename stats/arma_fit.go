@@ -141,14 +141,19 @@ func FitARMA(w []float64, o ARMAOrder, start *ARMAModel) (ARMAModel, error) {
 // fitPrecision is how far FitARMA's optimiser goes: tightFit to the
 // gradient noise of the finite differences, looseFit far enough to rank
 // candidates by AICc (the log-likelihood within about 1e-6 of its maximum
-// on a few hundred values) at a fraction of the evaluations; ChooseARMA
-// searches loosely and polishes the chosen model tightly.
+// on a few hundred values, the coefficients within about 1e-5) at a
+// fraction of the evaluations; ChooseARMA searches loosely.
+// tightFit differentiates centrally (error about 1e-10), looseFit forward
+// (about 1e-7, one evaluation a parameter instead of two).
+// A loose fit leaves the residuals out (the search computes them for the
+// chosen model only).
 type fitPrecision struct {
 	gradient, function float64
+	central, residuals bool
 }
 
 var (
-	tightFit = fitPrecision{gradient: 1e-9, function: 1e-14}
+	tightFit = fitPrecision{gradient: 1e-9, function: 1e-14, central: true, residuals: true}
 	looseFit = fitPrecision{gradient: 1e-5, function: 1e-10}
 )
 
@@ -200,14 +205,24 @@ func fitARMA(w []float64, o ARMAOrder, start *ARMAModel, precision fitPrecision)
 			Func: objective,
 			Grad: func(g, x []float64) {
 				xx := append([]float64(nil), x...)
+				var f0 float64
+				if !precision.central {
+					f0 = objective(x)
+				}
 				for i := range x {
-					h := 1e-6 * math.Max(1, math.Abs(x[i]))
-					xx[i] = x[i] + h
-					up := objective(xx)
-					xx[i] = x[i] - h
-					down := objective(xx)
+					if precision.central {
+						h := 1e-6 * math.Max(1, math.Abs(x[i]))
+						xx[i] = x[i] + h
+						up := objective(xx)
+						xx[i] = x[i] - h
+						down := objective(xx)
+						g[i] = (up - down) / (2 * h)
+					} else {
+						h := 1e-7 * math.Max(1, math.Abs(x[i]))
+						xx[i] = x[i] + h
+						g[i] = (objective(xx) - f0) / h
+					}
 					xx[i] = x[i]
-					g[i] = (up - down) / (2 * h)
 				}
 			},
 		}
@@ -223,7 +238,7 @@ func fitARMA(w []float64, o ARMAOrder, start *ARMAModel, precision fitPrecision)
 		}
 	}
 	ar, ma, sar, sma, mean := armaParams(best, o)
-	m, s := armaModelAt(w, o, ar, ma, sar, sma, center+scale*mean)
+	m, s := armaModelAt(w, o, ar, ma, sar, sma, center+scale*mean, precision.residuals)
 	if s != StatusOK {
 		return failedARMA(s, o), nil
 	}
@@ -258,12 +273,12 @@ func armaFree(m ARMAModel, center, scale float64) ([]float64, bool) {
 }
 
 // armaModelAt evaluates the model with the given coefficients and mean on
-// w: its likelihood, σ̂², residuals and criteria.
-func armaModelAt(w []float64, o ARMAOrder, ar, ma, sar, sma []float64, mean float64) (ARMAModel, Status) {
+// w: its likelihood, σ̂², criteria and, when asked for, residuals.
+func armaModelAt(w []float64, o ARMAOrder, ar, ma, sar, sma []float64, mean float64, residuals bool) (ARMAModel, Status) {
 	if !o.WithMean {
 		mean = 0
 	}
-	res, logL, s2 := armaLikelihood(w, o, ar, ma, sar, sma, mean, true)
+	res, logL, s2 := armaLikelihood(w, o, ar, ma, sar, sma, mean, residuals)
 	if math.IsInf(logL, -1) || !(s2 > 0) || math.IsInf(s2, 0) || math.IsNaN(logL) {
 		return ARMAModel{}, StatusSingular
 	}
@@ -311,7 +326,7 @@ func ARMAAt(w []float64, o ARMAOrder, ar, ma, sar, sma []float64, mean float64) 
 	if s := arInputStatus(w, 2); s != StatusOK {
 		return failedARMA(s, o), nil
 	}
-	m, s := armaModelAt(w, o, ar, ma, sar, sma, mean)
+	m, s := armaModelAt(w, o, ar, ma, sar, sma, mean, true)
 	if s != StatusOK {
 		return failedARMA(s, o), nil
 	}

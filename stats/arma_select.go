@@ -20,8 +20,10 @@ type ARMASearch struct {
 	MaxFits int
 }
 
-// Defaults of the search: p, q ≤ 3, P, Q ≤ 1, at most 30 fits.
+// Defaults of the search: p, q ≤ 3, P, Q ≤ 1, at most 30 fits; the
+// screen's order (see ChooseARMA).
 const (
+	ShortAROrder                = 2
 	DefaultMaxARMAOrder         = 3
 	DefaultMaxSeasonalARMAOrder = 1
 	DefaultMaxARMAFits          = 30
@@ -60,9 +62,20 @@ type ARMAChoice struct {
 //     likelihood at its own coefficients (ARMAAt) and kept if its AICc is
 //     lower still; a non-stationary least-squares fit is not a candidate.
 //
+// A screen comes first: when the least-squares autoregression needs at
+// most ShortAROrder lags (by AIC), moving-average terms have little to
+// add, and the search is only that autoregression fitted by exact
+// likelihood (each mean choice, started from the least-squares
+// coefficients) against its least-squares fit. Steps 1-2 run when it needs
+// more, which is where an ARMA model is more parsimonious (an MA(1) with
+// θ = -0.5 needs about five autoregressive lags; a seasonal pattern, about
+// a period's worth).
+//
 // Each fit starts from its neighbour's estimates where they carry over
 // (the neighbour's coefficients, a new one at zero), otherwise from white
-// noise. When no model can be fitted, Model's status says why.
+// noise. The search's fits stop at a looser tolerance than FitARMA's (the
+// log-likelihood within about 1e-6 of its maximum; FitARMA refits a chosen
+// order exactly). When no model can be fitted, Model's status says why.
 func ChooseARMA(w []float64, opts ARMASearch) (ARMAChoice, error) {
 	if opts.MaxAR < 0 || opts.MaxMA < 0 || opts.MaxSeasonalAR < 0 || opts.MaxSeasonalMA < 0 || opts.MaxFits < 0 || opts.Differences < 0 {
 		return ARMAChoice{}, errorf("arma: search bounds must not be negative, got %+v", opts)
@@ -128,20 +141,28 @@ func ChooseARMA(w []float64, opts ARMASearch) (ARMAChoice, error) {
 			best = &mm
 		}
 	}
-	for _, mean := range meanChoices[:1] {
+	short := ls.Status == StatusOK && ls.Order <= ShortAROrder
+	if short {
+		// A short autoregression describes w: fit it by exact likelihood
+		// from the least-squares coefficients, with each mean choice.
+		from := ARMAModel{Order: ARMAOrder{AR: ls.Order}, AR: ls.Coefficients, Status: StatusOK, Mean: nan()}
+		for _, mean := range meanChoices {
+			try(ARMAOrder{AR: ls.Order, Period: s, WithMean: mean}, &from)
+		}
+	} else {
 		starts := []ARMAOrder{{}, {AR: 1}, {MA: 1}, {AR: 1, MA: 1}}
 		if s > 0 {
 			starts = append(starts, ARMAOrder{AR: 1, SeasonalAR: 1}, ARMAOrder{MA: 1, SeasonalMA: 1})
 		}
 		for _, o := range starts {
-			o.Period, o.WithMean = s, mean
+			o.Period, o.WithMean = s, meanChoices[0]
 			try(o, nil)
 		}
 	}
 	if err != nil {
 		return ARMAChoice{}, err
 	}
-	for best != nil && out.Fits < maxFits {
+	for best != nil && out.Fits < maxFits && !short {
 		current := *best
 		o := current.Order
 		var next []ARMAOrder
@@ -168,14 +189,12 @@ func ChooseARMA(w []float64, opts ARMASearch) (ARMAChoice, error) {
 		}
 	}
 	if best != nil {
-		// Polish the search's winner to the precision FitARMA promises.
-		polished, err := fitARMA(w, best.Order, best, tightFit)
-		if err != nil {
-			return ARMAChoice{}, err
+		// The winner's residuals (the loose fits leave them out).
+		m, st := armaModelAt(w, best.Order, best.AR, best.MA, best.SeasonalAR, best.SeasonalMA, best.Mean, true)
+		if st != StatusOK {
+			return ARMAChoice{}, errorf("arma: the chosen model %+v could not be evaluated again", best.Order)
 		}
-		if polished.Status == StatusOK && polished.LogLikelihood >= best.LogLikelihood {
-			best = &polished
-		}
+		best = &m
 	}
 	if ls.Status == StatusOK && ls.Order > 0 {
 		o := ARMAOrder{AR: ls.Order, WithMean: true}

@@ -201,6 +201,7 @@ func (ss *armaStateSpace) filter(x []float64, keepResiduals bool) armaFilterResu
 		res.Residuals = make([]float64, len(x))
 	}
 	steady := false
+	settled := 0
 	f := 0.0
 	for t, xt := range x {
 		if !steady {
@@ -234,7 +235,11 @@ func (ss *armaStateSpace) filter(x []float64, keepResiduals bool) armaFilterResu
 		}
 		v := xt - a[0]
 		res.SumSquares += v * v / f
-		res.SumLogF += math.Log(f)
+		if !steady {
+			res.SumLogF += math.Log(f)
+		} else if t == len(x)-1 { // F has stayed fixed since the filter settled
+			res.SumLogF += float64(len(x)-settled) * math.Log(f)
+		}
 		if keepResiduals {
 			res.Residuals[t] = v / math.Sqrt(f)
 		}
@@ -253,7 +258,7 @@ func (ss *armaStateSpace) filter(x []float64, keepResiduals bool) armaFilterResu
 			}
 			p, pn = pn, p
 			if change < steadyTolerance {
-				steady = true
+				steady, settled = true, t+1
 				f = p[0]
 				// The gain for the next step from the converged P.
 				for i := 0; i < r; i++ {
@@ -436,11 +441,18 @@ func (ss *armaStateSpace) fastSums(x []float64) (sumSquares, sumLogF float64, ok
 	for i := range a {
 		a[i] = 0
 	}
+	settled := 0 // the first value whose F is the settled one
 	steady := false
-	for _, xt := range x {
+	for t, xt := range x {
 		v := xt - a[0]
 		sumSquares += v * v / f
-		sumLogF += math.Log(f)
+		if steady {
+			if t == len(x)-1 { // F has stayed fixed since the filter settled
+				sumLogF += float64(len(x)-settled) * math.Log(f)
+			}
+		} else {
+			sumLogF += math.Log(f)
+		}
 		// a ← T·a + (G/F)·v
 		a0 := a[0]
 		for i := 0; i < r-1; i++ {
@@ -470,7 +482,7 @@ func (ss *armaStateSpace) fastSums(x []float64) (sumSquares, sumLogF float64, ok
 		m *= f / fNext
 		f = fNext
 		if math.Abs(df) < steadyTolerance*f && dg < steadyTolerance*f {
-			steady = true
+			steady, settled = true, t+1
 		}
 	}
 	if !(sumSquares < math.Inf(1)) || math.IsNaN(sumSquares) {
