@@ -8,7 +8,7 @@ type ADFOptions struct {
 	Deterministic Deterministic
 	LagRule       LagRule
 	// MaxLag is the largest number of lagged differences tried, or the
-	// number used under LagFixed. Nil means SchwertMaxLag(len(x)), capped at
+	// number used under LagGiven. Nil means SchwertMaxLag(len(x)), capped at
 	// len(x)/2 - terms - 1 so that the common sample keeps half the series,
 	// and so that the widest model keeps two residual degrees of freedom.
 	MaxLag *int
@@ -26,7 +26,7 @@ type ADFOptions struct {
 //	Δy_t = [α + β·t] + γ·y_{t-1} + Σ_{i=1..k} δ_i·Δy_{t-i} + e_t
 //
 // by least squares and reports the t-statistic of γ. Under the lag rules AIC,
-// BIC and t_stat every k from 0 to MaxLag is fitted on one common sample
+// BIC and drop_insignificant every k from 0 to MaxLag is fitted on one common sample
 // (t = MaxLag+2..T), all from one factorisation of the widest design (see
 // nestedLS and factorGram), so their criteria are comparable; the chosen k is then re-fitted
 // on its own longest sample unless SameSample is set. AIC is
@@ -74,7 +74,7 @@ func ADF(x []float64, opts ADFOptions) (UnitRootResult, error) {
 	defer a.release()
 
 	lags := maxLag
-	if rule != LagFixed {
+	if rule != LagGiven {
 		lags, err = a.chooseLag(maxLag, rule)
 		if err != nil {
 			return fail(StatusSingular)
@@ -92,7 +92,7 @@ func ADF(x []float64, opts ADFOptions) (UnitRootResult, error) {
 	return UnitRootResult{
 		Method: "adf", Deterministic: d, NullHypothesis: NullUnitRoot, Status: StatusOK,
 		Statistic: tau, PValue: p, PValueBound: bound,
-		CriticalValues: MacKinnonCritical(d, n), Lags: lags, NObs: n,
+		CriticalValues: MacKinnonCritical(d, n), Lags: lags, Observations: n,
 	}, nil
 }
 
@@ -192,7 +192,7 @@ func (a *adfDesign) chooseLag(maxLag int, rule LagRule) (int, error) {
 		return 0, errSingular
 	}
 	n := float64(a.ls.n)
-	if rule == LagTStat {
+	if rule == LagDropInsignificant {
 		for k := maxLag; k >= 1; k-- {
 			if base+k <= a.ls.rank && math.Abs(a.ls.tLast(base+k)) >= 1.6448536269514722 {
 				return k, nil
@@ -330,7 +330,7 @@ func (a *adfDesign) refitMatrix(lags, start int) ([]float64, int, int) {
 //	S(i+1, j+1) = S(i, j) + Δy_{s-1-i}·Δy_{s-1-j} - Δy_{s+n-1-i}·Δy_{s+n-1-j}
 //
 // (s the first row of the sample, n its length): about 4·n·p work in all
-// instead of n·p²/2, as DESIGN.md suggests.
+// instead of n·p²/2 (DEVELOPERS.md, "Where the time goes").
 func (a *adfDesign) crossMatrix(lags, start int) ([]float64, int, int) {
 	n := len(a.dx) - start
 	shift := func(j int) []float64 { return a.dx[start-j : start-j+n] } // lag j; j = 0 is Δy itself

@@ -38,8 +38,8 @@ func TestADFAgainstStatsmodels(t *testing.T) {
 		if math.Abs(got.Statistic-want) > 1e-6*math.Abs(want) {
 			t.Errorf("%s: statistic %.12g, want %.12g", where, got.Statistic, want)
 		}
-		if got.Lags != int(num(t, row["lags"])) || got.NObs != int(num(t, row["nobs"])) {
-			t.Errorf("%s: lags %d nobs %d, want %s %s", where, got.Lags, got.NObs, row["lags"], row["nobs"])
+		if got.Lags != int(num(t, row["lags"])) || got.Observations != int(num(t, row["observations"])) {
+			t.Errorf("%s: lags %d observations %d, want %s %s", where, got.Lags, got.Observations, row["lags"], row["observations"])
 		}
 		p := num(t, row["p_value"])
 		switch got.PValueBound {
@@ -58,7 +58,7 @@ func TestADFAgainstStatsmodels(t *testing.T) {
 				t.Errorf("%s: p at most %v, statsmodels %v", where, got.PValue, p)
 			}
 		}
-		for i, col := range []string{"crit_1pct", "crit_5pct", "crit_10pct"} {
+		for i, col := range []string{"cutoff_01", "cutoff_05", "cutoff_10"} {
 			if c := num(t, row[col]); math.Abs(got.CriticalValues[i]-c) > 1e-9 {
 				t.Errorf("%s: %s %v, want %v", where, col, got.CriticalValues[i], c)
 			}
@@ -66,7 +66,7 @@ func TestADFAgainstStatsmodels(t *testing.T) {
 		checked[row["lag_rule"]]++
 	}
 	t.Logf("rows checked per lag rule: %v; %d beyond the ends of MacKinnon's fits (p-value marked as a bound)", checked, bounded)
-	if checked["aic"] < 600 || checked["bic"] < 600 || checked["fixed"] < 600 {
+	if checked["aic"] < 600 || checked["bic"] < 600 || checked["given"] < 600 {
 		t.Errorf("too few rows checked: %v", checked)
 	}
 }

@@ -21,17 +21,17 @@ type ARModel struct {
 	Constant float64
 	// Coefficients holds φ_1..φ_p.
 	Coefficients []float64
-	// Variance is σ² = SSR / NObs, the residual sum of squares over the
+	// Variance is σ² = SSR / Observations, the residual sum of squares over the
 	// number of observations in the regression (the maximum-likelihood
 	// divisor, as AutoReg's sigma2; no degrees-of-freedom correction).
 	Variance float64
-	// Residuals holds e_t for t = p+1..n, NObs values.
+	// Residuals holds e_t for t = p+1..n, Observations values.
 	Residuals []float64
-	// NObs is the number of observations in the regression, n - p.
-	NObs int
+	// Observations is the number of observations in the regression, n - p.
+	Observations int
 	// AIC and BIC of the model on its own sample, from the Gaussian
-	// conditional log-likelihood L = -NObs/2·(log 2π + log σ² + 1):
-	// AIC = -2L + 2k, BIC = -2L + k·log NObs, with k = p + 2 (the constant,
+	// conditional log-likelihood L = -Observations/2·(log 2π + log σ² + 1):
+	// AIC = -2L + 2k, BIC = -2L + k·log Observations, with k = p + 2 (the constant,
 	// p coefficients and σ²).
 	AIC, BIC float64
 	// MaxOrder is the largest order compared when the order was chosen
@@ -298,7 +298,7 @@ func (d *arDesign) fit(p int) ARModel {
 	if ssr <= 1e-20*nf {
 		return failedAR(StatusSingular, p)
 	}
-	m := ARModel{Order: p, MaxOrder: p, NObs: N, Residuals: resid, Status: StatusOK}
+	m := ARModel{Order: p, MaxOrder: p, Observations: N, Residuals: resid, Status: StatusOK}
 	m.Coefficients = append([]float64{}, beta[1:]...)
 	sumPhi := 0.0
 	for _, v := range m.Coefficients {

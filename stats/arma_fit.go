@@ -47,18 +47,18 @@ type ARMAModel struct {
 	// ARModel.Constant and SARIMAX's trend="c" intercept state it.
 	Mean, Constant float64
 	// Variance is σ̂², the maximum-likelihood innovation variance (Σ v_t²/F_t
-	// over NObs).
+	// over Observations).
 	Variance float64
-	// LogLikelihood is the exact Gaussian log-likelihood of the NObs values
+	// LogLikelihood is the exact Gaussian log-likelihood of the Observations values
 	// of w at the estimates.
 	LogLikelihood float64
-	// AIC = -2·log L + 2k and AICc = AIC + 2k(k+1)/(NObs-k-1) (Hurvich &
+	// AIC = -2·log L + 2k and AICc = AIC + 2k(k+1)/(Observations-k-1) (Hurvich &
 	// Tsai 1989), with k the coefficients, μ and σ².
 	AIC, AICc float64
-	// NObs is the number of values of w.
-	NObs int
+	// Observations is the number of values of w.
+	Observations int
 	// Residuals are the standardised one-step prediction errors
-	// v_t/sqrt(F_t) of the Kalman filter (variance σ²), NObs values.
+	// v_t/sqrt(F_t) of the Kalman filter (variance σ²), Observations values.
 	Residuals []float64
 	// LeastSquares says the coefficients are an ARModel's (FitAR), not the
 	// maximum of this likelihood: ChooseARMA keeps that model as a
@@ -286,7 +286,7 @@ func armaModelAt(w []float64, o ARMAOrder, ar, ma, sar, sma []float64, mean floa
 	k := float64(o.parameters() + 1)
 	m := ARMAModel{
 		Order: o, AR: cloneFloats(ar), MA: cloneFloats(ma), SeasonalAR: cloneFloats(sar), SeasonalMA: cloneFloats(sma),
-		Mean: mean, Variance: s2, LogLikelihood: logL, NObs: n, Status: StatusOK,
+		Mean: mean, Variance: s2, LogLikelihood: logL, Observations: n, Status: StatusOK,
 	}
 	m.Constant = mean * polynomialAtOne(ar) * polynomialAtOne(sar)
 	m.AIC = -2*logL + 2*k

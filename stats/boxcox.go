@@ -49,11 +49,20 @@ func InverseBoxCox(y []float64, lambda float64) ([]float64, Status) {
 }
 
 // GuerreroLambda chooses the Box-Cox λ in [-1, 2] by Guerrero's (1993)
-// method: split x into consecutive subseries of length m (the seasonal
-// period, or 2 when there is none), dropping the oldest incomplete one; with
-// mean μ_i and standard deviation s_i of each, choose λ to minimise the
-// coefficient of variation of s_i / μ_i^(1-λ), so that the spread no longer
-// depends on the level. It needs positive data and at least two subseries.
+// method. The range is plumb's choice: the criterion makes the spread
+// proportional to level^(1-λ), so [-1, 2] runs from a spread growing with
+// the square of the level (λ = -1, the reciprocal) through the logarithm
+// (0) and no transform (1) to a spread that falls as the level rises
+// (λ = 2, the square). Each power in it has a plain reading; one outside
+// would stand for a steeper relation between spread and level than these,
+// and plumb does not search there.
+//
+// The method: split x into consecutive subseries of length m (the
+// seasonal period, or 2 when there is none), dropping the oldest incomplete
+// one; with mean μ_i and standard deviation s_i of each, choose λ to
+// minimise the coefficient of variation of s_i / μ_i^(1-λ), so that the
+// spread no longer depends on the level. It needs positive data and at
+// least two subseries.
 func GuerreroLambda(x []float64, period int) (float64, Status) {
 	if s := checkFinite(x); s != StatusOK {
 		return math.NaN(), s

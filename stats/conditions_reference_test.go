@@ -137,14 +137,19 @@ func TestGuerreroAgainstForecast(t *testing.T) {
 		},
 		"lynx": func() []float64 { return series["lynx"] },
 	}
+	checked := 0
 	for key, want := range ref {
+		if key[0] != "guerrero_lambda" {
+			continue // the OCSB rows are checked through SQL (udf's TestConditionsSQL)
+		}
+		checked++
 		period, _ := strconv.Atoi(key[2])
 		got, status := GuerreroLambda(source[key[1]](), period)
 		if status != StatusOK || math.Abs(got-want) > 1e-3 {
 			t.Errorf("%v: λ %v (%s), want %v", key, got, status, want)
 		}
 	}
-	if len(ref) != 4 {
-		t.Errorf("%d reference rows, want 4", len(ref))
+	if checked != 4 {
+		t.Errorf("%d reference rows, want 4", checked)
 	}
 }

@@ -9,7 +9,7 @@ import (
 // DFGLSOptions configure the DF-GLS test. The zero value fits a constant and
 // chooses the lag by AIC up to Schwert's maximum, as ADFOptions does.
 type DFGLSOptions struct {
-	// Deterministic is constant (the default) or trend; none is an error.
+	// Deterministic is level (the default) or level_and_slope; none is an error.
 	Deterministic Deterministic
 	LagRule       LagRule
 	MaxLag        *int
@@ -51,7 +51,7 @@ func DFGLS(x []float64, opts DFGLSOptions) (UnitRootResult, error) {
 		return UnitRootResult{}, err
 	}
 	if d == DeterministicNone {
-		return UnitRootResult{}, errorf("dfgls: deterministic terms must be constant or trend, got none")
+		return UnitRootResult{}, errorf("dfgls: deterministic terms must be level or level_and_slope, got none")
 	}
 	fail := func(s Status) (UnitRootResult, error) { return failed("dfgls", d, NullUnitRoot, s), nil }
 	if s := checkFinite(x); s != StatusOK {
@@ -78,7 +78,7 @@ func DFGLS(x []float64, opts DFGLSOptions) (UnitRootResult, error) {
 	if r.Status != StatusOK {
 		return r, nil
 	}
-	if d == DeterministicTrend {
+	if d == DeterministicLevelAndSlope {
 		// The row as urca picks it: below 50, below 100, up to 200, beyond.
 		row := 3
 		switch {
@@ -148,7 +148,7 @@ func dfglsTrendPValue(stat float64, T int) (float64, PValueBound) {
 func glsDetrend(y []float64, d Deterministic) []float64 {
 	T := len(y)
 	cbar := -7.0
-	if d == DeterministicTrend {
+	if d == DeterministicLevelAndSlope {
 		cbar = -13.5
 	}
 	a := 1 + cbar/float64(T)

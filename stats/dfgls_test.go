@@ -19,7 +19,7 @@ func TestDFGLSAgainstUrca(t *testing.T) {
 		}
 		k := int(num(t, row["lags"]))
 		d := Deterministic(row["deterministic"])
-		got, err := DFGLS(series[row["series"]], DFGLSOptions{Deterministic: d, LagRule: LagFixed, MaxLag: &k})
+		got, err := DFGLS(series[row["series"]], DFGLSOptions{Deterministic: d, LagRule: LagGiven, MaxLag: &k})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -29,8 +29,8 @@ func TestDFGLSAgainstUrca(t *testing.T) {
 		if got.Status != StatusOK || rel > 1e-6 {
 			t.Errorf("%s %s k=%d: %.10g (%s), want %.10g", row["series"], d, k, got.Statistic, got.Status, want)
 		}
-		if d == DeterministicTrend {
-			for i, col := range []string{"crit_1pct", "crit_5pct", "crit_10pct"} {
+		if d == DeterministicLevelAndSlope {
+			for i, col := range []string{"cutoff_01", "cutoff_05", "cutoff_10"} {
 				if c := num(t, row[col]); math.Abs(got.CriticalValues[i]-c) > 1e-9 {
 					t.Errorf("%s n=%d %s: %v, want %v", row["series"], len(series[row["series"]]), col, got.CriticalValues[i], c)
 				}
@@ -99,7 +99,7 @@ func TestDFGLSTrendUniform(t *testing.T) {
 				x[i] = w
 			}
 		}, func(x []float64) []float64 {
-			r, _ := DFGLS(x, DFGLSOptions{Deterministic: DeterministicTrend, LagRule: LagFixed, MaxLag: &zero})
+			r, _ := DFGLS(x, DFGLSOptions{Deterministic: DeterministicLevelAndSlope, LagRule: LagGiven, MaxLag: &zero})
 			return []float64{r.PValue}
 		})
 		for j, level := range uniformityLevels {

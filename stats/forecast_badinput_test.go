@@ -37,7 +37,7 @@ func TestForecastRejectsBadOptions(t *testing.T) {
 			t.Errorf("ForecastSeries, %s: no error", test.name)
 		}
 	}
-	for _, opts := range []AROptions{{MaxOrder: -1}, {Rule: LagTStat}, {Rule: LagFixed}, {Rule: "aicc"}} {
+	for _, opts := range []AROptions{{MaxOrder: -1}, {Rule: LagDropInsignificant}, {Rule: LagGiven}, {Rule: "aicc"}} {
 		if _, err := FitAR(z, opts); err == nil {
 			t.Errorf("FitAR(%+v): no error", opts)
 		}
@@ -103,7 +103,7 @@ func TestForecastBadSeries(t *testing.T) {
 				break
 			}
 		}
-		units, err := ToOriginalUnits(r.Forecast, BackTransform{BoxCox: true, Lambda: 0.5, BiasAdjust: true})
+		units, err := ToOriginalUnits(r.Forecast, BackTransform{BoxCox: true, Lambda: 0.5, MeanPoint: true})
 		if err != nil || units.Status != test.want || !math.IsNaN(units.Mean[0]) || units.OutOfRange != 0 {
 			t.Errorf("%s: in original units %+v, %v", test.name, units, err)
 		}

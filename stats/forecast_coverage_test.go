@@ -122,7 +122,7 @@ func runCoverage(t *testing.T, c coverageCase, seed uint64, series, fitLength, h
 			run.last++
 		}
 		if c.logs {
-			mean, _ := ToOriginalUnits(r.Forecast, BackTransform{BoxCox: true, BiasAdjust: true})
+			mean, _ := ToOriginalUnits(r.Forecast, BackTransform{BoxCox: true, MeanPoint: true})
 			run.ratioMean = append(run.ratioMean, held[h]/mean.Mean[h])
 			run.ratioMedian = append(run.ratioMedian, held[h]/median.Mean[h])
 		}

@@ -9,10 +9,10 @@ type RecipeForecastOptions struct {
 	// AR chooses the autoregression's order (zero value: AIC up to
 	// DefaultMaxAROrder).
 	AR AROptions
-	// BiasAdjust makes the point forecast the mean in original units
+	// MeanPoint makes the point forecast the mean in original units
 	// instead of the median when the recipe has a Box-Cox transform (see
 	// ToOriginalUnits).
-	BiasAdjust bool
+	MeanPoint bool
 	// Search bounds the choice of ARMA model (zero value: ChooseARMA's
 	// defaults; its Period, Differences and AR are set from the recipe and
 	// from AR).
@@ -124,7 +124,7 @@ func ForecastByRecipe(x []float64, rec Recipe, opts RecipeForecastOptions) (Reci
 			path[i] = rec.Deterministic(len(x) + i)
 		}
 	}
-	f, err := ToOriginalUnits(zf, BackTransform{Path: path, BoxCox: rec.BoxCox, Lambda: rec.Lambda, BiasAdjust: opts.BiasAdjust})
+	f, err := ToOriginalUnits(zf, BackTransform{Path: path, BoxCox: rec.BoxCox, Lambda: rec.Lambda, MeanPoint: opts.MeanPoint})
 	if err != nil {
 		return RecipeForecast{}, err
 	}
@@ -142,7 +142,7 @@ func ForecastByRecipe(x []float64, rec Recipe, opts RecipeForecastOptions) (Reci
 func leastSquaresAsARMA(m ARModel) ARMAModel {
 	out := ARMAModel{Order: ARMAOrder{AR: m.Order, WithMean: true}, AR: cloneFloats(m.Coefficients),
 		Constant: m.Constant, Mean: m.Constant / polynomialAtOne(m.Coefficients), Variance: m.Variance,
-		LogLikelihood: nan(), AIC: m.AIC, AICc: nan(), NObs: m.NObs, Residuals: m.Residuals,
+		LogLikelihood: nan(), AIC: m.AIC, AICc: nan(), Observations: m.Observations, Residuals: m.Residuals,
 		LeastSquares: true, Status: m.Status}
 	return out
 }

@@ -101,7 +101,7 @@ func relErr(got, want float64) float64 {
 // TestARAgainstAutoReg: AutoReg(w, lags=p, trend="c") for p = 0..4 on
 // eleven recipes of eight open datasets and a noisy sine wave whose design
 // is nearly singular (python3-statsmodels 0.13.5, forecast_statsmodels.py): constant and coefficients within 1e-8
-// (relative above 1), sigma2 within 1e-8 relative, the same nobs, AIC and
+// (relative above 1), sigma2 within 1e-8 relative, the same number of observations, AIC and
 // BIC within 1e-8 relative; and the residuals of the order chosen at
 // maxlag 12 within 1e-8 of σ.
 func TestARAgainstAutoReg(t *testing.T) {
@@ -136,8 +136,8 @@ func TestARAgainstAutoReg(t *testing.T) {
 			if e > 1e-8 {
 				t.Errorf("%s p=%d: σ² = %.12g, AutoReg sigma2 %.12g", c.name, p, m.Variance, want)
 			}
-			if float64(m.NObs) != c.values["ar_nobs"][k] {
-				t.Errorf("%s p=%d: nobs %d, AutoReg %v", c.name, p, m.NObs, c.values["ar_nobs"][k])
+			if float64(m.Observations) != c.values["ar_observations"][k] {
+				t.Errorf("%s p=%d: observations %d, AutoReg %v", c.name, p, m.Observations, c.values["ar_observations"][k])
 			}
 			for _, ic := range []struct {
 				got  float64

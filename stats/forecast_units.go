@@ -15,8 +15,8 @@ type BackTransform struct {
 	// BoxCox says whether to invert the Box-Cox transform with Lambda.
 	BoxCox bool
 	Lambda float64
-	// BiasAdjust reports the mean in original units instead of the median.
-	BiasAdjust bool
+	// MeanPoint reports the mean in original units instead of the median.
+	MeanPoint bool
 }
 
 // ToOriginalUnits maps forecasts on z's scale (from ForecastAR) to original
@@ -26,7 +26,7 @@ type BackTransform struct {
 // Box-Cox transform g⁻¹(y) = (λy + 1)^(1/λ) (exp y for λ = 0) is
 // increasing, so g⁻¹ of a quantile is the same quantile in original units:
 // the bounds map exactly. So does the median, g⁻¹(μ); it is the point
-// forecast unless BiasAdjust is set. Then the point forecast is the mean
+// forecast unless MeanPoint is set. Then the point forecast is the mean
 // E[g⁻¹(Y)] for Y ~ N(μ, σ²), σ = StdErr:
 //
 //	λ = 0:  exp(μ + σ²/2), exact (the lognormal mean; common practice);
@@ -76,7 +76,7 @@ func ToOriginalUnits(f Forecast, b BackTransform) (Forecast, error) {
 		out.OutOfRange += b2i(clipped)
 		out.Mean[i], clipped = inverseBoxCoxExtended(mu, b.Lambda)
 		out.OutOfRange += b2i(clipped)
-		if b.BiasAdjust && !clipped {
+		if b.MeanPoint && !clipped {
 			out.Mean[i] = boxCoxMean(mu, f.StdErr[i], b.Lambda)
 		}
 	}

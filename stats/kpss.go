@@ -3,8 +3,8 @@ package stats
 // KPSSOptions configure the KPSS test. The zero value tests level
 // stationarity with the automatic bandwidth.
 type KPSSOptions struct {
-	// Deterministic is constant (level stationarity, the default) or trend
-	// (trend stationarity); none is an error.
+	// Deterministic is level (level stationarity, the default) or
+	// level_and_slope (trend stationarity); none is an error.
 	Deterministic Deterministic
 	// Bandwidth is the Bartlett bandwidth of the long-run variance; nil
 	// means HobijnBandwidth of the residuals.
@@ -33,7 +33,7 @@ func KPSS(x []float64, opts KPSSOptions) (UnitRootResult, error) {
 		return UnitRootResult{}, err
 	}
 	if d == DeterministicNone {
-		return UnitRootResult{}, errorf("kpss: deterministic terms must be constant or trend, got none")
+		return UnitRootResult{}, errorf("kpss: deterministic terms must be level or level_and_slope, got none")
 	}
 	if opts.Bandwidth != nil && *opts.Bandwidth < 0 {
 		return UnitRootResult{}, errorf("kpss: the bandwidth must not be negative, got %d", *opts.Bandwidth)
@@ -77,7 +77,7 @@ func KPSS(x []float64, opts KPSSOptions) (UnitRootResult, error) {
 		Method: "kpss", Deterministic: d, NullHypothesis: NullStationary, Status: StatusOK,
 		Statistic: stat, PValue: p, PValueBound: bound,
 		CriticalValues: limit.critical,
-		Lags:           l, NObs: T,
+		Lags:           l, Observations: T,
 	}, nil
 }
 
@@ -96,7 +96,7 @@ func detrendInto(e, x []float64, d Deterministic) []float64 {
 		mean += v
 	}
 	mean /= T
-	if d != DeterministicTrend {
+	if d != DeterministicLevelAndSlope {
 		for i, v := range x {
 			e[i] = v - mean
 		}

@@ -69,7 +69,7 @@ var (
 	kpssLimitsOnce sync.Once
 )
 
-// kpssLimitFor returns the distribution for d (constant or trend), building
+// kpssLimitFor returns the distribution for d (level or level_and_slope), building
 // the tables once (6 to 17 ms on this project's machine).
 func kpssLimitFor(d Deterministic) *kpssLimit {
 	kpssLimitsOnce.Do(func() {
@@ -77,7 +77,7 @@ func kpssLimitFor(d Deterministic) *kpssLimit {
 		trend := &kpssLimit{eigen: trendEigenvalues(kpssEigenCount), det: trendDeterminant, x0: 0.0015, step: 0.02}
 		level.tabulate(12) // P(η > 12) ≈ 1e-27
 		trend.tabulate(3)  // P(η > 3) ≈ 1e-27
-		kpssLimits = map[Deterministic]*kpssLimit{DeterministicConstant: level, DeterministicTrend: trend}
+		kpssLimits = map[Deterministic]*kpssLimit{DeterministicLevel: level, DeterministicLevelAndSlope: trend}
 	})
 	return kpssLimits[d]
 }

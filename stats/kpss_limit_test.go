@@ -10,8 +10,8 @@ import (
 // kpssTable1 is Kwiatkowski, Phillips, Schmidt & Shin (1992), Table 1: the
 // upper-tail critical values of η at 10, 5, 2.5 and 1%.
 var kpssTable1 = map[Deterministic][4]float64{
-	DeterministicConstant: {0.347, 0.463, 0.574, 0.739},
-	DeterministicTrend:    {0.119, 0.146, 0.176, 0.216},
+	DeterministicLevel:         {0.347, 0.463, 0.574, 0.739},
+	DeterministicLevelAndSlope: {0.119, 0.146, 0.176, 0.216},
 }
 
 var kpssTable1Levels = [4]float64{0.10, 0.05, 0.025, 0.01}
@@ -33,9 +33,9 @@ var kpssTable1Levels = [4]float64{0.10, 0.05, 0.025, 0.01}
 // p-value at each Table 1 entry is within 12% of the table's nominal level.
 func TestKPSSTable1(t *testing.T) {
 	andersonDarling := [4]float64{0.34730, 0.46136, 0.58062, 0.74346}
-	tolerance := map[Deterministic]float64{DeterministicConstant: 0.007, DeterministicTrend: 0.002}
+	tolerance := map[Deterministic]float64{DeterministicLevel: 0.007, DeterministicLevelAndSlope: 0.002}
 	t.Log("level  | KPSS (1992) Table 1 | plumb's quantile | P(η > Table 1 entry)")
-	for _, d := range []Deterministic{DeterministicConstant, DeterministicTrend} {
+	for _, d := range []Deterministic{DeterministicLevel, DeterministicLevelAndSlope} {
 		limit := kpssLimitFor(d)
 		for i, level := range kpssTable1Levels {
 			q := limit.quantile(level)
@@ -48,7 +48,7 @@ func TestKPSSTable1(t *testing.T) {
 			if math.Abs(p/level-1) > 0.12 {
 				t.Errorf("%s: P(η > %.3f) = %.5f, Table 1 says %v", d, entry, p, level)
 			}
-			if d == DeterministicConstant && math.Abs(q-andersonDarling[i]) > 1e-5 {
+			if d == DeterministicLevel && math.Abs(q-andersonDarling[i]) > 1e-5 {
 				t.Errorf("level %v: quantile %.6f, Anderson & Darling (1952) %.5f", level, q, andersonDarling[i])
 			}
 		}
@@ -59,7 +59,7 @@ func TestKPSSTable1(t *testing.T) {
 		t.Fatal(err)
 	}
 	for i, level := range []float64{0.01, 0.05, 0.10} {
-		if got := KPSSPValue(r.CriticalValues[i], DeterministicConstant); math.Abs(got-level) > 1e-9 {
+		if got := KPSSPValue(r.CriticalValues[i], DeterministicLevel); math.Abs(got-level) > 1e-9 {
 			t.Errorf("critical value at %v has p %v", level, got)
 		}
 	}
@@ -68,22 +68,31 @@ func TestKPSSTable1(t *testing.T) {
 // TestKPSSLimitMoments integrates the computed survival function: the mean
 // ∫ P(η > x) dx and the second moment ∫ 2x·P(η > x) dx must equal the
 // eigenvalue sums Σ 1/λ_k and Σ 1/λ_k² (E η = Σ 1/λ, Var η = 2 Σ 1/λ²).
-// Those are 1/6 and 1/45 for the level (E ∫ B² = ∫ r(1-r) dr = 1/6, and
-// Σ 1/(kπ)⁴ = 1/90: common practice) and, for the trend, 1/15 and 11/6300,
-// which the eigenvalues from trendEigenvalues reproduce (checked here too:
-// this tests the roots of tan y = y as well as the integration).
+//
+// Where the wanted moments come from (derived here, and recomputed by
+// TestKPSSLimitKernelMoments): η's limit is ∫₀¹ V(r)² dr for a Gaussian
+// process V with covariance K(r, s), so E η = ∫ K(r, r) dr and
+// Var η = 2 ∫∫ K(r, s)² dr ds. For the level, V is the Brownian bridge,
+// K = min(r, s) - rs: E η = ∫ r(1-r) dr = 1/6 and Var η = 2 Σ 1/(kπ)⁴ =
+// 2/90 = 1/45. For the trend, V is the second-level Brownian bridge (the
+// bridge with the regression on a line projected out, as KPSS (1992) give
+// it: from memory),
+// K = min(r, s) - rs - 3rs(1-r)(1-s): E η = 1/6 - 3∫ r²(1-r)² dr = 1/6 -
+// 3/30 = 1/15, and the double integral of the squared polynomial kernel
+// gives Var η = 11/6300. The eigenvalues from trendEigenvalues reproduce
+// both, so this also tests the roots of tan y = y.
 func TestKPSSLimitMoments(t *testing.T) {
 	for _, c := range []struct {
 		d              Deterministic
 		mean, variance float64
 	}{
-		{DeterministicConstant, 1.0 / 6, 1.0 / 45},
-		{DeterministicTrend, 1.0 / 15, 11.0 / 6300},
+		{DeterministicLevel, 1.0 / 6, 1.0 / 45},
+		{DeterministicLevelAndSlope, 1.0 / 15, 11.0 / 6300},
 	} {
 		// Eigenvalue sums with the tail Σ_{k>K} 1/λ_k ≈ its integral (the
 		// eigenvalues grow like k²π² (level) or k²π² on average (trend)).
 		var eig []float64
-		if c.d == DeterministicConstant {
+		if c.d == DeterministicLevel {
 			eig = levelEigenvalues(100000)
 		} else {
 			eig = trendEigenvalues(100000)
@@ -94,7 +103,7 @@ func TestKPSSLimitMoments(t *testing.T) {
 			s2 += 1 / (eig[i] * eig[i])
 		}
 		K := float64(len(eig))
-		if c.d == DeterministicTrend {
+		if c.d == DeterministicLevelAndSlope {
 			K /= 2 // two eigenvalues per k
 			s1 += 2 / (4 * math.Pi * math.Pi * K)
 		} else {
@@ -111,6 +120,30 @@ func TestKPSSLimitMoments(t *testing.T) {
 		t.Logf("%s: mean %.10f (want %.10f), variance %.10f (want %.10f)", c.d, m1, c.mean, m2-m1*m1, c.variance)
 		if math.Abs(m1-c.mean) > 1e-7 || math.Abs(m2-m1*m1-c.variance) > 1e-7 {
 			t.Errorf("%s: moments of the computed distribution %.10f, %.10f", c.d, m1, m2-m1*m1)
+		}
+	}
+}
+
+// TestKPSSLimitKernelMoments computes the moments TestKPSSLimitMoments
+// wants from the covariance kernels themselves, by Gauss-Legendre
+// quadrature (exact here: on each side of the diagonal the integrands are
+// polynomials of degree at most 8 in each variable): E η = ∫ K(r, r) dr,
+// Var η = 2 ∫∫ K(r, s)² dr ds = 4 ∫₀¹ ∫₀^s K(r, s)² dr ds.
+func TestKPSSLimitKernelMoments(t *testing.T) {
+	for _, c := range []struct {
+		d              Deterministic
+		kernel         func(r, s float64) float64 // for r ≤ s
+		mean, variance float64
+	}{
+		{DeterministicLevel, func(r, s float64) float64 { return r - r*s }, 1.0 / 6, 1.0 / 45},
+		{DeterministicLevelAndSlope, func(r, s float64) float64 { return r - r*s - 3*r*s*(1-r)*(1-s) }, 1.0 / 15, 11.0 / 6300},
+	} {
+		mean := quad.Fixed(func(r float64) float64 { return c.kernel(r, r) }, 0, 1, 10, nil, 0)
+		variance := 4 * quad.Fixed(func(s float64) float64 {
+			return quad.Fixed(func(r float64) float64 { k := c.kernel(r, s); return k * k }, 0, s, 10, nil, 0)
+		}, 0, 1, 10, nil, 0)
+		if math.Abs(mean-c.mean) > 1e-14 || math.Abs(variance-c.variance) > 1e-14 {
+			t.Errorf("%s: kernel moments %.16g, %.16g; want %.16g, %.16g", c.d, mean, variance, c.mean, c.variance)
 		}
 	}
 }
@@ -168,11 +201,11 @@ func TestKPSSLimitImhof(t *testing.T) {
 		mean float64
 		xs   []float64
 	}{
-		{DeterministicConstant, 1.0 / 6, []float64{0.05, 0.2, 0.4614, 1.0, 2.0, 3.2}},
-		{DeterministicTrend, 1.0 / 15, []float64{0.03, 0.08, 0.1479, 0.3, 0.5, 0.8}},
+		{DeterministicLevel, 1.0 / 6, []float64{0.05, 0.2, 0.4614, 1.0, 2.0, 3.2}},
+		{DeterministicLevelAndSlope, 1.0 / 15, []float64{0.03, 0.08, 0.1479, 0.3, 0.5, 0.8}},
 	} {
 		eigen := levelEigenvalues(400)
-		if c.d == DeterministicTrend {
+		if c.d == DeterministicLevelAndSlope {
 			eigen = trendEigenvalues(400)
 		}
 		for _, x := range c.xs {
@@ -194,7 +227,7 @@ func TestKPSSLimitImhof(t *testing.T) {
 // alone: the others are below 1e-40 relative there), to P = 1e-300. Beyond
 // that the p-value is the bound.
 func TestKPSSLimitTail(t *testing.T) {
-	for _, d := range []Deterministic{DeterministicConstant, DeterministicTrend} {
+	for _, d := range []Deterministic{DeterministicLevel, DeterministicLevelAndSlope} {
 		limit := kpssLimitFor(d)
 		a, b := limit.eigen[0], limit.eigen[1]
 		hi := limit.x0 * math.Exp(float64(len(limit.logS)-1)*limit.step)
@@ -256,7 +289,7 @@ func TestKPSSLimitAgainstScipy(t *testing.T) {
 	worst := 0.0
 	for _, row := range rows {
 		x, want := num(t, row["statistic"]), num(t, row["p_value"])
-		got := KPSSPValue(x, DeterministicConstant)
+		got := KPSSPValue(x, DeterministicLevel)
 		worst = math.Max(worst, math.Abs(got-want))
 		if math.Abs(got-want) > 2e-7 {
 			t.Errorf("P(η > %v) = %.10g, scipy %.10g", x, got, want)
@@ -271,10 +304,10 @@ func TestKPSSLimitAgainstScipy(t *testing.T) {
 // BenchmarkKPSSPValue: one p-value from the table (after the first call
 // has built it).
 func BenchmarkKPSSPValue(b *testing.B) {
-	KPSSPValue(0.5, DeterministicConstant)
+	KPSSPValue(0.5, DeterministicLevel)
 	x := 0.1
 	for b.Loop() {
-		KPSSPValue(x, DeterministicConstant)
+		KPSSPValue(x, DeterministicLevel)
 		x += 1e-6
 	}
 }

@@ -4,12 +4,12 @@ import "gonum.org/v1/gonum/stat/distuv"
 
 // WhiteNoiseResult is the outcome of the Ljung-Box test.
 type WhiteNoiseResult struct {
-	Statistic float64 // Q
-	PValue    float64
-	Lags      int // h, the number of autocorrelations summed
-	DF        int // degrees of freedom, h minus fitted parameters
-	NObs      int
-	Status    Status
+	Statistic    float64 // Q
+	PValue       float64
+	Lags         int // h, the number of autocorrelations summed
+	DF           int // degrees of freedom, h minus fitted parameters
+	Observations int
+	Status       Status
 }
 
 // LjungBox performs the Ljung & Box (1978) portmanteau test of the null
@@ -21,15 +21,19 @@ type WhiteNoiseResult struct {
 // being the number of ARMA parameters estimated when x holds residuals (0
 // for raw data). h = 0 means min(10, n/5), common practice.
 //
-// White noise is stationary, but a stationary series need not be white
-// noise: an AR(1) with φ = 0.5 is stationary and fails this test. Use it on
-// a transformed series or on residuals to see whether structure is left.
+// It asks whether any autocorrelation is left, a stricter question than
+// the verdict's: an AR(1) with φ = 0.5 has a steady level and spread and
+// still fails it. Run it on a model's residuals, or on a transformed
+// series, to see whether structure remains for a model to capture.
 func LjungBox(x []float64, h, fitted int) (WhiteNoiseResult, error) {
 	if h < 0 || fitted < 0 {
 		return WhiteNoiseResult{}, errorf("ljung-box: lags and fitted parameters must not be negative, got %d and %d", h, fitted)
 	}
+	if h > 0 && fitted >= h {
+		return WhiteNoiseResult{}, errorf("ljung-box: fitted parameters (%d) must be fewer than the lags (%d)", fitted, h)
+	}
 	n := len(x)
-	r := WhiteNoiseResult{NObs: n}
+	r := WhiteNoiseResult{Observations: n}
 	if h == 0 {
 		h = min(10, n/5)
 	}
@@ -46,6 +50,11 @@ func LjungBox(x []float64, h, fitted int) (WhiteNoiseResult, error) {
 	}
 	if isConstant(x) {
 		return fail(StatusConstant)
+	}
+	if tooLarge(x) {
+		// The autocorrelations are scale-free; scaled to a largest
+		// magnitude of 1 their sums of squares cannot overflow.
+		x = scaledInto(make([]float64, n), x)
 	}
 	rho := Autocorrelation(x, h)
 	q := 0.0

@@ -21,8 +21,9 @@ import (
 //
 // The coefficients are the papers' values as python3-statsmodels 0.13.5
 // tabulates them (statsmodels.tsa.adfvalues, scaling already applied); the
-// asymptotic critical values agree with DESIGN.md's from-memory list, and
-// the tests check p-values and critical values against statsmodels on a grid.
+// asymptotic critical values are the rows with observations "inf" in
+// testdata/reference/mackinnon_crit_statsmodels.csv, and the tests check
+// p-values and critical values against statsmodels on a grid.
 type mackinnonTau struct {
 	smallP         [3]float64
 	largeP         [4]float64
@@ -41,7 +42,7 @@ var mackinnon = map[Deterministic]mackinnonTau{
 			{-1.61682, 0.2656, -2.714, 25.364},
 		},
 	},
-	DeterministicConstant: {
+	DeterministicLevel: {
 		smallP: [3]float64{2.1659, 1.4412, 0.038269},
 		largeP: [4]float64{1.7339, 0.93202, -0.12745, -0.010368},
 		star:   -1.61, min: -18.83, max: 2.74,
@@ -51,7 +52,7 @@ var mackinnon = map[Deterministic]mackinnonTau{
 			{-2.56677, -1.5384, -2.809, 0},
 		},
 	},
-	DeterministicTrend: {
+	DeterministicLevelAndSlope: {
 		smallP: [3]float64{3.2512, 1.6047, 0.049588},
 		largeP: [4]float64{2.5261, 0.61654, -0.37956, -0.060285},
 		star:   -2.89, min: -16.18, max: 0.7,
@@ -110,9 +111,9 @@ func mackinnonPValue(tau float64, d Deterministic) (float64, PValueBound) {
 }
 
 // MacKinnonCritical returns the MacKinnon (2010) 1, 5 and 10% critical
-// values of the Dickey-Fuller τ statistic for a regression on nobs
-// observations; nobs ≤ 0 gives the asymptotic values.
-func MacKinnonCritical(d Deterministic, nobs int) [3]float64 {
+// values of the Dickey-Fuller τ statistic for a regression on the given
+// number of observations; observations ≤ 0 gives the asymptotic values.
+func MacKinnonCritical(d Deterministic, observations int) [3]float64 {
 	var out [3]float64
 	d, err := d.normalize()
 	if err != nil {
@@ -120,8 +121,8 @@ func MacKinnonCritical(d Deterministic, nobs int) [3]float64 {
 	}
 	m := mackinnon[d]
 	inv := 0.0
-	if nobs > 0 {
-		inv = 1 / float64(nobs)
+	if observations > 0 {
+		inv = 1 / float64(observations)
 	}
 	for i, b := range m.critical {
 		out[i] = b[0] + inv*(b[1]+inv*(b[2]+inv*b[3]))

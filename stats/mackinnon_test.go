@@ -10,10 +10,12 @@ func TestMacKinnonAsymptoticCritical(t *testing.T) {
 		d    Deterministic
 		want [3]float64
 	}{
-		// MacKinnon (2010) Table 2, asymptotic; DESIGN.md lists them from memory,
-		// confirmed against python3-statsmodels 0.13.5.
-		{DeterministicConstant, [3]float64{-3.43035, -2.86154, -2.56677}},
-		{DeterministicTrend, [3]float64{-3.95877, -3.41049, -3.12705}},
+		// MacKinnon (2010) Table 2, asymptotic: from memory, and the same
+		// numbers as the rows with observations "inf" in
+		// testdata/reference/mackinnon_crit_statsmodels.csv (python3-statsmodels
+		// 0.13.5, mackinnoncrit).
+		{DeterministicLevel, [3]float64{-3.43035, -2.86154, -2.56677}},
+		{DeterministicLevelAndSlope, [3]float64{-3.95877, -3.41049, -3.12705}},
 		{DeterministicNone, [3]float64{-2.56574, -1.94100, -1.61682}},
 	} {
 		got := MacKinnonCritical(test.d, 0)
@@ -32,14 +34,14 @@ func TestMacKinnonAsymptoticCritical(t *testing.T) {
 func TestMacKinnonAgainstStatsmodels(t *testing.T) {
 	for _, row := range readCSV(t, "mackinnon_crit_statsmodels.csv") {
 		d := Deterministic(row["deterministic"])
-		nobs := 0
-		if row["nobs"] != "inf" {
-			nobs = int(num(t, row["nobs"]))
+		observations := 0
+		if row["observations"] != "inf" {
+			observations = int(num(t, row["observations"]))
 		}
-		got := MacKinnonCritical(d, nobs)
-		for i, col := range []string{"crit_1pct", "crit_5pct", "crit_10pct"} {
+		got := MacKinnonCritical(d, observations)
+		for i, col := range []string{"cutoff_01", "cutoff_05", "cutoff_10"} {
 			if want := num(t, row[col]); math.Abs(got[i]-want) > 1e-9 {
-				t.Errorf("%s T=%s %s: %v, want %v", d, row["nobs"], col, got[i], want)
+				t.Errorf("%s T=%s %s: %v, want %v", d, row["observations"], col, got[i], want)
 			}
 		}
 	}
@@ -58,7 +60,7 @@ func TestMacKinnonAgainstStatsmodels(t *testing.T) {
 // TestMacKinnonPValueBounds: beyond the fits' ends the p-value is the fit's
 // value at the end, marked; inside, MacKinnonP unchanged.
 func TestMacKinnonPValueBounds(t *testing.T) {
-	for _, d := range []Deterministic{DeterministicNone, DeterministicConstant, DeterministicTrend} {
+	for _, d := range []Deterministic{DeterministicNone, DeterministicLevel, DeterministicLevelAndSlope} {
 		m := mackinnon[d]
 		p, bound := mackinnonPValue(m.min-5, d)
 		if bound != PValueAtMost || p != MacKinnonP(m.min, d) || !(p > 0) {

@@ -18,7 +18,7 @@ type OCSBResult struct {
 	// unit root at 5% (Statistic ≥ Critical5).
 	SeasonalUnitRoot bool
 	Lags             int
-	NObs             int
+	Observations     int
 	Status           Status
 }
 
@@ -61,7 +61,7 @@ func OCSB(x []float64, s int) (OCSBResult, error) {
 		r.Status = StatusSingular
 		return r, nil
 	}
-	r.Statistic, r.Lags, r.NObs = stat, lags, n
+	r.Statistic, r.Lags, r.Observations = stat, lags, n
 	r.Critical = ocsbCritical(s, n)
 	r.Critical5 = r.Critical[1]
 	r.SeasonalUnitRoot = !(stat < r.Critical5)

@@ -8,21 +8,23 @@ type Deterministic string
 const (
 	// DeterministicNone fits no intercept: the series is assumed to have mean zero.
 	DeterministicNone Deterministic = "none"
-	// DeterministicConstant fits an intercept (the default).
-	DeterministicConstant Deterministic = "constant"
-	// DeterministicTrend fits an intercept and a linear time trend.
-	DeterministicTrend Deterministic = "trend"
+	// DeterministicLevel fits an intercept, a level the series reverts to
+	// (the default).
+	DeterministicLevel Deterministic = "level"
+	// DeterministicLevelAndSlope fits an intercept and a linear time trend:
+	// a straight line, with its level and its slope, the series reverts to.
+	DeterministicLevelAndSlope Deterministic = "level_and_slope"
 )
 
 // normalize returns the default for the zero value and checks the rest.
 func (d Deterministic) normalize() (Deterministic, error) {
 	switch d {
 	case "":
-		return DeterministicConstant, nil
-	case DeterministicNone, DeterministicConstant, DeterministicTrend:
+		return DeterministicLevel, nil
+	case DeterministicNone, DeterministicLevel, DeterministicLevelAndSlope:
 		return d, nil
 	}
-	return "", fmt.Errorf("stats: unknown deterministic terms %q: use none, constant or trend", string(d))
+	return "", fmt.Errorf("stats: unknown deterministic terms %q: use none, level or level_and_slope", string(d))
 }
 
 // terms is the number of deterministic columns.
@@ -30,7 +32,7 @@ func (d Deterministic) terms() int {
 	switch d {
 	case DeterministicNone:
 		return 0
-	case DeterministicTrend:
+	case DeterministicLevelAndSlope:
 		return 2
 	}
 	return 1
@@ -65,22 +67,22 @@ const (
 	LagAIC LagRule = "aic"
 	// LagBIC minimises Schwarz's Bayesian information criterion.
 	LagBIC LagRule = "bic"
-	// LagTStat is the general-to-specific rule of Ng & Perron (1995): start
-	// at the maximum lag and drop the last lag while its |t| is below
-	// 1.6448536 (the 10% two-sided normal critical value).
-	LagTStat LagRule = "t_stat"
-	// LagFixed uses exactly the maximum lag.
-	LagFixed LagRule = "fixed"
+	// LagDropInsignificant is the general-to-specific rule of Ng & Perron
+	// (1995): start at the maximum lag and drop the last lag while its |t|
+	// is below 1.6448536 (the 10% two-sided normal critical value).
+	LagDropInsignificant LagRule = "drop_insignificant"
+	// LagGiven uses exactly the lag given as the maximum.
+	LagGiven LagRule = "given"
 )
 
 func (r LagRule) normalize() (LagRule, error) {
 	switch r {
 	case "":
 		return LagAIC, nil
-	case LagAIC, LagBIC, LagTStat, LagFixed:
+	case LagAIC, LagBIC, LagDropInsignificant, LagGiven:
 		return r, nil
 	}
-	return "", fmt.Errorf("stats: unknown lag rule %q: use aic, bic, t_stat or fixed", string(r))
+	return "", fmt.Errorf("stats: unknown lag rule %q: use aic, bic, drop_insignificant or given", string(r))
 }
 
 // SchwertMaxLag is Schwert's (1989) rule for the largest lag worth trying in
@@ -136,8 +138,8 @@ type UnitRootResult struct {
 	// Lags is the number of lagged differences (ADF, DF-GLS) or the
 	// long-run variance bandwidth (KPSS, PP).
 	Lags int
-	// NObs is the number of observations in the final regression.
-	NObs           int
+	// Observations is the number of observations in the final regression.
+	Observations   int
 	NullHypothesis Hypothesis
 	Status         Status
 }

@@ -95,7 +95,7 @@ func PhillipsPerron(x []float64, opts PPOptions) (PPResult, error) {
 	// is the exact OLS value times n/√(n²-1); plumb uses the paper's form, as
 	// r-cran-tseries does (agreement 1e-11, TestPPAgainstTseries).
 	f := 1.0
-	if d == DeterministicTrend {
+	if d == DeterministicLevelAndSlope {
 		f = nf / math.Sqrt(nf*nf-1)
 	}
 	zTau := math.Sqrt(gamma0/lambda2)*tRho - f*(lambda2-gamma0)*nf*se/(2*lambda*s)
@@ -105,7 +105,7 @@ func PhillipsPerron(x []float64, opts PPOptions) (PPResult, error) {
 		UnitRootResult: UnitRootResult{
 			Method: "pp", Deterministic: d, NullHypothesis: NullUnitRoot, Status: StatusOK,
 			Statistic: zTau, PValue: p, PValueBound: bound,
-			CriticalValues: MacKinnonCritical(d, n), Lags: l, NObs: n,
+			CriticalValues: MacKinnonCritical(d, n), Lags: l, Observations: n,
 		},
 		ZAlpha: zAlpha,
 	}, nil

@@ -21,7 +21,7 @@ func TestPPAgainstTseries(t *testing.T) {
 			continue
 		}
 		l := int(num(t, row["lags"]))
-		got, err := PhillipsPerron(series[row["series"]], PPOptions{Deterministic: DeterministicTrend, Bandwidth: &l})
+		got, err := PhillipsPerron(series[row["series"]], PPOptions{Deterministic: DeterministicLevelAndSlope, Bandwidth: &l})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -46,9 +46,9 @@ func TestPPAtBandwidthZeroIsDickeyFuller(t *testing.T) {
 	_, series := referenceSeries(t)
 	zero := 0
 	for _, name := range []string{"nile", "lakehuron", "log_realgdp", "sim007"} {
-		for _, d := range []Deterministic{DeterministicNone, DeterministicConstant, DeterministicTrend} {
+		for _, d := range []Deterministic{DeterministicNone, DeterministicLevel, DeterministicLevelAndSlope} {
 			pp, _ := PhillipsPerron(series[name], PPOptions{Deterministic: d, Bandwidth: &zero})
-			adf, _ := ADF(series[name], ADFOptions{Deterministic: d, LagRule: LagFixed, MaxLag: &zero})
+			adf, _ := ADF(series[name], ADFOptions{Deterministic: d, LagRule: LagGiven, MaxLag: &zero})
 			if math.Abs(pp.Statistic-adf.Statistic) > 1e-9*math.Abs(adf.Statistic) {
 				t.Errorf("%s %s: Z(τ) %v, DF t %v", name, d, pp.Statistic, adf.Statistic)
 			}

@@ -10,12 +10,21 @@ import (
 // default options.
 func allUnitRootTests(x []float64) []UnitRootResult {
 	adf, _ := ADF(x, ADFOptions{})
-	adfTrend, _ := ADF(x, ADFOptions{Deterministic: DeterministicTrend, LagRule: LagTStat})
+	adfTrend, _ := ADF(x, ADFOptions{Deterministic: DeterministicLevelAndSlope, LagRule: LagDropInsignificant})
 	kpss, _ := KPSS(x, KPSSOptions{})
-	kpssTrend, _ := KPSS(x, KPSSOptions{Deterministic: DeterministicTrend})
+	kpssTrend, _ := KPSS(x, KPSSOptions{Deterministic: DeterministicLevelAndSlope})
 	pp, _ := PhillipsPerron(x, PPOptions{})
-	dfgls, _ := DFGLS(x, DFGLSOptions{Deterministic: DeterministicTrend})
+	dfgls, _ := DFGLS(x, DFGLSOptions{Deterministic: DeterministicLevelAndSlope})
 	return []UnitRootResult{adf, adfTrend, kpss, kpssTrend, pp.UnitRootResult, dfgls}
+}
+
+// alternatingHuge returns n values alternating between 1e308 and -1e308.
+func alternatingHuge(n int) []float64 {
+	x := make([]float64, n)
+	for i := range x {
+		x[i] = 1e308 * float64(1-2*(i%2))
+	}
+	return x
 }
 
 func TestUnitRootBadInput(t *testing.T) {
@@ -43,8 +52,20 @@ func TestUnitRootBadInput(t *testing.T) {
 		{"NaN", append(ramp(30), math.NaN()), StatusNonFinite},
 		{"+Inf", append(ramp(30), math.Inf(1)), StatusNonFinite},
 		{"-Inf", append([]float64{math.Inf(-1)}, ramp(30)...), StatusNonFinite},
+		// ±1e308 alternating: the differences are ±Inf before scaling, and
+		// after it the ADF regression fits exactly.
+		{"alternating ±1e308", alternatingHuge(60), ""},
 	} {
 		for _, r := range allUnitRootTests(test.x) {
+			if test.want == "" {
+				if r.Status == StatusOK && (math.IsNaN(r.Statistic) || math.IsInf(r.Statistic, 0) || !(r.PValue >= 0 && r.PValue <= 1)) {
+					t.Errorf("%s: %s %s status ok with statistic %v, p-value %v", test.name, r.Method, r.Deterministic, r.Statistic, r.PValue)
+				}
+				if r.Status != StatusOK && !math.IsNaN(r.Statistic) {
+					t.Errorf("%s: %s status %s but statistic %v", test.name, r.Method, r.Status, r.Statistic)
+				}
+				continue
+			}
 			if r.Status != test.want {
 				t.Errorf("%s: %s %s status %s, want %s", test.name, r.Method, r.Deterministic, r.Status, test.want)
 			}
@@ -68,7 +89,7 @@ func TestUnitRootBadInput(t *testing.T) {
 	}
 	// A lag request larger than the series allows.
 	big := 40
-	if r, _ := ADF(ramp(30), ADFOptions{LagRule: LagFixed, MaxLag: &big}); r.Status != StatusTooShort {
+	if r, _ := ADF(ramp(30), ADFOptions{LagRule: LagGiven, MaxLag: &big}); r.Status != StatusTooShort {
 		t.Errorf("ADF with 40 lags on 30 values: %s", r.Status)
 	}
 	if r, _ := KPSS(ramp(30), KPSSOptions{Bandwidth: &big}); r.Status != StatusTooShort {

@@ -68,7 +68,8 @@ const (
 
 // StationarityResult is the verdict on one series.
 type StationarityResult struct {
-	// The three conditions and their conjunction.
+	// Whether the level and the spread are steady and a seasonal pattern
+	// is present; Stationary when neither is unsteady and there is none.
 	MeanStable, SpreadStable, Seasonal, Stationary bool
 	Violations                                     []Violation
 	// MeanCause is why the mean moves ("" when it is stable).
@@ -182,9 +183,9 @@ func joinViolations(v []Violation) string {
 	return strings.Join(parts, ",")
 }
 
-// Stationarity judges the three conditions of stationarity for x, says
-// why each broken one is broken, and recommends a recipe that cures what
-// it diagnoses:
+// Stationarity decides whether x's level and spread are steady and whether
+// it carries a seasonal pattern, says what makes each unsteady part move,
+// and recommends a recipe that cures what it diagnoses:
 //
 //  1. Demand profile (Demand): the share of zeros and, for series that are
 //     never negative, the demand class. Intermittent or lumpy demand gets
@@ -228,6 +229,11 @@ func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, er
 	if s := checkFinite(x); s != StatusOK {
 		return unjudged(s)
 	}
+	if tooLarge(x) {
+		v, err := unjudged(StatusNonFinite)
+		v.Reason = tooLargeReason
+		return v, err
+	}
 	if len(x) >= 2 && isConstant(x) {
 		return unjudged(StatusConstant)
 	}
@@ -262,7 +268,13 @@ func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, er
 		return r, err
 	}
 	if j.status != StatusOK {
-		return unjudged(j.status)
+		v, err := unjudged(j.status)
+		if j.status == StatusConstant {
+			// x varies (checked above): what is constant is the series
+			// after its seasonal step or with its outliers set aside.
+			v.Reason = "Nothing varies once its repeating pattern or its outliers are set aside: the series is deterministic, so there is nothing to test."
+		}
+		return v, err
 	}
 	first := j
 	lambda := math.NaN()
@@ -319,6 +331,13 @@ func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, er
 		}
 	}
 	r.Score = r.MeanShare + r.SpreadShare + r.SeasonalShare
+	if math.IsNaN(r.Score) || math.IsInf(r.Score, 0) {
+		// A share could not be computed: a number overflowed or lost all
+		// meaning on the way, which no verdict may rest on.
+		v, err := unjudged(StatusNonFinite)
+		v.Reason = notComputedReason
+		return v, err
+	}
 	r.Reason = reason(&r)
 	r.Status = StatusOK
 	switch {
@@ -406,8 +425,9 @@ func (r *StationarityResult) checkCure(j judgement, alpha float64) error {
 
 // leftViolations judges j.m, the output of the recipe, by the tests the
 // verdict uses, reusing those judge already ran on it: a unit root (ADF and
-// KPSS as in the differencing sequence) or unequal segment means; unequal
-// segment spreads; a seasonal pattern at the period (or periods) judged.
+// KPSS as in the differencing sequence; KPSS always when the recipe removed
+// a fitted line or shift) or unequal segment means; unequal segment
+// spreads; a seasonal pattern at the period (or periods) judged.
 func leftViolations(j judgement, alpha float64) ([]Violation, error) {
 	y := j.m
 	var out []Violation
@@ -423,12 +443,18 @@ func leftViolations(j judgement, alpha float64) ([]Violation, error) {
 		}
 	}
 	meanBad := false
+	// A line or a shift fitted to the series and removed leaves an output
+	// that ADF's critical values (for a series with only a constant) judge
+	// too leniently: a random walk less its best-fitting step or line looks
+	// mean-reverting. For those recipes KPSS always judges the output too.
+	fitted := j.recipe.Trend || j.recipe.Shift
 	if adf.Status == StatusOK {
-		// KPSS decides only between α/4 and α (needsDifference).
+		// KPSS decides only between α/4 and α (needsDifference), or always
+		// after a fitted line or shift.
 		switch {
 		case !(adf.PValue < alpha):
 			meanBad = true
-		case adf.PValue >= each:
+		case adf.PValue >= each || fitted:
 			kpss := j.mKPSS
 			if kpss.Status == "" {
 				var err error

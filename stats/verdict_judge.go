@@ -215,24 +215,25 @@ func seasonalBySeason(s SeasonalityResult) bool {
 //   - Unit-root evidence: the differencing sequence's first step
 //     (needsDifference: ADF with a constant, cross-checked by KPSS).
 //   - With it, and no seasonal differencing, two alternatives that also
-//     explain a persistent-looking series are tried: a trend-stationary
-//     series (ADF with a trend rejects a unit root at α, KPSS with a trend
-//     does not reject stationarity at α, and the trend's slope is
-//     significant at α by its Newey-West t), and a level shift in a
-//     stationary series (the break test, MeanBreak, significant at α, the
-//     Zivot-Andrews test rejects a unit root against a one-time break in
-//     the intercept at α, with the lag ADF chose, and KPSS does not reject
-//     stationarity of the series with the shift removed). If both hold, the one with the lower
-//     BIC (the line: 2 parameters; the shift: 3, its date counted) wins.
-//     Otherwise the cause is a unit root, and d follows the differencing
-//     sequence (up to 2).
+//     explain a persistent-looking series are tried, each overriding the
+//     unit-root evidence at α/2 (Bonferroni over the two): a
+//     trend-stationary series (ADF with a trend rejects a unit root at
+//     α/2, the trend's slope is significant at α by its Newey-West t, and
+//     stationaryAroundLine), and a level shift in a stationary series (the
+//     break test, MeanBreak, significant at α, and stationaryAroundShift:
+//     Zivot-Andrews at α/2 and KPSS with the shift removed). If both hold,
+//     the one with the lower BIC (the line: 2 parameters; the shift: 3,
+//     its date counted) wins. Otherwise the cause is a unit root, and d
+//     follows the differencing sequence (up to 2).
 //   - Without unit-root evidence, the mean still moves when the
 //     segment-means test or KPSS rejects, at α/8 each (meanMoves: the two
 //     tests that decide whether it moves; the trend and break tests only
 //     attribute the cause, so that a stationary series is not tested four
-//     times). The cause is then whichever of a trend (the slope's Newey-West t) and a
-//     shift (the break test) is significant at α, by BIC if both; if
-//     neither, a unit root (one difference).
+//     times). The cause is then whichever of a trend (the slope's
+//     Newey-West t) and a shift (the break test) is significant at α and
+//     leaves a stationary series by the same checks (stationaryAroundLine,
+//     stationaryAroundShift), by BIC if both; if neither, a unit root (one
+//     difference).
 func (j *judgement) meanDecision(z []float64, o judgeOptions, stabilityPeriod int) ([]float64, error) {
 	alpha, each := o.alpha, o.alpha/4
 	var err error
@@ -268,26 +269,24 @@ func (j *judgement) meanDecision(z []float64, o judgeOptions, stabilityPeriod in
 	case unitRoot && deterministic:
 		// Cheapest first: ADF with a trend rejects a unit root only for a
 		// few series with one, so most never need the slope's Newey-West t.
-		if adf, err := ADF(z, ADFOptions{Deterministic: DeterministicTrend}); err == nil && adf.Status == StatusOK && adf.PValue < alpha {
-			kpss, err := KPSS(z, KPSSOptions{Deterministic: DeterministicTrend})
-			trendOK = err == nil && kpss.Status == StatusOK && !(kpss.PValue < alpha) && line.pValue() < alpha
+		if adf, err := ADF(z, ADFOptions{Deterministic: DeterministicLevelAndSlope}); err == nil && adf.Status == StatusOK && adf.PValue < alpha/2 {
+			trendOK = line.pValue() < alpha && stationaryAroundLine(z, alpha)
 		}
 		if shiftP < alpha {
-			// The lag ADF chose for the differencing sequence, fixed: one
-			// scan over the break dates instead of a lag search.
-			lags := j.adf.Lags
-			za, err := ZivotAndrews(z, ZivotAndrewsOptions{Break: BreakIntercept, LagRule: LagFixed, MaxLag: &lags})
-			if err != nil {
+			if shiftOK, err = j.stationaryAroundShift(z, alpha); err != nil {
 				return nil, err
-			}
-			if za.Status == StatusOK && za.PValue < alpha {
-				resid := withoutShift(z, j.brk.Index, j.brk.Size)
-				kpss, err := KPSS(resid, KPSSOptions{})
-				shiftOK = err == nil && kpss.Status == StatusOK && !(kpss.PValue < alpha)
 			}
 		}
 	case !unitRoot && deterministic && meanMoves(j, each/2):
-		trendOK, shiftOK = line.pValue() < alpha, shiftP < alpha
+		// The same evidence as above that the series is stationary around
+		// the line or the shift; ADF has already rejected a unit root
+		// without either.
+		trendOK = line.pValue() < alpha && stationaryAroundLine(z, alpha)
+		if shiftP < alpha {
+			if shiftOK, err = j.stationaryAroundShift(z, alpha); err != nil {
+				return nil, err
+			}
+		}
 		unitRoot = !trendOK && !shiftOK
 	case !unitRoot:
 		unitRoot = meanMoves(j, each/2)
@@ -317,6 +316,40 @@ func (j *judgement) meanDecision(z []float64, o judgeOptions, stabilityPeriod in
 		return j.differences(z, alpha)
 	}
 	return z, nil
+}
+
+// stationaryAroundLine reports whether KPSS with a trend does not reject,
+// at α, that z is stationary around a straight line: what a trend must
+// leave for it to explain a moving mean.
+func stationaryAroundLine(z []float64, alpha float64) bool {
+	kpss, err := KPSS(z, KPSSOptions{Deterministic: DeterministicLevelAndSlope})
+	return err == nil && kpss.Status == StatusOK && !(kpss.PValue < alpha)
+}
+
+// stationaryAroundShift reports whether z is stationary around the level
+// shift the break test found (j.brk): the Zivot-Andrews test rejects a unit
+// root against one break in the intercept at α/2, with the lag ADF chose
+// (fixed: one scan over the break dates instead of a lag search), and KPSS
+// does not reject, at α, that z with the shift removed is stationary. A
+// random walk has step-like stretches, and the break test, whose null is a
+// stationary series, finds one in almost every walk; Zivot-Andrews' null is
+// the unit root, with critical values that allow for the break date being
+// chosen from the data, which ADF's on the shift-removed series do not.
+//
+// A trend and a shift are the two deterministic alternatives tried against
+// a unit root; each is accepted at α/2 (Bonferroni), so that a random walk
+// is taken for either with probability at most about α.
+func (j *judgement) stationaryAroundShift(z []float64, alpha float64) (bool, error) {
+	lags := j.adf.Lags
+	za, err := ZivotAndrews(z, ZivotAndrewsOptions{Break: BreakLevel, LagRule: LagGiven, MaxLag: &lags})
+	if err != nil {
+		return false, err
+	}
+	if za.Status != StatusOK || !(za.PValue < alpha/2) {
+		return false, nil
+	}
+	kpss, err := KPSS(withoutShift(z, j.brk.Index, j.brk.Size), KPSSOptions{})
+	return err == nil && kpss.Status == StatusOK && !(kpss.PValue < alpha), nil
 }
 
 // differences runs the differencing sequence on z, which has unit-root

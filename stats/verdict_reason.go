@@ -121,6 +121,13 @@ func number(v float64) string {
 	return fmt.Sprintf("%.3g", v)
 }
 
+// tooLargeReason and notComputedReason say why a series of finite values
+// is non_finite.
+const (
+	tooLargeReason    = "Values too large to compute with: the sum of their squares overflows double precision (values beyond about 1e150): rescale the series."
+	notComputedReason = "A number the verdict needs could not be computed (it overflowed or is not a number), so the series is not judged."
+)
+
 // StatusReason explains a status that leaves a series unjudged.
 func StatusReason(s Status) string {
 	switch s {

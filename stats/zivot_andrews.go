@@ -9,31 +9,40 @@ import (
 type BreakKind string
 
 const (
-	// BreakIntercept lets the level shift once (Zivot & Andrews' model A; the default).
-	BreakIntercept BreakKind = "intercept"
-	// BreakTrend lets the slope of the trend change once (model B).
-	BreakTrend BreakKind = "trend"
-	// BreakBoth lets the level and the slope change at the same date (model C).
-	BreakBoth BreakKind = "both"
+	// BreakLevel lets the level shift once (Zivot & Andrews' model A; the default).
+	BreakLevel BreakKind = "level"
+	// BreakSlope lets the slope of the trend change once (model B).
+	BreakSlope BreakKind = "slope"
+	// BreakLevelAndSlope lets the level and the slope change at the same date (model C).
+	BreakLevelAndSlope BreakKind = "level_and_slope"
 )
 
 // normalize returns the default for the zero value and checks the rest.
 func (k BreakKind) normalize() (BreakKind, error) {
 	switch k {
 	case "":
-		return BreakIntercept, nil
-	case BreakIntercept, BreakTrend, BreakBoth:
+		return BreakLevel, nil
+	case BreakLevel, BreakSlope, BreakLevelAndSlope:
 		return k, nil
 	}
-	return "", fmt.Errorf("stats: unknown break %q: use intercept, trend or both", string(k))
+	return "", fmt.Errorf("stats: unknown break %q: use level, slope or level_and_slope", string(k))
 }
 
 // dummies is the number of break columns the kind adds to the regression.
 func (k BreakKind) dummies() int {
-	if k == BreakBoth {
+	if k == BreakLevelAndSlope {
 		return 2
 	}
 	return 1
+}
+
+// CheckBreakTrim accepts a trimming fraction in the range plumb's p-value
+// table covers, [0.05, 0.30].
+func CheckBreakTrim(trim float64) error {
+	if !(trim >= minBreakTrim && trim <= maxBreakTrim) {
+		return fmt.Errorf("trimming must lie in [%.2f, %.2f], got %v", minBreakTrim, maxBreakTrim, trim)
+	}
+	return nil
 }
 
 // Trimming limits: the p-value table covers these fractions.
@@ -44,10 +53,10 @@ const (
 )
 
 // ZivotAndrewsOptions configure the Zivot-Andrews test. The zero value lets
-// the intercept break, trims 15% at each end and chooses the lag by AIC up
+// the level break, trims 15% at each end and chooses the lag by AIC up
 // to Schwert's maximum.
 type ZivotAndrewsOptions struct {
-	// Break is what may break: intercept (default), trend or both.
+	// Break is what may break: level (default), slope or level_and_slope.
 	Break BreakKind
 	// Trim is the fraction of the series at each end where no break is
 	// sought: 0 means 0.15; otherwise it must lie in [0.05, 0.30], the
@@ -61,14 +70,14 @@ type ZivotAndrewsOptions struct {
 	// Lags+1) are skipped.
 	Trim float64
 	// MaxLag is the largest number of lagged differences tried, or the
-	// number used under LagFixed. Nil means SchwertMaxLag(len(x)), capped as
+	// number used under LagGiven. Nil means SchwertMaxLag(len(x)), capped as
 	// for ADF with a trend (len(x)/2 - 3, and two residual degrees of
 	// freedom in the widest lag search).
 	MaxLag *int
 	// LagRule chooses the number of lagged differences: aic (default), bic,
-	// t_stat or fixed. The lag is chosen once, by ADF's rule on the
-	// regression with a constant and a trend and no break (ADF with
-	// Deterministic trend and the same MaxLag, on its common sample), and
+	// drop_insignificant or given. The lag is chosen once, by ADF's rule on
+	// the regression with a constant and a trend and no break (ADF with
+	// DeterministicLevelAndSlope and the same MaxLag, on its common sample), and
 	// then used at every break date; this is Baum's (2004) shortcut, which
 	// python3-statsmodels 0.13.5 follows, rather than Zivot & Andrews'
 	// search at every date. It makes the test one pass over the series
@@ -87,7 +96,7 @@ type ZivotAndrewsResult struct {
 	PValueBound PValueBound
 	// CriticalValues at 1%, 5% and 10%: Zivot & Andrews (1992), Tables 2, 3
 	// and 4 (asymptotic, λ in [0.15, 0.85]) at the default trimming;
-	// plumb's own Monte Carlo quantiles for NObs observations
+	// plumb's own Monte Carlo quantiles for Observations observations
 	// (zivot_andrews_table.go) at any other.
 	CriticalValues [3]float64
 	// BreakIndex is the 0-based index in x of the first observation after
@@ -102,10 +111,10 @@ type ZivotAndrewsResult struct {
 	BreakIndex int
 	// Lags is the number of lagged differences in every break regression.
 	Lags int
-	// NObs is the number of observations in each break regression,
+	// Observations is the number of observations in each break regression,
 	// len(x) - 1 - Lags.
-	NObs   int
-	Status Status
+	Observations int
+	Status       Status
 }
 
 // ZivotAndrews performs the Zivot & Andrews (1992) test of the null
@@ -144,8 +153,8 @@ func ZivotAndrews(x []float64, opts ZivotAndrewsOptions) (ZivotAndrewsResult, er
 	if trim == 0 {
 		trim = DefaultBreakTrim
 	}
-	if !(trim >= minBreakTrim && trim <= maxBreakTrim) {
-		return ZivotAndrewsResult{}, fmt.Errorf("stats: zivot-andrews trimming must lie in [%.2f, %.2f], got %v", minBreakTrim, maxBreakTrim, opts.Trim)
+	if err := CheckBreakTrim(trim); err != nil {
+		return ZivotAndrewsResult{}, err
 	}
 	if opts.MaxLag != nil && *opts.MaxLag < 0 {
 		return ZivotAndrewsResult{}, fmt.Errorf("stats: zivot-andrews: the maximum lag must not be negative, got %d", *opts.MaxLag)
@@ -173,10 +182,10 @@ func ZivotAndrews(x []float64, opts ZivotAndrewsOptions) (ZivotAndrewsResult, er
 	if maxLag < 0 || maxLag > limit || T-1-maxLag < 3+maxLag+2 {
 		return fail(StatusTooShort)
 	}
-	a := newADFDesign(x, DeterministicTrend)
+	a := newADFDesign(x, DeterministicLevelAndSlope)
 	defer a.release()
 	lags := maxLag
-	if rule != LagFixed {
+	if rule != LagGiven {
 		if lags, err = a.chooseLag(maxLag, rule); err != nil {
 			return fail(StatusSingular)
 		}
@@ -206,7 +215,7 @@ func ZivotAndrews(x []float64, opts ZivotAndrewsOptions) (ZivotAndrewsResult, er
 		Break: kind, Trim: trim, Status: StatusOK,
 		Statistic: best, PValue: p, PValueBound: bound,
 		CriticalValues: zivotAndrewsCritical(kind, trim, n),
-		BreakIndex:     at, Lags: lags, NObs: n,
+		BreakIndex:     at, Lags: lags, Observations: n,
 	}, nil
 }
 
@@ -215,7 +224,7 @@ func ZivotAndrews(x []float64, opts ZivotAndrewsOptions) (ZivotAndrewsResult, er
 // intercept or both and s .. T-s-1 for a break in the trend.
 func breakRange(kind BreakKind, T int, trim float64) (int, int) {
 	s := int(trim * float64(T))
-	if kind == BreakTrend {
+	if kind == BreakSlope {
 		return s, T - s - 1
 	}
 	return s + 1, T - s

@@ -16,7 +16,7 @@ func BenchmarkZivotAndrews(b *testing.B) {
 	twelve := 12
 	for _, T := range []int{730, 1000} {
 		x := randomWalk(T, 1)
-		for _, kind := range []BreakKind{BreakIntercept, BreakTrend, BreakBoth} {
+		for _, kind := range []BreakKind{BreakLevel, BreakSlope, BreakLevelAndSlope} {
 			b.Run(fmt.Sprintf("T=%d/%s/aic", T, kind), func(b *testing.B) {
 				b.ReportAllocs()
 				for b.Loop() {
@@ -26,7 +26,7 @@ func BenchmarkZivotAndrews(b *testing.B) {
 			b.Run(fmt.Sprintf("T=%d/%s/fixed12", T, kind), func(b *testing.B) {
 				b.ReportAllocs()
 				for b.Loop() {
-					ZivotAndrews(x, ZivotAndrewsOptions{Break: kind, LagRule: LagFixed, MaxLag: &twelve})
+					ZivotAndrews(x, ZivotAndrewsOptions{Break: kind, LagRule: LagGiven, MaxLag: &twelve})
 				}
 			})
 		}

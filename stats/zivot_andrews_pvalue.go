@@ -36,9 +36,9 @@ var (
 // 1.3-3's ur.za reports the same values, and TestZivotAndrewsTableMatchesPaper
 // checks plumb's own simulation against them.
 var zivotAndrewsPublished = map[BreakKind][3]float64{
-	BreakIntercept: {-5.34, -4.80, -4.58},
-	BreakTrend:     {-4.93, -4.42, -4.11},
-	BreakBoth:      {-5.57, -5.08, -4.82},
+	BreakLevel:         {-5.34, -4.80, -4.58},
+	BreakSlope:         {-4.93, -4.42, -4.11},
+	BreakLevelAndSlope: {-5.57, -5.08, -4.82},
 }
 
 // zivotAndrewsCritical returns the 1, 5 and 10% critical values: the
@@ -132,7 +132,7 @@ func SimulateZivotAndrews(kind BreakKind, T, reps int, seed uint64) ([][]float64
 			v += rng.NormFloat64()
 			y[t] = v
 		}
-		a := newADFDesign(y, DeterministicTrend)
+		a := newADFDesign(y, DeterministicLevelAndSlope)
 		st := breakScan(a, 0, kind, lo, path)
 		a.release()
 		if st != StatusOK {

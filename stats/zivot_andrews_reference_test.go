@@ -27,8 +27,9 @@ const (
 // autolag="AIC"|"BIC"|"t-stat"|None), on R's datasets, log realgdp, 100 of
 // simulated.csv's series and the 100 break series of break_simulated.csv:
 // the statistic within 1e-6 relative, the same lag, the same break date
-// (statsmodels' bpidx is BreakIndex-1 for a break in the intercept or both
-// and BreakIndex for the trend) and the p-value as described above. Rows
+// (the break_index column, statsmodels' break index, is BreakIndex-1 for a
+// break in the level or in both, and BreakIndex for the slope) and the
+// p-value as described above. Rows
 // where statsmodels failed are counted and must still give plumb a result.
 func TestZivotAndrewsAgainstStatsmodels(t *testing.T) {
 	_, series := referenceSeries(t)
@@ -45,14 +46,14 @@ func TestZivotAndrewsAgainstStatsmodels(t *testing.T) {
 			t.Fatalf("no series %q", row["series"])
 		}
 		maxLag := int(num(t, row["max_lag"]))
-		kind := BreakKind(row["break"])
+		kind := BreakKind(row["kind"])
 		opts := ZivotAndrewsOptions{Break: kind, Trim: num(t, row["trim"]), LagRule: LagRule(row["lag_rule"]), MaxLag: &maxLag}
 		got, err := ZivotAndrews(x, opts)
 		if err != nil {
 			t.Fatal(err)
 		}
 		where := "break_statsmodels.py " + row["series"] + ": zivot_andrews(trim=" + row["trim"] + ", maxlag=" +
-			row["max_lag"] + ", break " + row["break"] + ", lag rule " + row["lag_rule"] + ")"
+			row["max_lag"] + ", break " + row["kind"] + ", lag rule " + row["lag_rule"] + ")"
 		if got.Status != StatusOK {
 			t.Errorf("%s: status %s", where, got.Status)
 			continue
@@ -67,8 +68,8 @@ func TestZivotAndrewsAgainstStatsmodels(t *testing.T) {
 		if rel > 1e-6 {
 			t.Errorf("%s: statistic %.12g, want %.12g", where, got.Statistic, want)
 		}
-		wantBreak := int(num(t, row["bpidx"]))
-		if kind != BreakTrend {
+		wantBreak := int(num(t, row["break_index"]))
+		if kind != BreakSlope {
 			wantBreak++
 		}
 		if got.BreakIndex != wantBreak {
@@ -77,15 +78,15 @@ func TestZivotAndrewsAgainstStatsmodels(t *testing.T) {
 		if got.Lags != int(num(t, row["lags"])) {
 			t.Errorf("%s: lags %d, want %s", where, got.Lags, row["lags"])
 		}
-		if got.NObs != len(x)-1-got.Lags {
-			t.Errorf("%s: nobs %d, want %d", where, got.NObs, len(x)-1-got.Lags)
+		if got.Observations != len(x)-1-got.Lags {
+			t.Errorf("%s: observations %d, want %d", where, got.Observations, len(x)-1-got.Lags)
 		}
 		if row["trim"] == "0.15" {
 			sm := num(t, row["p_value"])
 			dp := math.Abs(got.PValue - sm)
 			worstP[kind] = math.Max(worstP[kind], dp)
 			if dp > zivotAndrewsReportedTolerance {
-				t.Errorf("%s: p-value %.4f (n = %d), statsmodels %s", where, got.PValue, got.NObs, row["p_value"])
+				t.Errorf("%s: p-value %.4f (n = %d), statsmodels %s", where, got.PValue, got.Observations, row["p_value"])
 			}
 			// statsmodels clips its p-values to about [0.001, 0.999].
 			if large, _ := zivotAndrewsP(got.Statistic, kind, 0.15, 3199); sm > 0.0011 && sm < 0.998 {
@@ -96,13 +97,13 @@ func TestZivotAndrewsAgainstStatsmodels(t *testing.T) {
 				}
 			}
 		}
-		checked[row["break"]+" "+row["lag_rule"]]++
+		checked[row["kind"]+" "+row["lag_rule"]]++
 	}
 	t.Logf("rows checked: %v; statsmodels failed on %d rows (plumb gave a result on each)", checked, failedThere)
 	t.Logf("largest relative statistic difference %.2g", worstStat)
 	t.Logf("largest p-value difference at trim 0.15, reported: %v; plumb's table at n = 3,199: %v", worstP, worstLarge)
-	for _, k := range []string{"intercept", "trend", "both"} {
-		for _, r := range []string{"aic", "bic", "t_stat", "fixed"} {
+	for _, k := range []string{"level", "slope", "level_and_slope"} {
+		for _, r := range []string{"aic", "bic", "drop_insignificant", "given"} {
 			if checked[k+" "+r] < 200 {
 				t.Errorf("only %d rows checked for %s %s", checked[k+" "+r], k, r)
 			}

@@ -111,13 +111,13 @@ func breakScan(a *adfDesign, lags int, kind BreakKind, lo int, path []float64) S
 		var t float64
 		var ok, exact bool
 		switch kind {
-		case BreakIntercept:
+		case BreakLevel:
 			var ww float64
 			for j := 0; j < p0; j++ {
 				ww += su[j] * su[j]
 			}
 			t, ok, exact = breakT1(N-ww, N, su[pl], su[py], rly, ryy, sdf)
-		case BreakTrend:
+		case BreakSlope:
 			var ww float64
 			for j := 0; j < p0; j++ {
 				d := (sr[j] - (rf-1)*su[j]) / nf
@@ -127,7 +127,7 @@ func breakScan(a *adfDesign, lags int, kind BreakKind, lo int, path []float64) S
 			al := (sr[pl] - (rf-1)*su[pl]) / nf
 			ay := (sr[py] - (rf-1)*su[py]) / nf
 			t, ok, exact = breakT1(dd-ww, dd, al, ay, rly, ryy, sdf)
-		case BreakBoth:
+		case BreakLevelAndSlope:
 			var uu, ut, tt float64
 			for j := 0; j < p0; j++ {
 				d := (sr[j] - (rf-1)*su[j]) / nf

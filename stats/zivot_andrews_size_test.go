@@ -29,7 +29,7 @@ func TestZivotAndrewsSizeAndPower(t *testing.T) {
 		reps = 200
 	}
 	rng := rand.New(rand.NewPCG(1992, 730))
-	kinds := []BreakKind{BreakIntercept, BreakTrend, BreakBoth}
+	kinds := []BreakKind{BreakLevel, BreakSlope, BreakLevelAndSlope}
 	for _, T := range []int{200, 730} {
 		x := make([]float64, T)
 		rejected := map[BreakKind]int{}
@@ -113,7 +113,7 @@ func TestZivotAndrewsPValueCalibrated(t *testing.T) {
 	levels := []float64{0.01, 0.05, 0.10, 0.25, 0.50, 0.75, 0.90}
 	zero := 0
 	for _, T := range []int{60, 100, 400} {
-		for _, kind := range []BreakKind{BreakIntercept, BreakTrend, BreakBoth} {
+		for _, kind := range []BreakKind{BreakLevel, BreakSlope, BreakLevelAndSlope} {
 			rng := rand.New(rand.NewPCG(6, uint64(T)))
 			x := make([]float64, T)
 			own := make([]int, len(levels))
@@ -124,7 +124,7 @@ func TestZivotAndrewsPValueCalibrated(t *testing.T) {
 					w += rng.NormFloat64()
 					x[i] = w
 				}
-				res, err := ZivotAndrews(x, ZivotAndrewsOptions{Break: kind, LagRule: LagFixed, MaxLag: &zero})
+				res, err := ZivotAndrews(x, ZivotAndrewsOptions{Break: kind, LagRule: LagGiven, MaxLag: &zero})
 				if err != nil || res.Status != StatusOK {
 					t.Fatalf("T=%d %s: %v %s", T, kind, err, res.Status)
 				}

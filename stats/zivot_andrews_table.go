@@ -8,7 +8,7 @@ package stats
 // hypothesis: plumb's own Monte Carlo estimates, fitted over random walks of
 // lengths [50 100 200 400 800 1600 3200] (n = T-1), 100000 replications each (seed 1).
 var zivotAndrewsTable = map[BreakKind][][][3]float64{
-	BreakIntercept: {
+	BreakLevel: {
 		// trim 0.05; simulated 5% quantiles by length: 50: -4.937, 100: -4.848, 200: -4.827, 400: -4.819, 800: -4.843, 1600: -4.841, 3200: -4.851
 		{
 			{-5.9969, 4.3052, -52.459},
@@ -220,7 +220,7 @@ var zivotAndrewsTable = map[BreakKind][][][3]float64{
 			{-0.7566, 2.1034, 2.564},
 		},
 	},
-	BreakTrend: {
+	BreakSlope: {
 		// trim 0.05; simulated 5% quantiles by length: 50: -4.677, 100: -4.537, 200: -4.467, 400: -4.426, 800: -4.419, 1600: -4.401, 3200: -4.406
 		{
 			{-5.4989, 0.7381, -42.813},
@@ -432,7 +432,7 @@ var zivotAndrewsTable = map[BreakKind][][][3]float64{
 			{-1.1211, 0.4533, 8.913},
 		},
 	},
-	BreakBoth: {
+	BreakLevelAndSlope: {
 		// trim 0.05; simulated 5% quantiles by length: 50: -5.250, 100: -5.144, 200: -5.100, 400: -5.100, 800: -5.112, 1600: -5.113, 3200: -5.116
 		{
 			{-6.2516, 3.9342, -55.088},

@@ -21,10 +21,10 @@ func directBreakT(x []float64, lags int, kind BreakKind, b int) float64 {
 	}
 	col(func(int) float64 { return 1 })
 	col(func(t int) float64 { return float64(t) })
-	if kind != BreakTrend {
+	if kind != BreakSlope {
 		col(func(t int) float64 { return b2f(t >= b) })
 	}
-	if kind != BreakIntercept {
+	if kind != BreakLevel {
 		col(func(t int) float64 { return b2f(t >= b) * float64(t-b+1) })
 	}
 	for j := 1; j <= lags; j++ {
@@ -62,12 +62,12 @@ func TestBreakScanMatchesDirectRegression(t *testing.T) {
 		nearLine[i] = 5 + 0.5*float64(i) + 1e-4*rng.NormFloat64()
 	}
 	for name, x := range map[string][]float64{"random walk": walk, "trend plus noise": trendy, "near line": nearLine} {
-		for _, kind := range []BreakKind{BreakIntercept, BreakTrend, BreakBoth} {
+		for _, kind := range []BreakKind{BreakLevel, BreakSlope, BreakLevelAndSlope} {
 			for _, lags := range []int{0, 1, 5} {
 				lo, hi := breakRange(kind, len(x), DefaultBreakTrim)
 				lo = max(lo, lags+2)
 				path := make([]float64, hi-lo+1)
-				a := newADFDesign(x, DeterministicTrend)
+				a := newADFDesign(x, DeterministicLevelAndSlope)
 				st := breakScan(a, lags, kind, lo, path)
 				a.release()
 				if st != StatusOK {
@@ -92,7 +92,7 @@ func TestBreakScanMatchesDirectRegression(t *testing.T) {
 func TestZivotAndrewsWithoutBreakIsADF(t *testing.T) {
 	x := randomWalk(200, 3)
 	for _, lags := range []int{0, 2, 7} {
-		a := newADFDesign(x, DeterministicTrend)
+		a := newADFDesign(x, DeterministicLevelAndSlope)
 		L, _, st := breakFactor(a, lags, lags)
 		a.release()
 		if st != StatusOK {
@@ -102,7 +102,7 @@ func TestZivotAndrewsWithoutBreakIsADF(t *testing.T) {
 		n := len(x) - 1 - lags
 		got, ok, _ := breakT(1, 0, 1, 1, L[(m-1)*m+m-2], L[(m-1)*m+m-1], math.Sqrt(float64(n-m+1)))
 		lg := lags
-		want, _ := ADF(x, ADFOptions{Deterministic: DeterministicTrend, LagRule: LagFixed, MaxLag: &lg})
+		want, _ := ADF(x, ADFOptions{Deterministic: DeterministicLevelAndSlope, LagRule: LagGiven, MaxLag: &lg})
 		if !ok || math.Abs(got-want.Statistic) > 1e-9*math.Abs(want.Statistic) {
 			t.Errorf("lags %d: %v, ADF with a trend %v", lags, got, want.Statistic)
 		}
@@ -146,7 +146,7 @@ func TestZivotAndrewsBadInput(t *testing.T) {
 		{"straight line", line, StatusSingular},
 		{"kinked line", kinked, StatusSingular},
 	} {
-		for _, kind := range []BreakKind{BreakIntercept, BreakTrend, BreakBoth} {
+		for _, kind := range []BreakKind{BreakLevel, BreakSlope, BreakLevelAndSlope} {
 			r, err := ZivotAndrews(test.x, ZivotAndrewsOptions{Break: kind})
 			if err != nil {
 				t.Fatalf("%s %s: %v", test.name, kind, err)
@@ -164,8 +164,8 @@ func TestZivotAndrewsBadInput(t *testing.T) {
 	// inside the range and before the last observation.
 	for n := 0; n <= 60; n++ {
 		x := randomWalk(n, uint64(n))
-		for _, kind := range []BreakKind{BreakIntercept, BreakTrend, BreakBoth} {
-			for _, rule := range []LagRule{LagAIC, LagBIC, LagTStat, LagFixed} {
+		for _, kind := range []BreakKind{BreakLevel, BreakSlope, BreakLevelAndSlope} {
+			for _, rule := range []LagRule{LagAIC, LagBIC, LagDropInsignificant, LagGiven} {
 				for _, trim := range []float64{0.05, 0.15, 0.30} {
 					r, err := ZivotAndrews(x, ZivotAndrewsOptions{Break: kind, LagRule: rule, Trim: trim})
 					if err != nil {
@@ -195,12 +195,12 @@ func TestZivotAndrewsBadInput(t *testing.T) {
 	}
 	// Too many lags for the series is a status; bad options are errors.
 	big := 40
-	if r, _ := ZivotAndrews(ramp(60), ZivotAndrewsOptions{LagRule: LagFixed, MaxLag: &big}); r.Status != StatusTooShort {
+	if r, _ := ZivotAndrews(ramp(60), ZivotAndrewsOptions{LagRule: LagGiven, MaxLag: &big}); r.Status != StatusTooShort {
 		t.Errorf("40 lags on 60 values: %s", r.Status)
 	}
 	neg := -1
 	for name, opts := range map[string]ZivotAndrewsOptions{
-		"unknown break":     {Break: "level"},
+		"unknown break":     {Break: "curve"},
 		"unknown lag rule":  {LagRule: "aicc"},
 		"negative max lag":  {MaxLag: &neg},
 		"trim too small":    {Trim: 0.01},
@@ -220,7 +220,7 @@ func TestZivotAndrewsBadInput(t *testing.T) {
 // bounded beyond the table's ends; between trimming rows it lies between
 // the neighbours' p-values.
 func TestZivotAndrewsPValue(t *testing.T) {
-	for _, kind := range []BreakKind{BreakIntercept, BreakTrend, BreakBoth} {
+	for _, kind := range []BreakKind{BreakLevel, BreakSlope, BreakLevelAndSlope} {
 		for _, n := range []int{20, 49, 73, 200, 730, 3199, 5000} {
 			for trim := 0.05; trim <= 0.30001; trim += 0.01 {
 				q := zivotAndrewsQuantiles(kind, trim, n)
@@ -268,7 +268,7 @@ func TestZivotAndrewsTableMatchesPaper(t *testing.T) {
 	if zivotAndrewsLevels[3] != 0.01 || zivotAndrewsLevels[5] != 0.05 || zivotAndrewsLevels[7] != 0.10 {
 		t.Fatal("the levels moved; fix the indices below")
 	}
-	for _, kind := range []BreakKind{BreakIntercept, BreakTrend, BreakBoth} {
+	for _, kind := range []BreakKind{BreakLevel, BreakSlope, BreakLevelAndSlope} {
 		q := zivotAndrewsQuantiles(kind, DefaultBreakTrim, 3199)
 		ours := [3]float64{q[3], q[5], q[7]} // levels 0.01, 0.05, 0.10
 		paper := zivotAndrewsPublished[kind]
@@ -297,7 +297,7 @@ func FuzzZivotAndrews(f *testing.F) {
 		for i := range x {
 			x[i] = float64(int16(uint16(data[2*i])<<8|uint16(data[2*i+1]))) * math.Pow(10, float64(data[2*i]%7))
 		}
-		for _, kind := range []BreakKind{BreakIntercept, BreakTrend, BreakBoth} {
+		for _, kind := range []BreakKind{BreakLevel, BreakSlope, BreakLevelAndSlope} {
 			r, err := ZivotAndrews(x, ZivotAndrewsOptions{Break: kind})
 			if err != nil {
 				t.Fatal(err)

@@ -198,6 +198,7 @@ func (q seriesQuery) planCTEs(bytesPerRow int) string {
 	return fmt.Sprintf(`%[1]s, plumb_keys AS MATERIALIZED (
     SELECT %[2]s, count(*) AS plumb_rows, (%[3]s) AS plumb_null_key
     FROM plumb_input
+    WHERE (SELECT plumb_ok FROM plumb_source_ok)
     GROUP BY %[2]s%[4]s
 ), plumb_plan AS MATERIALIZED (
     SELECT %[2]s, plumb_rows, plumb_null_key, dense_rank() OVER (ORDER BY plumb_start // plumb_batch_rows) - 1 AS plumb_batch

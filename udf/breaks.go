@@ -11,10 +11,12 @@ import (
 
 // breakFunctions wraps the two tests for one structural break:
 //
-//	zivot_andrews(series, kind := 'intercept', lags := NULL, lag_rule := 'aic', trimming := 0.15) -> STRUCT
-//	    stats.ZivotAndrews: a unit root against a break in the intercept,
-//	    the trend or both (kind); break_at is the 1-based position of the
-//	    first observation after the break.
+//	zivot_andrews(series, kind := 'level', lags := NULL, lag_rule := 'aic', trimming := 0.15) -> STRUCT
+//	    stats.ZivotAndrews: a unit root against a trend-stationary series
+//	    whose level, slope or both (kind: level, slope, level_and_slope)
+//	    break once; break_at is the 1-based position of the first
+//	    observation after the break. Fields as unit_root's: what was tested,
+//	    the evidence, how it was computed.
 //	mean_break(series) -> STRUCT
 //	    stats.MeanBreak: the sup-Wald test for one break in the mean of a
 //	    stationary series, its date and size.
@@ -25,13 +27,13 @@ func breakFunctions(t *types) []*function {
 		parallel: true,
 		reuse:    true,
 		params:   []duckdb.TypeInfo{t.doubles(), t.varchar(), t.bigint(), t.varchar(), d},
-		result: t.structOf(field{"statistic", d}, field{"p_value", d}, field{"p_value_bound", t.varchar()},
-			field{"break_at", t.bigint()}, field{"lags", t.bigint()}, field{"nobs", t.bigint()},
-			field{"crit_1pct", d}, field{"crit_5pct", d}, field{"crit_10pct", d},
-			field{"kind", t.varchar()}, field{"status", t.varchar()}),
+		result: t.structOf(field{"kind", t.varchar()},
+			field{"statistic", d}, field{"p_value", d}, field{"p_value_bound", t.varchar()},
+			field{"cutoff_01", d}, field{"cutoff_05", d}, field{"cutoff_10", d}, field{"break_at", t.bigint()},
+			field{"lags", t.bigint()}, field{"observations", t.bigint()}, field{"status", t.varchar()}),
 		nullable: true,
 		eval: withSeries(func(x []float64, args []driver.Value) (any, error) {
-			o := stats.ZivotAndrewsOptions{Break: stats.BreakIntercept, LagRule: stats.LagAIC}
+			o := stats.ZivotAndrewsOptions{Break: stats.BreakLevel, LagRule: stats.LagAIC}
 			var err error
 			if args[1] != nil {
 				s, err := text(args[1], "kind")
@@ -53,7 +55,7 @@ func breakFunctions(t *types) []*function {
 				}
 				o.LagRule = stats.LagRule(s)
 			}
-			if o.Trim, err = floatOr(args[4], "trimming", stats.DefaultBreakTrim); err != nil {
+			if o.Trim, err = trimmingArg(args[4]); err != nil {
 				return nil, err
 			}
 			r, err := stats.ZivotAndrews(x, o)
@@ -63,9 +65,9 @@ func breakFunctions(t *types) []*function {
 			ok := r.Status == stats.StatusOK
 			out := map[string]any{
 				"statistic": value(r.Statistic, ok), "p_value": value(r.PValue, ok), "p_value_bound": nil,
-				"break_at": nil, "lags": count(r.Lags, ok), "nobs": count(r.NObs, ok),
-				"crit_1pct": value(r.CriticalValues[0], ok), "crit_5pct": value(r.CriticalValues[1], ok),
-				"crit_10pct": value(r.CriticalValues[2], ok), "kind": string(r.Break), "status": string(r.Status)}
+				"break_at": nil, "lags": count(r.Lags, ok), "observations": count(r.Observations, ok),
+				"cutoff_01": value(r.CriticalValues[0], ok), "cutoff_05": value(r.CriticalValues[1], ok),
+				"cutoff_10": value(r.CriticalValues[2], ok), "kind": string(r.Break), "status": string(r.Status)}
 			if ok {
 				out["p_value_bound"], out["break_at"] = string(r.PValueBound), int64(r.BreakIndex+1)
 			}
@@ -96,7 +98,7 @@ func breakFunctions(t *types) []*function {
 }
 
 const breakMacros = `
-CREATE OR REPLACE TEMP MACRO zivot_andrews(series, kind := 'intercept', lags := NULL, lag_rule := 'aic', trimming := 0.15) AS
+CREATE OR REPLACE TEMP MACRO zivot_andrews(series, kind := 'level', lags := NULL, lag_rule := 'aic', trimming := 0.15) AS
     plumb_zivot_andrews(series::DOUBLE[], kind, lags::BIGINT, lag_rule, trimming::DOUBLE);
 CREATE OR REPLACE TEMP MACRO mean_break(series) AS
     plumb_mean_break(series::DOUBLE[]);

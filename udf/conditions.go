@@ -2,7 +2,6 @@ package udf
 
 import (
 	"database/sql/driver"
-	"fmt"
 	"math"
 
 	"github.com/duckdb/duckdb-go/v2"
@@ -50,7 +49,7 @@ func conditionFunctions(t *types) []*function {
 			result:   seasonalityType(t),
 			nullable: true,
 			eval: withSeries(func(x []float64, args []driver.Value) (any, error) {
-				period, err := intOr(args[1], "period", 0)
+				period, err := periodArg(args[1])
 				if err != nil {
 					return nil, err
 				}
@@ -64,14 +63,10 @@ func conditionFunctions(t *types) []*function {
 		{
 			name:     "plumb_white_noise",
 			params:   []duckdb.TypeInfo{t.doubles(), t.bigint(), t.bigint()},
-			result:   t.structOf(field{"statistic", t.double()}, field{"p_value", t.double()}, field{"lags", t.bigint()}, field{"df", t.bigint()}, field{"nobs", t.bigint()}, field{"status", t.varchar()}),
+			result:   t.structOf(field{"statistic", t.double()}, field{"p_value", t.double()}, field{"lags", t.bigint()}, field{"df", t.bigint()}, field{"observations", t.bigint()}, field{"status", t.varchar()}),
 			nullable: true,
 			eval: withSeries(func(x []float64, args []driver.Value) (any, error) {
-				lags, err := intOr(args[1], "lags", 10)
-				if err != nil {
-					return nil, err
-				}
-				fitted, err := intOr(args[2], "fitted", 0)
+				lags, fitted, err := whiteNoiseArgs(args[1], args[2])
 				if err != nil {
 					return nil, err
 				}
@@ -82,7 +77,7 @@ func conditionFunctions(t *types) []*function {
 				ok := r.Status == stats.StatusOK
 				return map[string]any{
 					"statistic": value(r.Statistic, ok), "p_value": value(r.PValue, ok),
-					"lags": int64(r.Lags), "df": int64(r.DF), "nobs": int64(r.NObs), "status": string(r.Status),
+					"lags": int64(r.Lags), "df": int64(r.DF), "observations": int64(r.Observations), "status": string(r.Status),
 				}, nil
 			}),
 		},
@@ -125,7 +120,7 @@ func conditionFunctions(t *types) []*function {
 			result:   t.double(),
 			nullable: true,
 			eval: withSeries(func(x []float64, args []driver.Value) (any, error) {
-				period, err := intOr(args[1], "period", 0)
+				period, err := periodArgMeaning(args[1], "for none")
 				if err != nil {
 					return nil, err
 				}
@@ -218,7 +213,7 @@ func seasonalityType(t *types) duckdb.TypeInfo {
 		field{"peak_autocorrelation", t.double()},
 		field{"seasonal_strength", t.double()}, field{"trend_strength", t.double()},
 		field{"seasonal", t.boolean()},
-		field{"seasonal_unit_root", t.boolean()}, field{"ocsb_statistic", t.double()}, field{"ocsb_critical_5pct", t.double()},
+		field{"seasonal_unit_root", t.boolean()}, field{"ocsb_statistic", t.double()}, field{"ocsb_cutoff_05", t.double()},
 		field{"status", t.varchar()},
 	)
 }
@@ -234,12 +229,12 @@ func seasonalityStruct(r stats.SeasonalityResult) map[string]any {
 		"peak_autocorrelation": orNull(r.PeakAutocorrelation),
 		"seasonal_strength":    value(r.SeasonalStrength, ok), "trend_strength": value(r.TrendStrength, ok),
 		"seasonal": r.Seasonal, "status": string(r.Status),
-		"seasonal_unit_root": nil, "ocsb_statistic": nil, "ocsb_critical_5pct": nil,
+		"seasonal_unit_root": nil, "ocsb_statistic": nil, "ocsb_cutoff_05": nil,
 	}
 	if r.OCSB.Status == stats.StatusOK {
 		out["seasonal_unit_root"] = r.OCSB.SeasonalUnitRoot
 		out["ocsb_statistic"] = r.OCSB.Statistic
-		out["ocsb_critical_5pct"] = r.OCSB.Critical5
+		out["ocsb_cutoff_05"] = r.OCSB.Critical5
 	}
 	return out
 }
@@ -292,7 +287,7 @@ func verdictFields(t *types) []field {
 }
 
 func stationarityOptions(period, alpha driver.Value) (stats.StationarityOptions, error) {
-	p, err := intOr(period, "period", 0)
+	p, err := verdictPeriodArg(period)
 	if err != nil {
 		return stats.StationarityOptions{}, err
 	}
@@ -300,11 +295,8 @@ func stationarityOptions(period, alpha driver.Value) (stats.StationarityOptions,
 	if err != nil {
 		return stats.StationarityOptions{}, err
 	}
-	if !(a > 0 && a < 1) {
-		return stats.StationarityOptions{}, fmt.Errorf("alpha must be between 0 and 1, got %v", a)
-	}
-	if p < 0 {
-		return stats.StationarityOptions{}, fmt.Errorf("period must be NULL (detect), 1 (not seasonal) or at least 2, got %d", p)
+	if err := CheckAlpha(a); err != nil {
+		return stats.StationarityOptions{}, err
 	}
 	return stats.StationarityOptions{Period: p, Alpha: a}, nil
 }

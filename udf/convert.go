@@ -43,22 +43,28 @@ func resultValue(v any) any {
 	switch x := v.(type) {
 	case doubleList:
 		return listOrNull(x)
+	case float64:
+		return orNull(x)
 	case map[string]any:
 		for k, m := range x {
-			if l, ok := m.(doubleList); ok {
-				x[k] = listOrNull(l)
+			switch y := m.(type) {
+			case doubleList:
+				x[k] = listOrNull(y)
+			case float64:
+				x[k] = orNull(y)
 			}
 		}
 	}
 	return v
 }
 
-// listOrNull returns x as a DuckDB list with NaN written as NULL, so that a
-// missing input never reaches the user as a NaN that aggregates would absorb.
+// listOrNull returns x as a DuckDB list with NaN and ±Inf written as NULL,
+// so that a missing input never reaches the user as a NaN that aggregates
+// would absorb, and no number that could not be computed is printed as one.
 func listOrNull(x []float64) []any {
 	out := make([]any, len(x))
 	for i, v := range x {
-		if !math.IsNaN(v) {
+		if !math.IsNaN(v) && !math.IsInf(v, 0) {
 			out[i] = v
 		}
 	}

@@ -137,7 +137,7 @@ func diagnoseGroup(at []int64, x []float64, order []int, opts stats.Stationarity
 		// applied to the series with its outliers set aside).
 		if v.Differenced != nil {
 			if lb, err := stats.LjungBox(v.Differenced, 0, 0); err == nil && lb.Status == stats.StatusOK {
-				out["ljung_box_p_value"] = lb.PValue
+				out["ljung_box_p_value"] = orNull(lb.PValue)
 			}
 		}
 		if v.ShiftIndex >= 0 {
@@ -239,7 +239,8 @@ SELECT *, %d AS shard, %d AS shards FROM plumb_judged ORDER BY %s`, q.shard, q.s
 // The q-values come from one list per test, in the groups' row order,
 // adjusted in Go (plumb_q_values), unnested beside their positions and
 // joined back: ten window sorts that carried every column took about 0.1 s
-// at 10,000 groups, single-threaded.
+// at 10,000 groups, single-threaded. A group without a score (not judged)
+// has no rank.
 func rankedSQL(orderTail string) string {
 	var lists, qs []string
 	for _, test := range diagnoseTests {
@@ -257,7 +258,7 @@ func rankedSQL(orderTail string) string {
 )
 SELECT * FROM (
     SELECT plumb_numbered.* EXCLUDE (plumb_row), plumb_q.* EXCLUDE (plumb_row),
-           rank() OVER (ORDER BY score DESC NULLS LAST) AS rank
+           CASE WHEN score IS NOT NULL THEN rank() OVER (ORDER BY score DESC NULLS LAST) END AS rank
     FROM plumb_numbered JOIN plumb_q USING (plumb_row)
 )
 ORDER BY rank, %[3]s`, strings.Join(lists, ",\n           "), strings.Join(qs, ",\n       "), orderTail)

@@ -3,6 +3,7 @@ package udf
 import (
 	"database/sql/driver"
 	"fmt"
+	"strings"
 
 	"github.com/duckdb/duckdb-go/v2"
 )
@@ -66,6 +67,7 @@ func readSeriesQuery(function string, args []driver.Value) (seriesQuery, error) 
 	if q.source, err = sourceSQL(source); err != nil {
 		return q, err
 	}
+	q.label = strings.TrimSpace(source)
 	if q.by, err = columnNames(args[1], "by"); err != nil {
 		return q, err
 	}

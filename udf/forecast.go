@@ -16,19 +16,22 @@ import (
 // through its own recipe (stats.ForecastByRecipe):
 //
 //	forecast(source, by, at, value, horizon := 14, coverage := 0.95, period := NULL,
-//	         alpha := 0.05, fill := 'none', holdout := 0, bias_adjust := false)
+//	         alpha := 0.05, fill := 'none', holdout := 0, point := 'median')
 //	    one row per group and step: the group columns, at (continuing each
 //	    group's own step, in the at column's type), step (1..horizon),
 //	    forecast, lower, upper (the central prediction interval of the given
 //	    coverage) and status. With holdout := k the last k values of each
 //	    group are held out: the recipe and the model come from the rest, the
 //	    rows forecast the held-out stretch, and actual holds its values.
+//	    point says which centre of the forecast distribution the forecast
+//	    column gives in original units after a Box-Cox transform: median
+//	    (the transform of the forecast on its scale) or mean.
 //	forecast_models(same arguments)
 //	    one row per group: the recipe and the model behind the forecasts,
 //	    chosen by AICc among ARMA models fitted by exact likelihood and the
 //	    least-squares autoregression (stats.ChooseARMA): its orders
 //	    (ar_order, ma_order, seasonal_ar_order, seasonal_ma_order at
-//	    seasonal_period), constant, coefficients, residual variance, nobs
+//	    seasonal_period), constant, coefficients, residual variance, observations
 //	    (values of the stationary series), log_likelihood, aic, aicc, how it
 //	    was fitted (model_fit: exact_likelihood or least_squares) and the
 //	    Ljung-Box p-value of its residuals; with holdout := k the mean
@@ -46,7 +49,7 @@ func forecastFunctions(t *types) []*function {
 		{"mean_cause", t.varchar()}, {"seasonal_kind", t.varchar()}, {"period", t.bigint()},
 		{"box_cox_lambda", d}, {"seasonal_differences", t.bigint()}, {"differences", t.bigint()},
 		{"ar_order", t.bigint()}, {"ar_constant", d}, {"ar_coefficients", t.doubles()},
-		{"residual_variance", d}, {"nobs", t.bigint()}, {"aic", d}, {"ljung_box_p_value", d},
+		{"residual_variance", d}, {"observations", t.bigint()}, {"aic", d}, {"ljung_box_p_value", d},
 		{"mase", d}, {"interval_coverage", d},
 		{"ma_order", t.bigint()}, {"seasonal_ar_order", t.bigint()}, {"seasonal_ma_order", t.bigint()},
 		{"seasonal_period", t.bigint()}, {"ma_coefficients", t.doubles()},
@@ -57,7 +60,7 @@ func forecastFunctions(t *types) []*function {
 		name:     "plumb_forecast",
 		parallel: true,
 		params: []duckdb.TypeInfo{t.anyType(), t.bigint(), d, t.bigint(), d, t.varchar(), t.bigint(),
-			t.boolean()},
+			t.varchar()},
 		result:   t.structOf(fields...),
 		nullable: true,
 		eval: withPoints(func(p points, args []driver.Value) (any, error) {
@@ -70,11 +73,16 @@ func forecastFunctions(t *types) []*function {
 		}),
 	}, {
 		name:     "plumb_forecast_sql",
-		params:   []duckdb.TypeInfo{t.varchar(), t.anyType(), t.varchar(), t.varchar(), t.bigint(), d, t.bigint(), d, t.varchar(), t.bigint(), t.boolean(), t.boolean()},
+		params:   []duckdb.TypeInfo{t.varchar(), t.anyType(), t.varchar(), t.varchar(), t.bigint(), d, t.bigint(), d, t.varchar(), t.bigint(), t.varchar(), t.boolean()},
 		result:   t.varchar(),
 		nullable: true,
 		eval: func(args []driver.Value) (any, error) {
-			q, err := readSeriesQuery("forecast", args[:4])
+			models, _ := args[11].(bool)
+			name := "forecast"
+			if models {
+				name = "forecast_models"
+			}
+			q, err := readSeriesQuery(name, args[:4])
 			if err != nil {
 				return nil, err
 			}
@@ -86,7 +94,6 @@ func forecastFunctions(t *types) []*function {
 			for i, a := range args[4:11] {
 				literals[i] = forecastLiteral(a)
 			}
-			models, _ := args[11].(bool)
 			return forecastSQL(q, literals, models), nil
 		},
 	}}
@@ -140,11 +147,11 @@ type forecastOptions struct {
 	horizon, holdout int
 	coverage         float64
 	fill             stats.FillMethod
-	biasAdjust       bool
+	meanPoint        bool
 }
 
 // readForecastOptions reads (horizon, coverage, period, alpha, fill,
-// holdout, bias_adjust) and checks them.
+// holdout, point) and checks them.
 func readForecastOptions(args []driver.Value) (forecastOptions, error) {
 	var o forecastOptions
 	var err error
@@ -163,7 +170,19 @@ func readForecastOptions(args []driver.Value) (forecastOptions, error) {
 	if o.holdout, err = intOr(args[5], "holdout", 0); err != nil {
 		return o, err
 	}
-	o.biasAdjust, _ = args[6].(bool)
+	if args[6] != nil {
+		point, err := text(args[6], "point")
+		if err != nil {
+			return o, err
+		}
+		switch point {
+		case "median":
+		case "mean":
+			o.meanPoint = true
+		default:
+			return o, fmt.Errorf("unknown point %q: use median or mean", point)
+		}
+	}
 	switch {
 	case o.holdout < 0:
 		return o, fmt.Errorf("holdout must be 0 (none) or a positive number of values, got %d", o.holdout)
@@ -198,7 +217,7 @@ func forecastGroup(at []int64, x []float64, o forecastOptions) (any, error) {
 	out := map[string]any{"status": nil, "reason": nil, "offsets": nil, "forecast": nil, "lower": nil, "upper": nil,
 		"actual": nil, "mean_cause": nil, "seasonal_kind": nil, "period": nil, "box_cox_lambda": nil,
 		"seasonal_differences": nil, "differences": nil, "ar_order": nil, "ar_constant": nil, "ar_coefficients": nil,
-		"residual_variance": nil, "nobs": nil, "aic": nil, "ljung_box_p_value": nil, "mase": nil, "interval_coverage": nil,
+		"residual_variance": nil, "observations": nil, "aic": nil, "ljung_box_p_value": nil, "mase": nil, "interval_coverage": nil,
 		"ma_order": nil, "seasonal_ar_order": nil, "seasonal_ma_order": nil, "seasonal_period": nil, "ma_coefficients": nil,
 		"seasonal_ar_coefficients": nil, "seasonal_ma_coefficients": nil, "log_likelihood": nil, "aicc": nil, "model_fit": nil}
 	for i := 1; i < len(at); i++ {
@@ -260,7 +279,7 @@ func forecastGroup(at []int64, x []float64, o forecastOptions) (any, error) {
 	}
 	out["seasonal_differences"], out["differences"] = int64(rec.SeasonalDifferences), int64(rec.Differences)
 	f, err := stats.ForecastByRecipe(v.Judged(), rec, stats.RecipeForecastOptions{
-		Horizon: o.horizon, Coverage: o.coverage, AR: stats.AROptions{Period: rec.Period}, BiasAdjust: o.biasAdjust})
+		Horizon: o.horizon, Coverage: o.coverage, AR: stats.AROptions{Period: rec.Period}, MeanPoint: o.meanPoint})
 	if err != nil {
 		return nil, err
 	}
@@ -271,7 +290,7 @@ func forecastGroup(at []int64, x []float64, o forecastOptions) (any, error) {
 	out["forecast"], out["lower"], out["upper"] = doubleList(f.Mean), doubleList(f.Lower), doubleList(f.Upper)
 	m := f.Chosen
 	out["ar_order"], out["ar_constant"], out["ar_coefficients"] = int64(m.Order.AR), orNull(m.Constant), doubleList(m.AR)
-	out["residual_variance"], out["nobs"], out["aic"] = orNull(m.Variance), int64(m.NObs), orNull(m.AIC)
+	out["residual_variance"], out["observations"], out["aic"] = orNull(m.Variance), int64(m.Observations), orNull(m.AIC)
 	out["ma_order"], out["seasonal_ar_order"], out["seasonal_ma_order"] = int64(m.Order.MA), int64(m.Order.SeasonalAR), int64(m.Order.SeasonalMA)
 	if m.Order.SeasonalAR+m.Order.SeasonalMA > 0 {
 		out["seasonal_period"] = int64(m.Order.Period)
@@ -330,7 +349,7 @@ func forecastSQL(q seriesQuery, literals []string, models bool) string {
                    plumb_f.box_cox_lambda AS box_cox_lambda, plumb_f.seasonal_differences AS seasonal_differences,
                    plumb_f.differences AS differences, plumb_f.ar_order AS ar_order, plumb_f.ar_constant AS ar_constant,
                    plumb_f.ar_coefficients AS ar_coefficients, plumb_f.residual_variance AS residual_variance,
-                   plumb_f.nobs AS nobs, plumb_f.aic AS aic, plumb_f.ljung_box_p_value AS ljung_box_p_value,
+                   plumb_f.observations AS observations, plumb_f.aic AS aic, plumb_f.ljung_box_p_value AS ljung_box_p_value,
                    plumb_f.mase AS mase, plumb_f.interval_coverage AS interval_coverage,
                    plumb_f.ma_order AS ma_order, plumb_f.seasonal_ar_order AS seasonal_ar_order,
                    plumb_f.seasonal_ma_order AS seasonal_ma_order, plumb_f.seasonal_period AS seasonal_period,
@@ -363,11 +382,11 @@ ORDER BY %[1]s, step`, by, quoteIdent(q.at), actualOut, actual)
 
 const forecastMacros = `
 CREATE OR REPLACE TEMP MACRO forecast(source, "by", "at", value, horizon := 14, coverage := 0.95, period := NULL,
-                                      alpha := 0.05, fill := 'none', holdout := 0, bias_adjust := false) AS TABLE
+                                      alpha := 0.05, fill := 'none', holdout := 0, point := 'median') AS TABLE
     FROM query(plumb_forecast_sql(source, "by", "at", value, horizon::BIGINT, coverage::DOUBLE, period::BIGINT,
-                                  alpha::DOUBLE, fill, holdout::BIGINT, bias_adjust::BOOLEAN, false));
+                                  alpha::DOUBLE, fill, holdout::BIGINT, point, false));
 CREATE OR REPLACE TEMP MACRO forecast_models(source, "by", "at", value, horizon := 14, coverage := 0.95, period := NULL,
-                                             alpha := 0.05, fill := 'none', holdout := 0, bias_adjust := false) AS TABLE
+                                             alpha := 0.05, fill := 'none', holdout := 0, point := 'median') AS TABLE
     FROM query(plumb_forecast_sql(source, "by", "at", value, horizon::BIGINT, coverage::DOUBLE, period::BIGINT,
-                                  alpha::DOUBLE, fill, holdout::BIGINT, bias_adjust::BOOLEAN, true));
+                                  alpha::DOUBLE, fill, holdout::BIGINT, point, true));
 `

@@ -45,7 +45,8 @@ func (f *function) Config() duckdb.ScalarFuncConfig {
 }
 
 // Executor uses the chunk executor: DuckDB hands over a chunk of rows at a
-// time, which measured 10-15% cheaper than the row executor (DESIGN.md).
+// time, so the cost of the hand-over is paid per chunk rather than per row
+// (DEVELOPERS.md, "Performance notes").
 // Where duckdb-go's layout is as chunkaccess.go expects, list arguments are
 // read without boxing (executeDirect); otherwise through its iterator.
 func (f *function) Executor() duckdb.ScalarFuncExecutor {

@@ -115,6 +115,7 @@ func allFunctions() ([]*function, error) {
 		forecastFunctions(t),
 		batchFunctions(t),
 		shardFunctions(t),
+		columnsFunctions(t),
 	} {
 		all = append(all, group...)
 	}

@@ -2,7 +2,6 @@ package udf
 
 import (
 	"database/sql/driver"
-	"fmt"
 
 	"github.com/duckdb/duckdb-go/v2"
 
@@ -25,12 +24,9 @@ func outlierFunctions(t *types) []*function {
 		result:   t.list(t.bigint()),
 		nullable: true,
 		eval: withSeries(func(x []float64, args []driver.Value) (any, error) {
-			period, err := intOr(args[1], "period", 0)
+			period, err := periodArgMeaning(args[1], "for none")
 			if err != nil {
 				return nil, err
-			}
-			if period < 0 || period == 1 {
-				return nil, fmt.Errorf("period must be NULL (none) or at least 2, got %d", period)
 			}
 			if stats.CheckFinite(x) != stats.StatusOK {
 				return nil, nil

@@ -13,7 +13,8 @@ import (
 // returning a thousand values per group paid for a thousand boxes. When the
 // result type is made of the kinds below, executeDirect writes the whole
 // chunk here instead: DOUBLE, BIGINT, BOOLEAN and VARCHAR values, a
-// LIST(DOUBLE) given as a doubleList (NaN for NULL), a LIST(VARCHAR) given
+// LIST(DOUBLE) given as a doubleList (NaN for NULL; every NaN or ±Inf
+// DOUBLE is written as NULL), a LIST(VARCHAR) given
 // as a []any of strings, and a STRUCT of those given as a map[string]any. Every result is checked first; if one has
 // another Go type, nothing is written and the chunk goes through
 // duckdb-go's setter as before.
@@ -136,8 +137,8 @@ func (w *primitiveWriter[T]) begin(rows int) {
 }
 func (w *primitiveWriter[T]) write(row int, v any) {
 	x, ok := v.(T)
-	if !ok {
-		w.null(row)
+	if f, isDouble := any(x).(float64); !ok || isDouble && (math.IsNaN(f) || math.IsInf(f, 0)) {
+		w.null(row) // no plumb function returns NaN or ±Inf as a number
 		return
 	}
 	w.data[row] = x
@@ -234,7 +235,7 @@ func (w *doubleListWriter) write(row int, v any) {
 	first := w.take(row, len(l))
 	copy(w.data[first:], l)
 	for j, x := range l {
-		w.element.set(first+uint64(j), !math.IsNaN(x))
+		w.element.set(first+uint64(j), !math.IsNaN(x) && !math.IsInf(x, 0))
 	}
 }
 

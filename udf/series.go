@@ -11,6 +11,7 @@ import (
 type seriesQuery struct {
 	function string   // the table function's SQL name, for error messages
 	source   string   // a FROM item from sourceSQL
+	label    string   // the source as the caller wrote it, for error messages
 	by       []string // group columns, unquoted
 	at       string   // time column, unquoted
 	value    string   // value column, unquoted
@@ -61,26 +62,22 @@ func (q seriesQuery) groupLabelOf(prefix string) string {
 	return "concat_ws(', ', " + strings.Join(parts, ", ") + ")"
 }
 
-// inputCTE selects the needed columns from the source as plumb_input. Each
-// is picked with COLUMNS(lambda c: c = 'name') rather than by name, because
-// when a name is missing DuckDB's error for an empty COLUMNS lists every
-// column the source has, where a plain reference lists only a few look-alikes.
+// inputCTE selects the needed columns from the source as plumb_input,
+// after plumb_source_ok, which checks them against the source's own columns
+// (columns.go): a missing name fails with a message naming it and listing
+// the source's columns, not with a binder error.
 //
 // plumb_input is NOT MATERIALIZED: the batches (batches.go) read it once
 // each, and DuckDB would otherwise be free to keep a copy of the whole
 // source in memory for them.
 func (q seriesQuery) inputCTE() string {
-	names := append(append([]string{}, q.by...), q.at, q.value)
-	seen := map[string]bool{}
-	var cols []string
-	for _, n := range names {
-		if seen[n] {
-			continue
-		}
-		seen[n] = true
-		cols = append(cols, fmt.Sprintf("COLUMNS(lambda c: c = %s)", quoteLiteral(n)))
+	wanted := seriesColumns(q.by, q.at, q.value)
+	names := make([]string, len(wanted))
+	for i, w := range wanted {
+		names[i] = w.name
 	}
-	return fmt.Sprintf("plumb_input AS NOT MATERIALIZED (\n    SELECT %s\n    FROM %s\n)", strings.Join(cols, ", "), q.source)
+	return fmt.Sprintf("%s, plumb_input AS NOT MATERIALIZED (\n    %s\n)",
+		columnsCheckCTE(q.function, q.source, q.label, wanted, q.value), guardedSelect(q.source, names))
 }
 
 // seriesCTEs returns the common table expressions that turn input (a

@@ -80,14 +80,18 @@ func stationarizeFunctions(t *types) []*function {
 		result:   t.varchar(),
 		nullable: true,
 		eval: func(args []driver.Value) (any, error) {
-			q, err := readSeriesQuery("stationarize", args[:4])
+			recipes, _ := args[6].(bool)
+			name := "stationarize"
+			if recipes {
+				name = "stationarize_recipes"
+			}
+			q, err := readSeriesQuery(name, args[:4])
 			if err != nil {
 				return nil, err
 			}
 			if _, err := stationarityOptions(args[4], args[5]); err != nil {
 				return nil, err
 			}
-			recipes, _ := args[6].(bool)
 			return stationarizeSQL(q, sqlLiteral(args[4]), sqlLiteral(args[5]), recipes), nil
 		},
 	}, {
@@ -107,6 +111,7 @@ func stationarizeFunctions(t *types) []*function {
 			if err != nil {
 				return nil, err
 			}
+			recipesSQL = checkedRecipes(q.by, recipesSQL, strings.TrimSpace(recipes))
 			anchor, err := text(args[5], "anchor")
 			if err != nil {
 				return nil, err
@@ -361,6 +366,26 @@ func restoreSQL(q seriesQuery, recipes, anchor string) string {
 	return q.batchedCTEs(perGroup, rowBytes(2)) + fmt.Sprintf(`
 SELECT %[1]s, unnest(plumb_at) AS %[2]s, unnest(plumb_restored) AS %[3]s
 FROM plumb_done`, q.byList(""), quoteIdent(q.at), quoteIdent(q.value))
+}
+
+// recipeColumns are the columns of stationarize_recipes' rows that restore
+// reads, beside the group columns.
+var restoreReads = []string{"n", "last_at", "step", "box_cox_lambda", "period", "seasonal_means", "seasonal_differences",
+	"trend_intercept", "trend_slope", "shift_position", "shift_size", "differences", "head", "tail"}
+
+// checkedRecipes is restore's recipes source as a subquery that fails with
+// plumb's message (columnsCheck) when it lacks a group column or a column of
+// the recipe.
+func checkedRecipes(by []string, recipes, label string) string {
+	var wanted []wantedColumn
+	var names []string
+	for _, b := range by {
+		wanted, names = append(wanted, wantedColumn{b, "by"}), append(names, b)
+	}
+	for _, c := range restoreReads {
+		wanted, names = append(wanted, wantedColumn{c, "recipe"}), append(names, c)
+	}
+	return fmt.Sprintf("(%s\n    WHERE (%s))", guardedSelect(recipes, names), columnsCheck("restore", recipes, label, wanted, ""))
 }
 
 const stationarizeMacros = `

@@ -12,26 +12,31 @@ import (
 // unitRootFunctions wraps stats.ADF, stats.KPSS, stats.PhillipsPerron and
 // stats.DFGLS:
 //
-//	unit_root(series, method := 'adf', deterministic := 'constant', lags := NULL, lag_rule := 'aic')
+//	unit_root(series, method := 'adf', deterministic := 'level', lags := NULL, lag_rule := 'aic')
 //
-// method is adf, kpss, pp or dfgls; deterministic none, constant or trend;
-// lags is the maximum (or, with lag_rule 'fixed', the exact) number of
-// lagged differences for adf and dfgls and the bandwidth for kpss and pp,
-// NULL meaning each test's default; lag_rule is aic, bic, t_stat or fixed
-// (adf and dfgls only).
+// method is adf, kpss, pp or dfgls; deterministic none, level or
+// level_and_slope; lags is the maximum (or, with lag_rule 'given', the
+// exact) number of lagged differences for adf and dfgls and the bandwidth
+// for kpss and pp, NULL meaning each test's default; lag_rule is aic, bic,
+// drop_insignificant or given (adf and dfgls only).
+//
+// The STRUCT reads in the order a reader asks: what was tested (method,
+// deterministic terms, null hypothesis), the evidence (statistic, p-value,
+// the cut-offs at 1%, 5% and 10%), then how it was computed (lags,
+// observations, status).
 func unitRootFunctions(t *types) []*function {
 	result := t.structOf(
-		field{"statistic", t.double()},
-		field{"p_value", t.double()},
-		field{"p_value_bound", t.varchar()},
-		field{"lags", t.bigint()},
-		field{"nobs", t.bigint()},
-		field{"crit_1pct", t.double()},
-		field{"crit_5pct", t.double()},
-		field{"crit_10pct", t.double()},
 		field{"method", t.varchar()},
 		field{"deterministic", t.varchar()},
 		field{"null_hypothesis", t.varchar()},
+		field{"statistic", t.double()},
+		field{"p_value", t.double()},
+		field{"p_value_bound", t.varchar()},
+		field{"cutoff_01", t.double()},
+		field{"cutoff_05", t.double()},
+		field{"cutoff_10", t.double()},
+		field{"lags", t.bigint()},
+		field{"observations", t.bigint()},
 		field{"status", t.varchar()},
 	)
 	return []*function{{
@@ -49,7 +54,7 @@ func unitRootFunctions(t *types) []*function {
 			if err != nil {
 				return nil, err
 			}
-			method, deterministic, rule := "adf", "constant", "aic"
+			method, deterministic, rule := "adf", string(stats.DeterministicLevel), string(stats.LagAIC)
 			for i, dst := range map[int]*string{1: &method, 2: &deterministic, 4: &rule} {
 				if args[i] != nil {
 					if *dst, err = text(args[i], "option"); err != nil {
@@ -113,22 +118,22 @@ func unitRootStruct(r stats.UnitRootResult) map[string]any {
 		bound = string(r.PValueBound)
 	}
 	return map[string]any{
-		"statistic":       num(r.Statistic),
-		"p_value":         num(r.PValue),
-		"p_value_bound":   bound,
-		"lags":            count(r.Lags),
-		"nobs":            count(r.NObs),
-		"crit_1pct":       num(r.CriticalValues[0]),
-		"crit_5pct":       num(r.CriticalValues[1]),
-		"crit_10pct":      num(r.CriticalValues[2]),
 		"method":          r.Method,
 		"deterministic":   string(r.Deterministic),
 		"null_hypothesis": string(r.NullHypothesis),
+		"statistic":       num(r.Statistic),
+		"p_value":         num(r.PValue),
+		"p_value_bound":   bound,
+		"cutoff_01":       num(r.CriticalValues[0]),
+		"cutoff_05":       num(r.CriticalValues[1]),
+		"cutoff_10":       num(r.CriticalValues[2]),
+		"lags":            count(r.Lags),
+		"observations":    count(r.Observations),
 		"status":          string(r.Status),
 	}
 }
 
 const unitRootMacros = `
-CREATE OR REPLACE TEMP MACRO unit_root(series, method := 'adf', deterministic := 'constant', lags := NULL, lag_rule := 'aic') AS
+CREATE OR REPLACE TEMP MACRO unit_root(series, method := 'adf', deterministic := 'level', lags := NULL, lag_rule := 'aic') AS
     plumb_unit_root(series::DOUBLE[], method, deterministic, lags::BIGINT, lag_rule);
 `

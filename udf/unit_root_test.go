@@ -21,20 +21,20 @@ func TestUnitRootSQL(t *testing.T) {
 		// python3-statsmodels 0.13.5: adfuller(nile, maxlag=12, regression='c', autolag='AIC')
 		{"unit_root(x)", -4.048705096914342, 1, 98, "unit root"},
 		// adfuller(nile, maxlag=12, regression='ct', autolag='BIC')
-		{"unit_root(x, deterministic := 'trend', lag_rule := 'bic')", -6.607991420815025, 0, 99, "unit root"},
+		{"unit_root(x, deterministic := 'level_and_slope', lag_rule := 'bic')", -6.607991420815025, 0, 99, "unit root"},
 		// kpss(nile, regression='c', nlags='auto')
 		{"unit_root(x, method := 'kpss')", 0.8691205593783892, 5, 100, "stationary"},
 	} {
 		var stat, p float64
 		var lags, n int64
 		var null, status string
-		q := `SELECT r.statistic, r.p_value, r.lags, r.nobs, r.null_hypothesis, r.status
+		q := `SELECT r.statistic, r.p_value, r.lags, r.observations, r.null_hypothesis, r.status
 			FROM (SELECT ` + test.call + ` AS r FROM (SELECT list(value ORDER BY t) AS x FROM nile))`
 		if err := db.QueryRow(q).Scan(&stat, &p, &lags, &n, &null, &status); err != nil {
 			t.Fatalf("%s: %v", test.call, err)
 		}
 		if math.Abs(stat-test.statistic) > 1e-6*math.Abs(test.statistic) || lags != test.lags || n != test.n || null != test.null || status != "ok" {
-			t.Errorf("%s = %v (lags %d, nobs %d, %s, %s), want %v (lags %d, nobs %d, %s)",
+			t.Errorf("%s = %v (lags %d, observations %d, %s, %s), want %v (lags %d, observations %d, %s)",
 				test.call, stat, lags, n, null, status, test.statistic, test.lags, test.n, test.null)
 		}
 	}
@@ -46,7 +46,7 @@ func TestUnitRootSQLStatuses(t *testing.T) {
 		{"unit_root([1, 2, 3])", "too_short"},
 		{"unit_root([5, 5, 5, 5, 5, 5, 5, 5, 5, 5, 5, 5])", "constant"},
 		{"unit_root([1, 2, NULL, 4, 3, 5, 4, 6, 5, 7, 6, 8, 7, 9])", "non_finite"},
-		{"unit_root([1, 2, 1, 4, 3, 5, 4, 6, 5, 7, 6, 8, 7, 9], lags := 50, lag_rule := 'fixed')", "too_short"},
+		{"unit_root([1, 2, 1, 4, 3, 5, 4, 6, 5, 7, 6, 8, 7, 9], lags := 50, lag_rule := 'given')", "too_short"},
 		{"unit_root([]::DOUBLE[], method := 'pp')", "too_short"},
 		{"unit_root([]::DOUBLE[], method := 'dfgls')", "too_short"},
 	} {
@@ -64,7 +64,7 @@ func TestUnitRootSQLStatuses(t *testing.T) {
 		{"unit_root([1, 2, 3], method := 'adf2')", `unknown method "adf2"`},
 		{"unit_root([1, 2, 3], deterministic := 'quadratic')", `unknown deterministic terms "quadratic"`},
 		{"unit_root([1, 2, 3], lag_rule := 'hqic')", `unknown lag rule "hqic"`},
-		{"unit_root([1, 2, 3], method := 'kpss', deterministic := 'none')", "constant or trend"},
+		{"unit_root([1, 2, 3], method := 'kpss', deterministic := 'none')", "level or level_and_slope"},
 		{"unit_root([1, 2, 3], lags := -1)", "must not be negative"},
 	} {
 		if msg := queryError(t, db, "SELECT "+test.call); !strings.Contains(msg, test.want) {

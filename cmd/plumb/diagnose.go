@@ -9,6 +9,7 @@ import (
 	"strings"
 
 	"github.com/spf13/cobra"
+	"github.com/spf13/pflag"
 
 	"github.com/plumb-sql/plumb/cmd/internal/diagnosis"
 	"github.com/plumb-sql/plumb/cmd/internal/output"
@@ -22,14 +23,16 @@ type seriesFlags struct {
 	dbPath      string
 	memoryLimit string
 	quiet       bool
+	flags       *pflag.FlagSet
 }
 
 func (f *seriesFlags) register(cmd *cobra.Command) {
 	fl := cmd.Flags()
+	f.flags = fl
 	fl.StringVar(&f.by, "by", "", "group `COLUMNS`, comma-separated (required)")
 	fl.StringVar(&f.spec.At, "at", "", "time `COLUMN`: DATE, TIMESTAMP or integer (required)")
 	fl.StringVar(&f.spec.Value, "value", "", "value `COLUMN` (required)")
-	fl.IntVar(&f.spec.Period, "period", 0, "seasonal period (0: detect among 7, 12, 24, 52, 365)")
+	fl.IntVar(&f.spec.Period, "period", 0, "seasonal period, at least 2 (left out: detected among 7, 12, 24, 52, 365)")
 	fl.Float64Var(&f.spec.Alpha, "alpha", 0.05, "level of the verdict's tests")
 	fl.StringVar(&f.spec.Fill, "fill", "none", "gaps and missing values: none, linear or previous")
 	fl.StringVar(&f.dbPath, "db", "", "DuckDB database `FILE` holding the source table (default: in memory)")
@@ -53,6 +56,18 @@ func (f *seriesFlags) open(ctx context.Context, source string) (*sql.DB, *sql.Co
 		if b = strings.TrimSpace(b); b != "" {
 			f.spec.By = append(f.spec.By, b)
 		}
+	}
+	// The options are checked as SQL checks them (udf's checks): a period
+	// given must be at least 2, and --alpha 0 is refused, not replaced.
+	var period *int
+	if f.flags != nil && f.flags.Changed("period") {
+		period = &f.spec.Period
+	}
+	if err := udf.CheckPeriod(period); err != nil {
+		return nil, nil, err
+	}
+	if err := udf.CheckAlpha(f.spec.Alpha); err != nil {
+		return nil, nil, err
 	}
 	db, err := udf.Open(ctx, udf.Options{Path: f.dbPath, ReadOnly: f.dbPath != "", Settings: f.settings()})
 	if err != nil {

@@ -69,8 +69,8 @@ func TestCommandErrors(t *testing.T) {
 			name, source, value, want string
 		}{
 			{"missing file", filepath.Join(dir, "nope.parquet"), "units", "No files found"},
-			{"wrong column", filepath.Join(dir, "shops.parquet"), "sales", `has no column "sales"; its columns are: shop, product, day, units`},
-			{"text column", filepath.Join(dir, "shops.parquet"), "product", `the value column "product" is VARCHAR, not a number`},
+			{"wrong column", filepath.Join(dir, "shops.parquet"), "sales", `diagnose: the value column "sales" is not in ` + filepath.Join(dir, "shops.parquet") + `; its columns are: shop, product, day, units`},
+			{"text column", filepath.Join(dir, "shops.parquet"), "product", `diagnose: the value column "product" of ` + filepath.Join(dir, "shops.parquet") + ` is VARCHAR, not a number`},
 			{"empty file", empty, "units", "has no rows"},
 			{"zero-byte file", zero, "units", "cannot read"},
 		} {
@@ -86,5 +86,30 @@ func TestCommandErrors(t *testing.T) {
 	}
 	if _, err := os.Stat(filepath.Join(dir, "x.html")); err == nil {
 		t.Error("a failed report left its file behind")
+	}
+}
+
+// TestCommandOptionChecks: the options SQL refuses are refused on the
+// command line with SQL's own message (udf's checks), never replaced by a
+// default: --alpha 0 does not become 0.05, --period -3 does not become
+// "detect".
+func TestCommandOptionChecks(t *testing.T) {
+	dir := demoFiles(t)
+	source := filepath.Join(dir, "shops.parquet")
+	for _, test := range []struct {
+		flags []string
+		want  string
+	}{
+		{[]string{"--alpha", "0"}, "alpha must be between 0 and 1 (exclusive), got 0"},
+		{[]string{"--alpha", "1.5"}, "alpha must be between 0 and 1 (exclusive), got 1.5"},
+		{[]string{"--period", "-3"}, "period must be at least 2, 1 (not seasonal), or left out (NULL) to detect it; got -3"},
+		{[]string{"--period", "0"}, "period must be at least 2, 1 (not seasonal), or left out (NULL) to detect it; got 0"},
+	} {
+		for _, command := range []string{"diagnose", "forecast"} {
+			args := append([]string{command, source, "--by", "shop,product", "--at", "day", "--value", "units", "--quiet"}, test.flags...)
+			if _, err := run(t, "", args...); err == nil || err.Error() != test.want {
+				t.Errorf("%s %v: error %v, want %q", command, test.flags, err, test.want)
+			}
+		}
 	}
 }

@@ -10,13 +10,14 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/plumb-sql/plumb/cmd/internal/output"
+	"github.com/plumb-sql/plumb/udf"
 )
 
 func newForecastCommand() *cobra.Command {
 	var flags seriesFlags
 	var horizon, holdout, top int
 	var coverage float64
-	var biasAdjust bool
+	var point string
 	var out string
 	cmd := &cobra.Command{
 		Use:   "forecast SOURCE --by COLUMNS --at COLUMN --value COLUMN",
@@ -35,6 +36,7 @@ coverage.`,
 		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			ctx := cmd.Context()
+			flags.spec.Function = "forecast"
 			db, conn, err := flags.open(ctx, args[0])
 			if err != nil {
 				return err
@@ -43,8 +45,8 @@ coverage.`,
 			defer conn.Close()
 			s := flags.spec
 			call := func(fn string) string {
-				return fmt.Sprintf("%s(%s, horizon := %d, coverage := %v, holdout := %d, bias_adjust := %v)",
-					fn, s.Args(), horizon, coverage, holdout, biasAdjust)
+				return fmt.Sprintf("%s(%s, horizon := %d, coverage := %v, holdout := %d, point := %s)",
+					fn, s.Args(), horizon, coverage, holdout, udf.QuoteLiteral(point))
 			}
 			const table = "plumb_cli_forecast"
 			if _, err := conn.ExecContext(ctx, "CREATE OR REPLACE TEMP TABLE "+table+" AS FROM "+call("forecast")); err != nil {
@@ -74,7 +76,7 @@ coverage.`,
 	fl.IntVar(&horizon, "horizon", 14, "steps to forecast")
 	fl.Float64Var(&coverage, "coverage", 0.95, "coverage of the central prediction interval, between 0 and 1")
 	fl.IntVar(&holdout, "holdout", 0, "hold out the last `K` values of each group and forecast them (0: none)")
-	fl.BoolVar(&biasAdjust, "bias-adjust", false, "after a Box-Cox transform, forecast the mean instead of the median")
+	fl.StringVar(&point, "point", "median", "the point forecast in original units after a Box-Cox transform: median or mean")
 	fl.IntVar(&top, "top", 20, "print this many rows")
 	fl.StringVarP(&out, "out", "o", "", "write every row to `FILE` (.parquet, .csv or .json)")
 	return cmd

@@ -25,7 +25,7 @@ needs nothing from the network.`,
 		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if out == "" {
-				return fmt.Errorf("name the report file with -o")
+				return fmt.Errorf("name the report file with --out (-o)")
 			}
 			ctx := cmd.Context()
 			db, conn, err := flags.open(ctx, args[0])
@@ -58,6 +58,6 @@ needs nothing from the network.`,
 	}
 	flags.register(cmd)
 	cmd.Flags().IntVar(&top, "top", 12, "groups to show with pictures")
-	cmd.Flags().StringVarP(&out, "output", "o", "", "the report `FILE` (.html)")
+	cmd.Flags().StringVarP(&out, "out", "o", "", "write the report to `FILE` (.html)")
 	return cmd
 }

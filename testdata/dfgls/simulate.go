@@ -106,7 +106,7 @@ func simulate(T, reps int, seed uint64) []float64 {
 			w += rng.NormFloat64()
 			x[i] = w
 		}
-		r, err := stats.DFGLS(x, stats.DFGLSOptions{Deterministic: stats.DeterministicTrend, LagRule: stats.LagFixed, MaxLag: &zero})
+		r, err := stats.DFGLS(x, stats.DFGLSOptions{Deterministic: stats.DeterministicLevelAndSlope, LagRule: stats.LagGiven, MaxLag: &zero})
 		if err != nil || r.Status != stats.StatusOK || math.IsNaN(r.Statistic) {
 			fmt.Fprintln(os.Stderr, "simulation failed:", err, r.Status)
 			os.Exit(1)

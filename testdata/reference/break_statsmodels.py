@@ -8,17 +8,18 @@ simulated.csv from the output folder). It writes
                         that both sides read exactly the same numbers
   break_statsmodels.csv zivot_andrews on R's datasets, log realgdp, every other
                         series of simulated.csv and every series above
-Columns of break_statsmodels.csv: series; break (plumb's name: intercept,
-trend, both; statsmodels' regression "c", "t", "ct"); trim; lag_rule (aic,
-bic, t_stat: statsmodels' autolag "AIC", "BIC", "t-stat"; fixed: autolag None);
-max_lag (always passed explicitly: plumb's default min(floor(12 (T/100)^(1/4)),
-T//2 - 3, (T - 6)//2) for the automatic rules); statistic; p_value; lags
-(statsmodels' baselag); bpidx (statsmodels' break index, unconverted);
-crit_1pct, crit_5pct, crit_10pct. A statistic "failed" means statsmodels
+Columns of break_statsmodels.csv (plumb's names): series; kind (what breaks:
+level, slope, level_and_slope; statsmodels' regression "c", "t", "ct"); trim;
+lag_rule (aic, bic, drop_insignificant: statsmodels' autolag "AIC", "BIC",
+"t-stat"; given: autolag None); max_lag (always passed explicitly: plumb's
+default min(floor(12 (T/100)^(1/4)), T//2 - 3, (T - 6)//2) for the automatic
+rules); statistic; p_value; lags (statsmodels' baselag); break_index
+(statsmodels' break index, unconverted); cutoff_01, cutoff_05, cutoff_10 (the
+critical values at 1%, 5% and 10%). A statistic "failed" means statsmodels
 raised an error or returned NaN (see run below).
 
 statsmodels cannot run with maxlag=0 (it treats 0 as "use the default"), so
-fixed lags start at 1. Check values only: plumb computes its own and its tests
+given lags start at 1. Check values only: plumb computes its own and its tests
 compare.
 """
 import csv
@@ -91,7 +92,7 @@ def run(name, x, brk, reg, trim, rule, autolag, maxlag):
     with warnings.catch_warnings():
         warnings.simplefilter("ignore")
         try:
-            stat, p, crit, lags, bpidx = zivot_andrews(x, trim=trim, maxlag=maxlag, regression=reg, autolag=autolag)
+            stat, p, crit, lags, break_index = zivot_andrews(x, trim=trim, maxlag=maxlag, regression=reg, autolag=autolag)
         except (np.linalg.LinAlgError, ValueError):
             # statsmodels fails when a candidate date lies before the
             # regression sample starts (a break column constant or linear over
@@ -103,7 +104,7 @@ def run(name, x, brk, reg, trim, rule, autolag, maxlag):
         # The same cause can give NaN instead of an error.
         rows.append([name, brk, trim, rule, maxlag, "failed", "", "", "", "", "", ""])
         return
-    rows.append([name, brk, trim, rule, maxlag, fmt(stat), fmt(p), lags, bpidx,
+    rows.append([name, brk, trim, rule, maxlag, fmt(stat), fmt(p), lags, break_index,
                  fmt(crit["1%"]), fmt(crit["5%"]), fmt(crit["10%"])])
 
 
@@ -114,19 +115,19 @@ sims = read_long(out + "/simulated.csv")[::2] + read_long(out + "/break_simulate
 for name, x in datasets + sims:
     T = len(x)
     mx = default_max_lag(T)
-    for reg, brk in (("c", "intercept"), ("t", "trend"), ("ct", "both")):
-        for rule, autolag in (("aic", "AIC"), ("bic", "BIC"), ("t_stat", "t-stat")):
+    for reg, brk in (("c", "level"), ("t", "slope"), ("ct", "level_and_slope")):
+        for rule, autolag in (("aic", "AIC"), ("bic", "BIC"), ("drop_insignificant", "t-stat")):
             run(name, x, brk, reg, 0.15, rule, autolag, mx)
         for k in (1, 4):
-            run(name, x, brk, reg, 0.15, "fixed", None, k)
+            run(name, x, brk, reg, 0.15, "given", None, k)
 for name, x in datasets:
     mx = default_max_lag(len(x))
-    for reg, brk in (("c", "intercept"), ("t", "trend"), ("ct", "both")):
+    for reg, brk in (("c", "level"), ("t", "slope"), ("ct", "level_and_slope")):
         for trim in (0.05, 0.10, 0.25, 0.30):
             run(name, x, brk, reg, trim, "aic", "AIC", mx)
 
 with open(out + "/break_statsmodels.csv", "w", newline="") as f:
     w = csv.writer(f)
-    w.writerow(["series", "break", "trim", "lag_rule", "max_lag", "statistic", "p_value", "lags", "bpidx",
-                "crit_1pct", "crit_5pct", "crit_10pct"])
+    w.writerow(["series", "kind", "trim", "lag_rule", "max_lag", "statistic", "p_value", "lags", "break_index",
+                "cutoff_01", "cutoff_05", "cutoff_10"])
     w.writerows(rows)

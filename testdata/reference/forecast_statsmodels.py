@@ -113,7 +113,7 @@ for case, dataset, lam, d, D, s in CASES:
         for i, v in enumerate(r.params):  # constant first, then lags 1..order
             emit("ar_param", order, i, v)
         emit("ar_sigma2", order, 0, r.sigma2)
-        emit("ar_nobs", order, 0, r.nobs)
+        emit("ar_observations", order, 0, r.nobs)
         emit("ar_aic", order, 0, r.aic)
         emit("ar_bic", order, 0, r.bic)
 

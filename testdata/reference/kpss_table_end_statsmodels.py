@@ -37,7 +37,7 @@ series = read_long(out + "/datasets_r.csv") + read_long(out + "/datasets_statsmo
 rows = []
 for name, x in series:
     T = len(x)
-    for reg, det in (("c", "constant"), ("ct", "trend")):
+    for reg, det in (("c", "level"), ("ct", "level_and_slope")):
         for nlags in ("auto", 0, 4, 12):
             if nlags != "auto" and nlags >= T:
                 continue
@@ -46,7 +46,7 @@ for name, x in series:
                 _, p, _, _ = kpss(x, regression=reg, nlags=nlags)
             beyond = any(issubclass(c.category, InterpolationWarning) for c in caught)
             end = ("at_most" if p <= 0.01 else "at_least") if beyond else ""
-            rows.append([name, det, "auto" if nlags == "auto" else "fixed", nlags if nlags != "auto" else "", end])
+            rows.append([name, det, "auto" if nlags == "auto" else "given", nlags if nlags != "auto" else "", end])
 
 with open(out + "/kpss_table_end_statsmodels.csv", "w", newline="") as f:
     w = csv.writer(f)

@@ -1,6 +1,6 @@
 #!/usr/bin/env bash
 # Regenerates every reference value in this folder from Debian's packages:
-#   r-base-core 4.2.2 (datasets), r-cran-urca 1.3-3, r-cran-tseries 0.10-53,
+#   r-base-core 4.2.2 (datasets, diff), r-cran-urca 1.3-3, r-cran-tseries 0.10-53,
 #   r-cran-forecast 8.20,
 #   python3-statsmodels 0.13.5 and python3-scipy 1.10.1 (run with
 #   /usr/bin/python3; break_statsmodels.py reads what export_datasets.R and
@@ -16,6 +16,7 @@ here=$(cd "$(dirname "$0")" && pwd)
 out=${1:-$here}
 mkdir -p "$out"
 Rscript "$here/export_datasets.R" "$out/datasets_r.csv"
+Rscript "$here/difference_r.R" "$out"
 /usr/bin/python3 "$here/unit_root_statsmodels.py" "$out"
 /usr/bin/python3 "$here/kpss_table_end_statsmodels.py" "$out"
 /usr/bin/python3 "$here/kpss_limit_scipy.py" "$out"

@@ -30,9 +30,9 @@ import (
 func main() {
 	reps := flag.Int("reps", 100000, "replications per break kind and length")
 	flag.Parse()
-	kinds := []stats.BreakKind{stats.BreakIntercept, stats.BreakTrend, stats.BreakBoth}
+	kinds := []stats.BreakKind{stats.BreakLevel, stats.BreakSlope, stats.BreakLevelAndSlope}
 	names := map[stats.BreakKind]string{
-		stats.BreakIntercept: "BreakIntercept", stats.BreakTrend: "BreakTrend", stats.BreakBoth: "BreakBoth",
+		stats.BreakLevel: "BreakLevel", stats.BreakSlope: "BreakSlope", stats.BreakLevelAndSlope: "BreakLevelAndSlope",
 	}
 	lengths := stats.ZivotAndrewsLengths()
 	trims := stats.ZivotAndrewsTrims()

@@ -123,10 +123,10 @@ func TestDiagnoseBadInput(t *testing.T) {
 	}
 	for _, test := range []struct{ name, query, want string }{
 		{"missing source", `FROM diagnose('no_such_table', by := 'shop', at := 'day', value := 'units')`, "does not exist"},
-		{"missing by", `FROM diagnose('shops', by := 'store', at := 'day', value := 'units')`, "['shop', 'product', 'day', 'units']"},
-		{"missing at", `FROM diagnose('shops', by := 'shop', at := 'date', value := 'units')`, "['shop', 'product', 'day', 'units']"},
-		{"missing value", `FROM diagnose('shops', by := 'shop', at := 'day', value := 'sales')`, "['shop', 'product', 'day', 'units']"},
-		{"non-numeric value", `FROM diagnose('shops', by := ['shop', 'product'], at := 'day', value := 'product')`, "Could not convert string"},
+		{"missing by", `FROM diagnose('shops', by := 'store', at := 'day', value := 'units')`, `diagnose: the by column "store" is not in shops; its columns are: shop, product, day, units`},
+		{"missing at", `FROM diagnose('shops', by := 'shop', at := 'date', value := 'units')`, `diagnose: the at column "date" is not in shops; its columns are: shop, product, day, units`},
+		{"missing value", `FROM diagnose('shops', by := 'shop', at := 'day', value := 'sales')`, `diagnose: the value column "sales" is not in shops; its columns are: shop, product, day, units`},
+		{"non-numeric value", `FROM diagnose('shops', by := ['shop', 'product'], at := 'day', value := 'product')`, `diagnose: the value column "product" of shops is VARCHAR, not a number`},
 		{"duplicate at", `FROM diagnose('shops', by := 'shop', at := 'day', value := 'units')`, "repeats a value in group shop="},
 		{"bad fill", `FROM diagnose('shops', by := ['shop', 'product'], at := 'day', value := 'units', fill := 'spline')`, `unknown fill method "spline"`},
 		{"bad alpha", `FROM diagnose('shops', by := ['shop', 'product'], at := 'day', value := 'units', alpha := 0)`, "alpha must be between 0 and 1"},

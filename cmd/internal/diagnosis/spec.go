@@ -6,8 +6,8 @@ package diagnosis
 import (
 	"context"
 	"database/sql"
+	"errors"
 	"fmt"
-	"slices"
 	"strings"
 
 	"github.com/plumb-sql/plumb/udf"
@@ -25,6 +25,9 @@ type Spec struct {
 	// Shards, when above zero, diagnoses only the groups of shard Shard
 	// (0 <= Shard < Shards) and returns them unranked, for combine_diagnoses.
 	Shard, Shards int
+	// Function is the table function a command runs on the series, named
+	// in its messages ("": diagnose).
+	Function string
 }
 
 // Call returns the SQL table expression diagnose(...) for s.
@@ -88,21 +91,26 @@ func (s Spec) Check(ctx context.Context, conn *sql.Conn) error {
 	if err := rows.Err(); err != nil {
 		return fmt.Errorf("cannot read %s: %s", s.Source, firstLine(err.Error()))
 	}
-	for _, c := range append(append([]string{}, s.By...), s.At, s.Value) {
-		if _, ok := types[c]; !ok {
-			return fmt.Errorf("%s has no column %q; its columns are: %s", s.Source, c, strings.Join(names, ", "))
+	var kinds []string
+	for _, n := range names {
+		kinds = append(kinds, types[n])
+	}
+	function := s.Function
+	if function == "" {
+		function = "diagnose"
+	}
+	problem := udf.SourceColumnsProblem(function, s.Source, s.By, s.At, s.Value, names, kinds, nil)
+	if problem != "" && strings.HasPrefix(from, "'") {
+		// Only now ask whether the file holds rows, as the SQL check does.
+		var some bool
+		if err := conn.QueryRowContext(ctx, "SELECT count(*) > 0 FROM (SELECT 1 FROM "+from+" LIMIT 1)").Scan(&some); err == nil {
+			problem = udf.SourceColumnsProblem(function, s.Source, s.By, s.At, s.Value, names, kinds, &some)
 		}
 	}
-	if !numeric(types[s.Value]) {
-		return fmt.Errorf("the value column %q is %s, not a number", s.Value, types[s.Value])
+	if problem != "" {
+		return errors.New(problem)
 	}
 	return nil
-}
-
-func numeric(t string) bool {
-	t = strings.ToUpper(t)
-	return slices.Contains([]string{"TINYINT", "SMALLINT", "INTEGER", "BIGINT", "HUGEINT", "UTINYINT", "USMALLINT",
-		"UINTEGER", "UBIGINT", "UHUGEINT", "FLOAT", "DOUBLE"}, t) || strings.HasPrefix(t, "DECIMAL")
 }
 
 // firstLine keeps DuckDB's message without its caret diagram.

@@ -18,7 +18,7 @@ import (
 var (
 	seriesColor = color.RGBA{R: 31, G: 84, B: 140, A: 255}
 	meanColor   = color.RGBA{R: 200, G: 90, B: 20, A: 255}
-	bandColor   = color.RGBA{R: 230, G: 150, B: 90, A: 110}
+	bandColor   = color.NRGBA{R: 230, G: 150, B: 90, A: 110} // not premultiplied: a light orange at 43% opacity
 	boundColor  = color.RGBA{R: 150, G: 30, B: 30, A: 255}
 )
 

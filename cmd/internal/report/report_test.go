@@ -4,10 +4,12 @@ import (
 	"bytes"
 	"context"
 	"database/sql"
+	"image/png"
 	"os"
 	"os/exec"
 	"path/filepath"
 	"regexp"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -128,11 +130,76 @@ func TestReportStructure(t *testing.T) {
 			t.Errorf("panel %d does not say its reason %q", i+1, reason)
 		}
 	}
+	// The ±2 SD band and the forecast interval are translucent fills; each
+	// must be drawn in bandColor's own light orange (within 2 per channel,
+	// and light: relative luminance above 0.5), not the dark colour an
+	// invalid premultiplied value (channels above its alpha) turns into.
+	for i, p := range panels {
+		for _, class := range []string{"plot series", "plot forecast"} {
+			_, picture, _ := strings.Cut(p, `<div class="`+class+`">`)
+			picture, _, _ = strings.Cut(picture, "</svg>")
+			fills := translucentFill.FindAllStringSubmatch(picture, -1)
+			if len(fills) == 0 {
+				t.Errorf("panel %d %s: no translucent band", i+1, class)
+			}
+			for _, f := range fills {
+				r, g, b := hexByte(f[1]), hexByte(f[2]), hexByte(f[3])
+				luminance := (0.2126*float64(r) + 0.7152*float64(g) + 0.0722*float64(b)) / 255
+				if absInt(r-int(bandColor.R)) > 2 || absInt(g-int(bandColor.G)) > 2 || absInt(b-int(bandColor.B)) > 2 || luminance < 0.5 {
+					t.Errorf("panel %d %s: band fill #%s%s%s (luminance %.2f), want bandColor's light orange", i+1, class, f[1], f[2], f[3], luminance)
+				}
+			}
+		}
+	}
 	for _, bad := range []string{"http:", "https:", "url(", "src=", "<script", "@import"} {
 		if strings.Contains(html, bad) {
 			t.Errorf("the report contains %q", bad)
 		}
 	}
+}
+
+// translucentFill matches an SVG fill with an opacity, as gonum's vgsvg
+// writes it: fill:#RRGGBB (optionally AA);fill-opacity:x.
+var translucentFill = regexp.MustCompile(`fill:#([0-9A-Fa-f]{2})([0-9A-Fa-f]{2})([0-9A-Fa-f]{2})(?:[0-9A-Fa-f]{2})?;fill-opacity:0?\.[0-9]+`)
+
+func absInt(a int) int {
+	if a < 0 {
+		return -a
+	}
+	return a
+}
+
+func hexByte(h string) int {
+	v, _ := strconv.ParseUint(h, 16, 8)
+	return int(v)
+}
+
+// bandPixels counts the screenshot's pixels within 14 per channel of the
+// band's colour as drawn on white: bandColor (230, 150, 90) at alpha
+// 110/255 over (255, 255, 255) is (244, 210, 184).
+func bandPixels(t *testing.T, path string) int {
+	t.Helper()
+	f, err := os.Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	img, err := png.Decode(f)
+	if err != nil {
+		t.Fatal(err)
+	}
+	near := func(v uint32, want int) bool { d := int(v>>8) - want; return d >= -14 && d <= 14 }
+	n := 0
+	b := img.Bounds()
+	for y := b.Min.Y; y < b.Max.Y; y++ {
+		for x := b.Min.X; x < b.Max.X; x++ {
+			r, g, bl, _ := img.At(x, y).RGBA()
+			if near(r, 244) && near(g, 210) && near(bl, 184) {
+				n++
+			}
+		}
+	}
+	return n
 }
 
 func template_escape(s string) string {
@@ -170,6 +237,13 @@ func TestReportInChromium(t *testing.T) {
 		if strings.Contains(line, "CONSOLE") && (strings.Contains(line, "ERROR") || strings.Contains(line, "Uncaught")) {
 			t.Errorf("console error: %s", line)
 		}
+	}
+	// The first panels' bands must show in their light colour: thousands of
+	// pixels of it (about 33,000 in a 1400x2000 screenshot of the demo's
+	// report; a dark band, as an invalid premultiplied colour gives, leaves
+	// a few dozen).
+	if n := bandPixels(t, shot); n < 5000 {
+		t.Errorf("the screenshot has %d pixels of the band's light colour, want at least 5,000", n)
 	}
 	t.Logf("screenshot %s, %d bytes", shot, st.Size())
 }

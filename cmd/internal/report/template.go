@@ -43,6 +43,7 @@ modelling decision, not proof; with many groups some are flagged by chance, so t
 <div class="count"><b>{{.Counts.Failed}}</b>not judged</div>
 </div>
 <h2>Groups furthest from stationary</h2>
+<p class="note">Ranked by the score: how much of each series' variation its moving mean, its changing spread and its seasonal pattern explain, added up (0 to 3). A strong fixed weekly pattern, which subtracting its seasonal means removes, can rank above a random walk, which must be differenced: read the causes beside each rank.</p>
 <table id="ranked">
 <thead><tr><th>rank</th><th class="group">group</th>{{range .Columns}}<th>{{.}}</th>{{end}}</tr></thead>
 <tbody>
