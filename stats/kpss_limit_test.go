@@ -194,7 +194,7 @@ func imhofSurvival(x float64, eigen []float64, mean float64) float64 {
 // statistics whose p-values run from 0.9 to 1e-8.
 func TestKPSSLimitImhof(t *testing.T) {
 	if testing.Short() {
-		t.Skip("slow numerical integration")
+		t.Skip("a slow numerical integration: runs without -short")
 	}
 	for _, c := range []struct {
 		d    Deterministic

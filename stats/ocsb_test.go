@@ -13,7 +13,7 @@ import (
 // than 90%.
 func TestOCSBSizeAndPower(t *testing.T) {
 	if testing.Short() {
-		t.Skip("simulation")
+		t.Skip("a seeded simulation: runs without -short")
 	}
 	rng := rand.New(rand.NewPCG(41, 42))
 	const reps, s, n = 1000, 12, 240

@@ -23,7 +23,7 @@ import (
 // below 10% so that a change in either shows.
 func TestSizeAndPower(t *testing.T) {
 	if testing.Short() {
-		t.Skip("simulation")
+		t.Skip("a seeded simulation: runs without -short")
 	}
 	const reps, n = 2000, 200
 	rng := rand.New(rand.NewPCG(2026, 12))

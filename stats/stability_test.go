@@ -58,7 +58,7 @@ func TestMannKendallMatchesPairCount(t *testing.T) {
 // fourfold, the spread test rejects in more than 90%.
 func TestStabilitySize(t *testing.T) {
 	if testing.Short() {
-		t.Skip("simulation")
+		t.Skip("a seeded simulation: runs without -short")
 	}
 	rng := rand.New(rand.NewPCG(23, 24))
 	const reps, n = 500, 500

@@ -9,6 +9,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats/longtests"
 )
 
 func TestParseBytes(t *testing.T) {
@@ -167,35 +169,54 @@ func rowsDigest(t *testing.T, db *sql.DB, q string) string {
 // TestBatchesEqualUnlimited: under a memory_limit small enough to cut the
 // groups into several batches, diagnose returns the same rows as without
 // a limit, row for row in its own order (q-values and rank included), and
-// every other table function the same set of rows.
+// every other table function the same set of rows. 8,000 groups, so that
+// DuckDB's smallest workable limit (100MB) still needs several batches: a
+// long test. TestSmallBatchesEqualOneBatch checks the same on 600 groups with
+// the batch size set by plumb_batch_rows.
 func TestBatchesEqualUnlimited(t *testing.T) {
-	ctx := context.Background()
+	longtests.Require(t, "8,000 groups under memory_limit = '100MB', about 30 s")
+	limited, err := Open(context.Background(), Options{Settings: map[string]string{"memory_limit": "100MB", "threads": "2"}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer limited.Close()
+	limited.SetMaxOpenConns(1)
+	sameInBatches(t, limited, 8000)
+}
+
+// TestSmallBatchesEqualOneBatch: TestBatchesEqualUnlimited's checks on 600
+// groups cut into batches of at most 25,000 rows by plumb_batch_rows.
+func TestSmallBatchesEqualOneBatch(t *testing.T) {
+	limited := openTest(t)
+	limited.SetMaxOpenConns(1)
+	exec(t, limited, "SET VARIABLE plumb_batch_rows = 25000")
+	sameInBatches(t, limited, 600)
+}
+
+// sameInBatches writes a panel of groups in two layouts and
+// requires every table function to return on limited, which cuts the
+// groups into several batches, what one batch returns.
+func sameInBatches(t *testing.T, limited *sql.DB, groups int) {
+	t.Helper()
 	dir := t.TempDir()
 	free := openTest(t)
 	// shuffled: rows in no useful order, so a batch cannot skip any part
 	// of the file; sorted: rows in group order, so a batch reads only its
 	// own row groups. Each layout has the same rows.
 	shuffled := filepath.Join(dir, "shuffled.parquet")
-	rows := writePanel(t, free, shuffled, 8000, "hash(g), t")
+	rows := writePanel(t, free, shuffled, groups, "hash(g), t")
 	sorted := filepath.Join(dir, "sorted.parquet")
-	writePanel(t, free, sorted, 8000, "store, sku, day")
+	writePanel(t, free, sorted, groups, "store, sku, day")
 	recipes := filepath.Join(dir, "recipes.parquet")
 	exec(t, free, fmt.Sprintf(`COPY (FROM stationarize_recipes('%s', by := ['store', 'sku'], at := 'day', value := 'units')) TO '%s'`, sorted, recipes))
 	stationary := filepath.Join(dir, "stationary.parquet")
 	exec(t, free, fmt.Sprintf(`COPY (SELECT store, sku, day, stationary_value AS units
 		FROM stationarize('%s', by := ['store', 'sku'], at := 'day', value := 'units') ORDER BY store, sku, day) TO '%s'`, sorted, stationary))
 
-	limited, err := Open(ctx, Options{Settings: map[string]string{"memory_limit": "100MB", "threads": "2"}})
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer limited.Close()
-	limited.SetMaxOpenConns(1)
 	by := []string{"store", "sku"}
 	batches := queryString(t, limited, batchCount("'"+shuffled+"'", by, "day", "units", true, 0))
 	rowBatches := queryString(t, limited, batchCount("'"+sorted+"'", by, "day", "units", false, 3))
-	t.Logf("%d rows in 8000 groups; under memory_limit = '100MB' diagnose takes %s batches, differenced %s",
-		rows, batches, rowBatches)
+	t.Logf("%d rows in %d groups; diagnose takes %s batches, differenced %s", rows, groups, batches, rowBatches)
 	if n, _ := strconv.Atoi(batches); n < 3 {
 		t.Fatalf("the panel fits in %s batches; the test needs several", batches)
 	}
@@ -205,8 +226,8 @@ func TestBatchesEqualUnlimited(t *testing.T) {
 		q := fmt.Sprintf(`FROM diagnose('%s', %s)`, file, args)
 		want := textRows(t, free, q)
 		sameRows(t, "diagnose "+filepath.Base(file), textRows(t, limited, q), want)
-		if len(want) != 8000 {
-			t.Errorf("diagnose: %d groups, want 8000", len(want))
+		if len(want) != groups {
+			t.Errorf("diagnose: %d groups, want %d", len(want), groups)
 		}
 	}
 	for _, test := range []struct{ name, query string }{
@@ -219,7 +240,7 @@ func TestBatchesEqualUnlimited(t *testing.T) {
 	} {
 		want := rowsDigest(t, free, test.query)
 		if got := rowsDigest(t, limited, test.query); got != want {
-			t.Errorf("%s under the limit: %s; without: %s", test.name, got, want)
+			t.Errorf("%s in batches: %s; in one: %s", test.name, got, want)
 		}
 		if strings.HasPrefix(want, "0 rows") {
 			t.Errorf("%s: no rows", test.name)

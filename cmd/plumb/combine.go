@@ -25,8 +25,9 @@ and the rank are computed across all groups, so the rows equal those of one
 plumb diagnose over the whole source. For Parquet files it first checks
 that every shard 0 to N-1 is there, once. Prints the top groups and with
 --out writes every group's row to a .parquet, .csv or .json file.`,
-		Example: `  plumb combine 'parts/*.parquet' --out ranked.parquet`,
-		Args:    cobra.ExactArgs(1),
+		Example: `  for k in 0 1 2 3; do plumb diagnose plumb-demo/shops.parquet --by shop,product --at day --value units --shard $k/4 --out parts/part-$k.parquet; done
+  plumb combine 'parts/*.parquet' --out ranked.parquet`,
+		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			ctx := cmd.Context()
 			opts := udf.Options{Path: dbPath, ReadOnly: dbPath != ""}
@@ -65,6 +66,7 @@ that every shard 0 to N-1 is there, once. Prints the top groups and with
 				if err := writeTable(ctx, conn, table, out); err != nil {
 					return err
 				}
+				fmt.Fprintf(cmd.ErrOrStderr(), "wrote %d groups to %s\n", n, out)
 			}
 			by, err := groupColumns(ctx, conn, table)
 			if err != nil {

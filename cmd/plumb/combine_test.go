@@ -10,6 +10,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/plumb-sql/plumb/stats/longtests"
 	"github.com/plumb-sql/plumb/udf"
 )
 
@@ -136,12 +137,13 @@ func TestShardCommandsThenCombine(t *testing.T) {
 // processes, four shards of 3,000 groups, and compares the combined result
 // with one diagnose, row for row. CI installs python3-distributed.
 func TestDaskExample(t *testing.T) {
+	longtests.Require(t, "sharded diagnose on a Dask LocalCluster, about 15 s")
 	const python = "/usr/bin/python3"
 	if err := exec.Command(python, "-c", "import distributed").Run(); err != nil {
 		if os.Getenv("CI") == "true" {
 			t.Fatalf("python3-distributed is missing: %v", err)
 		}
-		t.Skip("python3-distributed is not installed (apt-get install python3-distributed); CI runs this test")
+		t.Skip("needs Debian's python3-distributed for /usr/bin/python3: apt-get install python3-distributed (.ci/run installs it)")
 	}
 	self, err := os.Executable()
 	if err != nil {

@@ -4,6 +4,7 @@ import (
 	"context"
 	"database/sql"
 	"fmt"
+	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -100,9 +101,9 @@ and with --out writes every group's row to a .parquet, .csv or .json file.
 With --shard K/N it diagnoses only the groups of shard K of N (a stable hash
 of the group columns, the same on every machine) and writes them, unranked,
 to the Parquet file --out names; plumb combine ranks the N parts together.`,
-		Example: `  plumb diagnose 'plumb-demo/shops.parquet' --by shop,product --at day --value units --period 7
-  plumb diagnose 'sales/*.parquet' --by store,sku --at day --value units --out ranked.parquet
-  plumb diagnose 'sales/*.parquet' --by store,sku --at day --value units --shard 3/8 --out parts/part-3.parquet`,
+		Example: `  plumb diagnose plumb-demo/shops.parquet --by shop,product --at day --value units --period 7
+  plumb diagnose plumb-demo/shops.parquet --by shop,product --at day --value units --top 5 --out ranked.csv
+  plumb diagnose plumb-demo/shops.parquet --by shop,product --at day --value units --shard 3/4 --out parts/part-3.parquet`,
 		Args: cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if shard != "" {
@@ -124,6 +125,7 @@ to the Parquet file --out names; plumb combine ranks the N parts together.`,
 			defer conn.Close()
 			const table = "plumb_cli_diagnosis"
 			progress := diagnosis.StartProgress(cmd.ErrOrStderr(), flags.quiet)
+			progress.CountGroups(ctx, db, flags.spec)
 			n, err := flags.spec.Materialize(ctx, conn, table)
 			progress.Stop()
 			if err != nil {
@@ -145,6 +147,7 @@ to the Parquet file --out names; plumb combine ranks the N parts together.`,
 				if err := writeTable(ctx, conn, table, out); err != nil {
 					return err
 				}
+				fmt.Fprintf(cmd.ErrOrStderr(), "wrote %d groups to %s\n", n, out)
 			}
 			return printTop(ctx, conn, table, flags.spec.By, top, n, cmd)
 		},
@@ -193,8 +196,13 @@ func writeTable(ctx context.Context, conn *sql.Conn, table, path string) error {
 
 // writePart copies a table of one shard's rows to a Parquet file with the
 // shard's number and count in the file's key-value metadata, where plumb
-// combine checks that every shard is there once.
+// combine checks that every shard is there once. A missing folder is
+// created.
 func writePart(ctx context.Context, conn *sql.Conn, table, path string, shard, shards int) error {
+	// Parts go to a folder of their own (--out parts/part-3.parquet).
+	if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
+		return fmt.Errorf("write %s: %w", path, err)
+	}
 	q := fmt.Sprintf("COPY %s TO %s (FORMAT parquet, KV_METADATA {%s: '%d', %s: '%d'})", udf.QuoteIdent(table), udf.QuoteLiteral(path),
 		partShardKey, shard, partShardsKey, shards)
 	if _, err := conn.ExecContext(ctx, q); err != nil {

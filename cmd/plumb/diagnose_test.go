@@ -30,7 +30,8 @@ func TestDiagnoseAndReportCommands(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !strings.Contains(out, "12 groups diagnosed; the 3 furthest from stationary") || !strings.Contains(out, "(3 rows)") {
+	if !strings.Contains(out, "12 groups diagnosed; the 3 furthest from stationary") || !strings.Contains(out, "(3 rows)") ||
+		!strings.Contains(out, "wrote 12 groups to "+filepath.Join(dir, "ranked.csv")+"\n") {
 		t.Errorf("diagnose printed:\n%s", out)
 	}
 	csv, err := os.ReadFile(filepath.Join(dir, "ranked.csv"))

@@ -2,8 +2,10 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"os"
 	"strings"
 
@@ -22,10 +24,15 @@ func newQueryCommand() *cobra.Command {
 		Long: `Runs SQL statements in order on one connection, printing each result.
 The SQL comes from the argument, from a file (-f), or from standard input.
 On an error, DuckDB's message goes to standard error and plumb exits non-zero;
-statements before it have run.`,
+statements before it have run. With --db naming a file that does not exist yet,
+the database is created, and kept only if every statement succeeds.
+
+The examples run after plumb demo, from the folder it ran in (the repository,
+for examples/).`,
 		Example: `  plumb query "SELECT difference([1, 4, 9, 16])"
-  plumb query -f examples/02_differenced_containers.sql --db demo.duckdb
-  echo "FROM differenced('sales/*.parquet', by := ['store', 'sku'], at := 'day', value := 'units')" | plumb query --format csv`,
+  plumb query --db demo.duckdb "CREATE OR REPLACE TABLE containers AS FROM 'plumb-demo/containers.parquet'"
+  plumb query --db demo.duckdb -f examples/02_differenced_containers.sql
+  echo "SELECT shop, product, day, differenced_value FROM differenced('plumb-demo/shops.parquet', by := ['shop', 'product'], at := 'day', value := 'units', lag := 7) LIMIT 5" | plumb query --format csv`,
 		Args: cobra.MaximumNArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			f, err := output.ParseFormat(format)
@@ -36,12 +43,29 @@ statements before it have run.`,
 			if err != nil {
 				return err
 			}
+			created := false
+			if dbPath != "" {
+				_, err := os.Stat(dbPath)
+				created = errors.Is(err, fs.ErrNotExist)
+			}
 			db, err := udf.Open(cmd.Context(), udf.Options{Path: dbPath})
 			if err != nil {
 				return err
 			}
-			defer db.Close()
-			return runScript(cmd.Context(), db, script, cmd.OutOrStdout(), f)
+			err = runScript(cmd.Context(), db, script, cmd.OutOrStdout(), f)
+			if cerr := db.Close(); err == nil {
+				err = cerr
+			}
+			switch {
+			case created && err != nil:
+				// A failed script leaves no new, half-written database behind.
+				os.Remove(dbPath)
+				os.Remove(dbPath + ".wal")
+				return fmt.Errorf("%w\n%s was not created, since the script failed", err, dbPath)
+			case created:
+				fmt.Fprintf(cmd.ErrOrStderr(), "created the database %s\n", dbPath)
+			}
+			return err
 		},
 	}
 	cmd.Flags().StringVarP(&file, "file", "f", "", "read the SQL from `FILE`")

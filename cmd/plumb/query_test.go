@@ -83,3 +83,34 @@ func TestQueryErrors(t *testing.T) {
 		}
 	}
 }
+
+// TestQueryNewDatabase: --db naming a file that does not exist creates it
+// and says so when the script succeeds, and leaves no file behind when a
+// statement fails (as plumb query --help's example once did).
+func TestQueryNewDatabase(t *testing.T) {
+	dir := t.TempDir()
+	failed := filepath.Join(dir, "failed.duckdb")
+	_, err := run(t, "", "query", "--db", failed, "CREATE TABLE a AS SELECT 1 AS x; FROM no_such_table")
+	if err == nil || !strings.Contains(err.Error(), "failed.duckdb was not created, since the script failed") {
+		t.Errorf("failing script: error %v", err)
+	}
+	if _, serr := os.Stat(failed); !os.IsNotExist(serr) {
+		t.Errorf("failing script left %s behind (%v)", failed, serr)
+	}
+	made := filepath.Join(dir, "made.duckdb")
+	out, err := run(t, "", "query", "--db", made, "CREATE TABLE a AS SELECT 1 AS x")
+	if err != nil || !strings.Contains(out, "created the database "+made) {
+		t.Errorf("new database: %q %v", out, err)
+	}
+	if _, serr := os.Stat(made); serr != nil {
+		t.Error(serr)
+	}
+	// An existing file is kept whatever happens, and nothing is said.
+	out, err = run(t, "", "query", "--db", made, "FROM no_such_table")
+	if err == nil || strings.Contains(err.Error(), "not created") || strings.Contains(out, "created") {
+		t.Errorf("existing database: %q %v", out, err)
+	}
+	if _, serr := os.Stat(made); serr != nil {
+		t.Error(serr)
+	}
+}

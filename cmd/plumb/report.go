@@ -39,6 +39,7 @@ needs nothing from the network.`,
 				return err
 			}
 			progress := diagnosis.StartProgress(cmd.ErrOrStderr(), flags.quiet)
+			progress.CountGroups(ctx, db, flags.spec)
 			rows, err := report.Render(ctx, conn, flags.spec, report.Options{Top: top}, f)
 			progress.Stop()
 			if cerr := f.Close(); err == nil {

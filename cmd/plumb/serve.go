@@ -32,7 +32,7 @@ the command line; --auth trust is allowed only on a loopback address.
 SIGINT or SIGTERM stops accepting, lets running statements finish for
 --grace, cancels (rolls back) what still runs, and closes the database.`,
 		Example: `  PLUMB_USERS='ana:s3cret' plumb serve --data ./plumb-demo --listen 127.0.0.1:5433
-  psql 'host=127.0.0.1 port=5433 user=ana dbname=plumb' -c "FROM diagnose('shops.parquet', by := ['shop','product'], at := 'day', value := 'units') LIMIT 5"`,
+  PGPASSWORD=s3cret psql 'host=127.0.0.1 port=5433 user=ana dbname=plumb' -c "SELECT shop, product, rank, violations FROM diagnose('shops.parquet', by := ['shop', 'product'], at := 'day', value := 'units') ORDER BY rank LIMIT 5"`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			var handler slog.Handler = slog.NewTextHandler(cmd.ErrOrStderr(), nil)

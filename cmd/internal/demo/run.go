@@ -48,8 +48,8 @@ func Run(ctx context.Context, cfg Config, w io.Writer) error {
 
 	fmt.Fprintf(w, "plumb demo (seed %d)\n\n", cfg.Seed)
 	for _, ds := range sets {
-		fmt.Fprintf(w, "%s: %d series of %d %s values by %s, planted behaviour per series:\n  %s\n",
-			ds.Name, len(ds.Series), seriesLength(ds), ds.ValCol, strings.Join(ds.KeyCol, " and "), kindCounts(ds))
+		fmt.Fprintf(w, "%s: %d series, one per %s, each %d %ss of %s; planted behaviour per series:\n  %s\n",
+			ds.Name, len(ds.Series), strings.Join(ds.KeyCol, " and "), seriesLength(ds), ds.AtCol, ds.ValCol, kindCounts(ds))
 	}
 
 	exs, err := examples.All()
@@ -134,9 +134,15 @@ func Run(ctx context.Context, cfg Config, w io.Writer) error {
 		fmt.Fprintf(w, "  %-40s %s\n", f[0], f[1])
 	}
 	fmt.Fprintf(w, "\nOpen the report: %s\n", reportPath)
-	fmt.Fprintf(w, "Try: go run ./cmd/plumb query \"FROM diagnose('%s', by := ['shop', 'product'], at := 'day', value := 'units') LIMIT 5\"\n",
-		files["shops"].Data)
+	fmt.Fprintf(w, "Try: go run ./cmd/plumb query \"%s\"\n", TrySQL(files["shops"].Data))
 	return nil
+}
+
+// TrySQL is the query the demo suggests last: the five shop series
+// furthest from stationary, in a handful of columns that fit a terminal.
+func TrySQL(shops string) string {
+	return fmt.Sprintf("SELECT rank, shop, product, violations, mean_cause, differences FROM diagnose('%s', "+
+		"by := ['shop', 'product'], at := 'day', value := 'units', period := 7) ORDER BY rank LIMIT 5", strings.ReplaceAll(shops, "'", "''"))
 }
 
 func seriesLength(ds demodata.Dataset) int {

@@ -8,8 +8,10 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+	"unicode/utf8"
 
 	"github.com/plumb-sql/plumb/cmd/internal/demodata"
+	"github.com/plumb-sql/plumb/cmd/internal/output"
 	"github.com/plumb-sql/plumb/udf"
 )
 
@@ -25,11 +27,46 @@ func TestRunWritesFilesAndSummary(t *testing.T) {
 			t.Errorf("%s: %v", f, err)
 		}
 	}
-	for _, want := range []string{"shops: 96 series", "containers: 30 series", "Files written:", "96                96                       96"} {
+	for _, want := range []string{"shops: 96 series, one per shop and product, each 730 days of units;",
+		"containers: 30 series, one per container, each 1440 hours of temperature;", "Files written:",
+		"96                96                       96", "Try: go run ./cmd/plumb query \"" + TrySQL(filepath.Join(dir, "shops.parquet")) + "\"\n"} {
 		if !strings.Contains(out.String(), want) {
 			t.Errorf("summary lacks %q:\n%s", want, out.String())
 		}
 	}
+	tryQueryFits(t, dir)
+}
+
+// tryQueryFits: the query the demo suggests last runs on the files it
+// wrote to dir and prints a table narrow enough for a terminal.
+func tryQueryFits(t *testing.T, dir string) {
+	t.Helper()
+	db, err := udf.Open(context.Background(), udf.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer db.Close()
+	rows, err := db.Query(TrySQL(filepath.Join(dir, "shops.parquet")))
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := output.Read(rows)
+	rows.Close()
+	if err != nil {
+		t.Fatal(err)
+	}
+	var table bytes.Buffer
+	if err := output.Write(&table, res, output.Table); err != nil {
+		t.Fatal(err)
+	}
+	widest := 0
+	for _, line := range strings.Split(table.String(), "\n") {
+		widest = max(widest, utf8.RuneCountInString(line))
+	}
+	if strings.Count(table.String(), "\n") != 8 || widest > 100 {
+		t.Errorf("the Try query printed %d lines, %d characters wide (want 5 rows within 100):\n%s", strings.Count(table.String(), "\n"), widest, table.String())
+	}
+	t.Logf("\n%s", table.String())
 }
 
 // TestUndifferenceRestoresEveryDemoGroup is the round trip on every demo

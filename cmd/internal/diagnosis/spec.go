@@ -131,6 +131,29 @@ func (s Spec) Materialize(ctx context.Context, conn *sql.Conn, name string) (int
 	return n, err
 }
 
+// CountGroups returns the number of groups diagnose judges for s: the
+// distinct keys of its group columns, of its shard when s names one.
+func (s Spec) CountGroups(ctx context.Context, db *sql.DB) (int64, error) {
+	from, err := udf.SourceSQL(s.Source)
+	if err != nil {
+		return 0, err
+	}
+	cols := make([]string, len(s.By))
+	texts := make([]string, len(s.By))
+	for i, b := range s.By {
+		cols[i] = udf.QuoteIdent(b)
+		texts[i] = "CAST(" + cols[i] + " AS VARCHAR)"
+	}
+	q := fmt.Sprintf("SELECT count(*) FROM (SELECT 1 FROM %s GROUP BY %s", from, strings.Join(cols, ", "))
+	if s.Shards > 0 {
+		// the shard of a key as diagnose computes it (udf/shard.go)
+		q += fmt.Sprintf(" HAVING plumb_shard([%s], %d) = %d", strings.Join(texts, ", "), s.Shards, s.Shard)
+	}
+	var n int64
+	err = db.QueryRowContext(ctx, q+")").Scan(&n)
+	return n, err
+}
+
 // CausesSQL is an SQL expression over a diagnose row that names its causes
 // in one short text: "mean: trend; spread: level; seasonal: fixed; 3
 // outliers". Commands show it beside the violations.

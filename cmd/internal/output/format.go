@@ -46,6 +46,10 @@ func Read(rows *sql.Rows) (*Result, error) {
 		return nil, err
 	}
 	r := &Result{Columns: cols}
+	order, err := structOrderOf(rows)
+	if err != nil {
+		return nil, err
+	}
 	for rows.Next() {
 		vals := make([]any, len(cols))
 		ptrs := make([]any, len(cols))
@@ -55,14 +59,31 @@ func Read(rows *sql.Rows) (*Result, error) {
 		if err := rows.Scan(ptrs...); err != nil {
 			return nil, err
 		}
+		if order != nil {
+			order(vals)
+		}
 		r.Rows = append(r.Rows, vals)
 	}
 	return r, rows.Err()
 }
 
+// structOrderOf is StructOrder for the columns of rows.
+func structOrderOf(rows *sql.Rows) (func([]any), error) {
+	types, err := rows.ColumnTypes()
+	if err != nil {
+		return nil, err
+	}
+	names := make([]string, len(types))
+	for i, t := range types {
+		names[i] = t.DatabaseTypeName()
+	}
+	return StructOrder(names), nil
+}
+
 // Text renders one value for a person: whole floats without a decimal
 // point, others with up to 10 significant digits; lists as [a, b]; structs
-// and maps as {name: value}; NULL as NULL.
+// (in declared order when read by Read, see StructOrder) and maps as
+// {name: value}; NULL as NULL.
 func Text(v any) string { return text(v, 10) }
 
 // Exact renders one value with every digit a float64 holds, for CSV.
@@ -91,7 +112,20 @@ func text(v any, digits int) string {
 			parts[i] = text(e, digits)
 		}
 		return "[" + strings.Join(parts, ", ") + "]"
-	case map[string]any:
+	case Struct:
+		parts := make([]string, len(x.Names))
+		for i, k := range x.Names {
+			parts[i] = k + ": " + text(x.Values[i], digits)
+		}
+		return "{" + strings.Join(parts, ", ") + "}"
+	case duckdb.OrderedMap:
+		keys, values := x.Keys(), x.Values()
+		parts := make([]string, len(keys))
+		for i, k := range keys {
+			parts[i] = text(k, digits) + ": " + text(values[i], digits)
+		}
+		return "{" + strings.Join(parts, ", ") + "}"
+	case map[string]any: // a STRUCT whose type was not known: fields by name
 		keys := make([]string, 0, len(x))
 		for k := range x {
 			keys = append(keys, k)
@@ -126,7 +160,8 @@ func formatFloat(f float64, digits int) string { return FormatFloat(f, digits, 6
 
 // JSONValue turns a value read from DuckDB into something encoding/json
 // writes faithfully: non-finite floats become strings, times RFC 3339,
-// decimals numbers, lists, structs and maps recurse (map keys as text), and
+// decimals numbers, lists, structs and maps recurse (map keys as text;
+// Struct fields and MAP entries keep their order), and
 // other values with a String method (intervals, UUIDs) their text.
 func JSONValue(v any) any { return jsonValue(v) }
 
@@ -153,11 +188,17 @@ func jsonValue(v any) any {
 			out[k] = jsonValue(e)
 		}
 		return out
+	case Struct:
+		out := jsonObject{keys: x.Names, values: make([]any, len(x.Values))}
+		for i, e := range x.Values {
+			out.values[i] = jsonValue(e)
+		}
+		return out
 	case duckdb.OrderedMap:
-		out := make(map[string]any, x.Len())
-		for _, k := range x.Keys() {
-			e, _ := x.Get(k)
-			out[fmt.Sprint(k)] = jsonValue(e)
+		keys, values := x.Keys(), x.Values()
+		out := jsonObject{keys: make([]string, len(keys)), values: make([]any, len(values))}
+		for i, k := range keys {
+			out.keys[i], out.values[i] = text(k, -1), jsonValue(values[i])
 		}
 		return out
 	case duckdb.Map:

@@ -12,18 +12,26 @@ import (
 	"github.com/plumb-sql/plumb/udf"
 )
 
-// needTool finds a client program; it skips the test where the program is
-// absent, except in CI (CI=true), whose .ci/run installs it.
+// needTool finds a client program; where it is absent the test skips with
+// one line saying what to install, except in CI (CI=true), whose .ci/run
+// installs it.
 func needTool(t *testing.T, name, pkg string) string {
 	t.Helper()
 	path, err := exec.LookPath(name)
 	if err != nil {
-		if os.Getenv("CI") == "true" {
-			t.Fatalf("%s is missing; .ci/run installs Debian's %s", name, pkg)
-		}
-		t.Skipf("%s is not installed (apt-get install %s); CI runs this test", name, pkg)
+		missing(t, name, "apt-get install "+pkg)
 	}
 	return path
+}
+
+// missing skips a test that needs what, saying how to get it; in CI, whose
+// .ci/run installs everything the tests need, it fails the test instead.
+func missing(t *testing.T, what, how string) {
+	t.Helper()
+	if os.Getenv("CI") == "true" {
+		t.Fatalf("needs %s, which .ci/run installs (%s)", what, how)
+	}
+	t.Skipf("needs %s: %s (.ci/run does this)", what, how)
 }
 
 // writeDemoShops writes a small demo scenario under dir and returns the path
@@ -93,10 +101,7 @@ func TestPsql(t *testing.T) {
 func TestPsycopg2(t *testing.T) {
 	python := needTool(t, "/usr/bin/python3", "python3")
 	if err := exec.Command(python, "-c", "import psycopg2").Run(); err != nil {
-		if os.Getenv("CI") == "true" {
-			t.Fatal("python3-psycopg2 is missing; .ci/run installs it")
-		}
-		t.Skip("python3-psycopg2 is not installed; CI runs this test")
+		missing(t, "the Python module psycopg2 for /usr/bin/python3", "apt-get install python3-psycopg2")
 	}
 	ts := startServer(t, Config{})
 	file := writeSeries(t, ts.data)

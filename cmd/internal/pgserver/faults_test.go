@@ -159,7 +159,7 @@ func FuzzMessageStream(f *testing.F) {
 // reopened database file must hold the whole table or none of it.
 func TestShutdownDuringCreateTable(t *testing.T) {
 	if os.Getenv("PLUMB_TEST_SERVE_DB") != "" {
-		t.Skip("running as the server")
+		t.Skip("not run inside the server process that TestShutdownDuringCreateTable starts")
 	}
 	for _, test := range []struct {
 		name  string
@@ -228,7 +228,7 @@ func TestShutdownDuringCreateTable(t *testing.T) {
 func TestServeProcess(t *testing.T) {
 	dbPath := os.Getenv("PLUMB_TEST_SERVE_DB")
 	if dbPath == "" {
-		t.Skip("only run as a child of TestShutdownDuringCreateTable")
+		t.Skip("not a test on its own: the server process TestShutdownDuringCreateTable starts (it sets PLUMB_TEST_SERVE_DB)")
 	}
 	grace, _ := time.ParseDuration(os.Getenv("PLUMB_TEST_SERVE_GRACE"))
 	cfg := Config{Addr: "127.0.0.1:0", Auth: "trust", DBPath: dbPath, DataDir: filepath.Dir(dbPath), Grace: grace}

@@ -13,6 +13,8 @@ import (
 	"time"
 
 	"github.com/jackc/pgx/v5"
+
+	"github.com/plumb-sql/plumb/stats/longtests"
 )
 
 // TestLoad: 32 concurrent clients each run 200 mixed statements against a
@@ -24,9 +26,7 @@ import (
 // and stops by itself. Only the intended errors may occur; p50 and p99
 // latency and the process's peak RSS are printed.
 func TestLoad(t *testing.T) {
-	if testing.Short() {
-		t.Skip("load test")
-	}
+	longtests.Require(t, "32 clients × 200 statements on loopback, about 45 s")
 	ts := startServer(t, Config{MaxConns: 40})
 	file := writeSeries(t, ts.data)
 	const clients, each = 32, 200

@@ -7,6 +7,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats/longtests"
 )
 
 // The client matrix: one script per client under testdata/clients, each
@@ -24,7 +26,7 @@ func python(t *testing.T, module string) string {
 	t.Helper()
 	py := needTool(t, "/usr/bin/python3", "python3")
 	if err := exec.Command(py, "-c", "import "+module).Run(); err != nil {
-		needTool(t, "python3-module-"+module, "python3-"+module) // skips or fails with the package's name
+		missing(t, "the Python module "+module+" for /usr/bin/python3", "apt-get install python3-"+module)
 	}
 	return py
 }
@@ -48,29 +50,30 @@ var clientScripts = []clientScript{
 		java := needTool(t, "java", "default-jdk-headless")
 		jar := "/usr/share/java/postgresql.jar"
 		if _, err := os.Stat(jar); err != nil {
-			needTool(t, jar, "libpostgresql-jdbc-java")
+			missing(t, "pgjdbc at "+jar, "apt-get install libpostgresql-jdbc-java")
 		}
 		return []string{java, "-cp", jar, filepath.Join(dir, "JdbcClient.java")}
 	}},
 	{"rpostgresql", func(t *testing.T, dir string) []string {
 		rscript := needTool(t, "Rscript", "r-base-core")
 		if err := exec.Command(rscript, "-e", "library(RPostgreSQL)").Run(); err != nil {
-			needTool(t, "R-library-RPostgreSQL", "r-cran-rpostgresql")
+			missing(t, "R's RPostgreSQL library", "apt-get install r-cran-rpostgresql")
 		}
 		return []string{rscript, filepath.Join(dir, "rpostgresql_client.R")}
 	}},
 	{"node", func(t *testing.T, dir string) []string {
 		node := needTool(t, "node", "nodejs")
 		if _, err := os.Stat(filepath.Join(nodeModules(), "pg-copy-streams")); err != nil {
-			needTool(t, filepath.Join(nodeModules(), "pg-copy-streams"), "npm packages (.ci/run installs them into PLUMB_NODE_MODULES)")
+			missing(t, "node-postgres, pg-cursor and pg-copy-streams in "+nodeModules(),
+				"run npm ci in cmd/internal/pgserver/testdata/clients/node, or set PLUMB_NODE_MODULES to a node_modules folder that has them")
 		}
 		return []string{node, filepath.Join(dir, "node", "node_client.js")}
 	}},
 }
 
-// nodeModules is where .ci/run installs node-postgres and its companions
-// (npm ci of testdata/clients/node): PLUMB_NODE_MODULES, or node_modules
-// beside the package.json.
+// nodeModules is where the node client finds node-postgres and its
+// companions: PLUMB_NODE_MODULES when set, else node_modules beside
+// testdata/clients/node/package.json, where .ci/run's npm ci puts them.
 func nodeModules() string {
 	if d := os.Getenv("PLUMB_NODE_MODULES"); d != "" {
 		return d
@@ -82,6 +85,7 @@ func nodeModules() string {
 // TestClientMatrix runs every client's script; its table is logged, and
 // the test fails if any operation failed.
 func TestClientMatrix(t *testing.T) {
+	longtests.Require(t, "seven PostgreSQL clients' scripts against a server, about 15 s")
 	dir, err := filepath.Abs(filepath.Join("testdata", "clients"))
 	if err != nil {
 		t.Fatal(err)

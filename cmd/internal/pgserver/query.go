@@ -174,6 +174,10 @@ func (sess *session) sendRows(rows *sql.Rows, cols []column, formats []int16, li
 // connection every 256 rows so that a large result does not pile up in
 // memory (and a vanished client is noticed).
 func (sess *session) eachRow(rows *sql.Rows, n int, limit int64, send func([]any)) (int64, error) {
+	order, err := structOrder(rows)
+	if err != nil {
+		return 0, err
+	}
 	vals := make([]any, n)
 	ptrs := make([]any, n)
 	for i := range vals {
@@ -183,6 +187,9 @@ func (sess *session) eachRow(rows *sql.Rows, n int, limit int64, send func([]any
 	for (limit == 0 || count < limit) && rows.Next() {
 		if err := rows.Scan(ptrs...); err != nil {
 			return count, err
+		}
+		if order != nil {
+			order(vals)
 		}
 		send(vals)
 		count++

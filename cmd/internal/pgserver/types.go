@@ -1,6 +1,7 @@
 package pgserver
 
 import (
+	"database/sql"
 	"encoding/binary"
 	"encoding/json"
 	"fmt"
@@ -183,7 +184,7 @@ func textOf(v any, oid uint32) string {
 			return arrayText(x, elem)
 		}
 		return jsonText(x)
-	case map[string]any, duckdb.OrderedMap, duckdb.Map:
+	case map[string]any, output.Struct, duckdb.OrderedMap, duckdb.Map:
 		return jsonText(x)
 	}
 	return fmt.Sprint(v)
@@ -233,6 +234,20 @@ func arrayText(list []any, elem uint32) string {
 	}
 	b.WriteByte('}')
 	return b.String()
+}
+
+// structOrder is output.StructOrder for the columns of rows: STRUCTs
+// reach the client with their fields in declared order.
+func structOrder(rows *sql.Rows) (func([]any), error) {
+	types, err := rows.ColumnTypes()
+	if err != nil {
+		return nil, err
+	}
+	names := make([]string, len(types))
+	for i, t := range types {
+		names[i] = t.DatabaseTypeName()
+	}
+	return output.StructOrder(names), nil
 }
 
 // jsonText renders lists, structs and maps as JSON.

@@ -22,7 +22,11 @@ var (
 	boundColor  = color.RGBA{R: 150, G: 30, B: 30, A: 255}
 )
 
+// The plots' size as drawn; the page scales them to its width, two a row.
 const plotWidth, plotHeight = 5.2 * vg.Inch, 2.2 * vg.Inch
+
+// tickMargin is kept free right of the plot: half a date label's width.
+const tickMargin = 0.45 * vg.Inch
 
 // axis describes the x values: times (seconds since 1970, shown as dates)
 // or plain numbers.
@@ -113,7 +117,13 @@ func addHighlight(p *plot.Plot, xy plotter.XYs, name string) error {
 	m.Width = vg.Points(1.4)
 	p.Add(m)
 	p.Legend.Add(name, m)
-	p.Legend.Top = true
+	// The legend gets a row of its own between the title and the data, so
+	// that it covers neither; at the left, icon first, so that a browser
+	// font wider than the one measured here runs into empty space.
+	row := p.Legend.TextStyle.Rectangle(name).Size().Y
+	p.Title.Padding += row
+	p.Legend.Top, p.Legend.Left = true, true
+	p.Legend.YOffs = row
 	return nil
 }
 
@@ -194,7 +204,9 @@ var (
 // itself) are dropped, so the report names no external address.
 func render(p *plot.Plot) (string, error) {
 	c := vgsvg.New(plotWidth, plotHeight)
-	p.Draw(draw.New(c))
+	// A margin on the right, so that the last tick's label (a date is
+	// centred on its tick) is not cut at the edge.
+	p.Draw(draw.Crop(draw.New(c), 0, -tickMargin, 0, 0))
 	var b bytes.Buffer
 	if _, err := c.WriteTo(&b); err != nil {
 		return "", err

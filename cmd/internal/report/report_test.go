@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"database/sql"
+	"html"
 	"image/png"
 	"os"
 	"os/exec"
@@ -208,16 +209,107 @@ func template_escape(s string) string {
 }
 
 // TestReportInChromium opens the report in headless Chromium (Debian's
-// chromium package): it must render a screenshot with no console errors.
+// chromium package) at a window 1400 px wide, with layoutCheck added to a
+// copy of it: the page must load with no console errors, every plot must
+// take at least 45% of its panel's width (two a row), no text of a plot
+// may be cut at its edge or overlap another (a legend on a title, a date
+// tick on the axis label), and no cell of the ranked table but the group
+// and its causes may wrap (a p-value broken as "3.9e-" / "06").
 // Skipped where chromium is absent, except in CI (CI=true), which installs it.
 func TestReportInChromium(t *testing.T) {
+	chromium := chromiumPath(t)
+	path, _, _ := demoReport(t)
+	page, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	checked := filepath.Join(t.TempDir(), "checked.html")
+	if err := os.WriteFile(checked, bytes.Replace(page, []byte("</body>"), []byte("<script>"+layoutCheck+"</script></body>"), 1), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	cmd := exec.Command(chromium, "--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run",
+		"--disable-background-networking", "--disable-component-update", "--disable-sync",
+		"--user-data-dir="+t.TempDir(), "--window-size=1400,2000", "--dump-dom",
+		"--enable-logging=stderr", "--v=0", "file://"+checked)
+	var dom, logs bytes.Buffer
+	cmd.Stdout, cmd.Stderr = &dom, &logs
+	if err := cmd.Run(); err != nil {
+		t.Fatalf("chromium: %v\n%s", err, logs.String())
+	}
+	for _, line := range strings.Split(logs.String(), "\n") {
+		if strings.Contains(line, "CONSOLE") && (strings.Contains(line, "ERROR") || strings.Contains(line, "Uncaught")) {
+			t.Errorf("console error: %s", line)
+		}
+	}
+	_, result, found := strings.Cut(dom.String(), `<pre id="layout-check">`)
+	result, _, _ = strings.Cut(result, "</pre>")
+	if !found {
+		t.Fatalf("the layout check did not run; chromium printed:\n%s", logs.String())
+	}
+	if result != "layout ok" {
+		t.Errorf("the report's layout at 1400 px:\n%s", html.UnescapeString(result))
+	}
+}
+
+// layoutCheck is a script that measures the report as laid out and writes
+// what it finds wrong (or "layout ok") into <pre id="layout-check">. A text's
+// box may pass the plot's edge by 30% of its thickness, and two boxes may
+// overlap by a pixel (a font's ascent and descent are in its box), except
+// the title's (the topmost text): nothing may touch it.
+const layoutCheck = `window.addEventListener('load', function () {
+  var out = [];
+  function name(t) { return JSON.stringify(t.textContent); }
+  document.querySelectorAll('.plots').forEach(function (p, pi) {
+    var w = p.getBoundingClientRect().width;
+    p.querySelectorAll('svg').forEach(function (s, si) {
+      var where = 'panel ' + (pi + 1) + ' plot ' + (si + 1) + ': ';
+      var sr = s.getBoundingClientRect();
+      if (sr.width < 0.45 * w) out.push(where + 'the plot is ' + Math.round(sr.width) + ' px wide of ' + Math.round(w));
+      var texts = Array.prototype.slice.call(s.querySelectorAll('text'));
+      var boxes = texts.map(function (t) { return t.getBoundingClientRect(); });
+      var title = 0;
+      boxes.forEach(function (b, i) { if (b.top < boxes[title].top) title = i; });
+      texts.forEach(function (t, i) {
+        var b = boxes[i];
+        var tol = 0.3 * Math.min(b.width, b.height);
+        if (b.left < sr.left - tol || b.right > sr.right + tol || b.top < sr.top - tol || b.bottom > sr.bottom + tol) out.push(where + 'cut at the edge: ' + name(t));
+        for (var j = 0; j < i; j++) {
+          var c = boxes[j];
+          var dx = Math.min(b.right, c.right) - Math.max(b.left, c.left), dy = Math.min(b.bottom, c.bottom) - Math.max(b.top, c.top);
+          var slack = (i === title || j === title) ? 0 : 1;
+          if (dx > 1 && dy > slack) out.push(where + name(t) + ' overlaps ' + name(texts[j]));
+        }
+      });
+    });
+  });
+  document.querySelectorAll('#ranked td').forEach(function (td) {
+    if (td.classList.contains('group') || td.cellIndex === 5) return;
+    var r = document.createRange(); r.selectNodeContents(td);
+    if (r.getClientRects().length > 1) out.push('wrapped cell: ' + JSON.stringify(td.textContent));
+  });
+  var pre = document.createElement('pre'); pre.id = 'layout-check';
+  pre.textContent = out.length ? out.join('\n') : 'layout ok';
+  document.body.appendChild(pre);
+});`
+
+// chromiumPath finds Debian's chromium, or skips the test saying how to get
+// it; under CI its absence is a failure, since .ci/run installs it.
+func chromiumPath(t *testing.T) string {
+	t.Helper()
 	chromium, err := exec.LookPath("chromium")
 	if err != nil {
 		if os.Getenv("CI") == "true" {
 			t.Fatal("chromium is not installed; .ci/run installs Debian's chromium package")
 		}
-		t.Skip("chromium is not installed (apt-get install chromium); CI runs this test")
+		t.Skip("needs chromium: apt-get install chromium (.ci/run installs it)")
 	}
+	return chromium
+}
+
+// TestReportBandInChromium renders the demo's report in headless Chromium
+// and counts the screenshot's pixels of the ±2 SD band's light colour.
+func TestReportBandInChromium(t *testing.T) {
+	chromium := chromiumPath(t)
 	path, _, _ := demoReport(t)
 	shot := filepath.Join(t.TempDir(), "report.png")
 	cmd := exec.Command(chromium, "--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run",
@@ -231,17 +323,12 @@ func TestReportInChromium(t *testing.T) {
 	}
 	st, err := os.Stat(shot)
 	if err != nil || st.Size() < 20000 {
-		t.Fatalf("no screenshot (%v, %d bytes)", err, st.Size())
-	}
-	for _, line := range strings.Split(logs.String(), "\n") {
-		if strings.Contains(line, "CONSOLE") && (strings.Contains(line, "ERROR") || strings.Contains(line, "Uncaught")) {
-			t.Errorf("console error: %s", line)
-		}
+		t.Fatalf("no screenshot (%v)", err)
 	}
 	// The first panels' bands must show in their light colour: thousands of
-	// pixels of it (about 33,000 in a 1400x2000 screenshot of the demo's
-	// report; a dark band, as an invalid premultiplied colour gives, leaves
-	// a few dozen).
+	// pixels of it (tens of thousands in a 1400x2000 screenshot of the
+	// demo's report; a dark band, as an invalid premultiplied colour gives,
+	// leaves a few dozen).
 	if n := bandPixels(t, shot); n < 5000 {
 		t.Errorf("the screenshot has %d pixels of the band's light colour, want at least 5,000", n)
 	}

@@ -16,11 +16,14 @@ h1 { font-size: 1.4em; } h2 { font-size: 1.15em; margin-top: 2em; } h3 { font-si
 .count small { display: block; color: #555; }
 table { border-collapse: collapse; font-size: 0.85em; }
 th, td { border-bottom: 1px solid #ddd; padding: 0.25em 0.6em; text-align: right; }
+td { white-space: nowrap; }
 th.group, td.group, td.text { text-align: left; }
+td.group, td:nth-child(6) { white-space: normal; }
 td:nth-child(6) { text-align: left; }
 .panel { border-top: 1px solid #ccc; margin-top: 1.5em; padding-top: 0.5em; }
-.plots { display: flex; flex-wrap: wrap; gap: 0.5em; }
-.plots > div { flex: 0 0 auto; }
+.plots { display: grid; grid-template-columns: repeat(2, minmax(0, 1fr)); gap: 0.5em 1em; }
+.plots svg { display: block; width: 100%; height: auto; }
+@media (max-width: 50em) { .plots { grid-template-columns: minmax(0, 1fr); } }
 .verdict { color: #555; margin: 0.2em 0 0.6em; }
 .missing { color: #999; font-style: italic; }
 .note { color: #555; font-size: 0.9em; max-width: 60em; }
