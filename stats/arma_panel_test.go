@@ -4,19 +4,20 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
-	"os"
 	"sort"
 	"strings"
 	"sync"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats/longtests"
 )
 
 // Seeded panels for the ARMA model choice: the orders chosen and the
 // coverage of the 95% intervals through the whole pipeline (verdict,
-// recipe, model, forecast). They are long (about a quarter of an hour on
-// two cores) and run only when PLUMB_FULL_SIMULATIONS is set:
+// recipe, model, forecast). They are long (about ten minutes on two
+// cores) and run only with the long tests (stats/longtests):
 //
-//	PLUMB_FULL_SIMULATIONS=1 go test ./stats -run 'TestARMAPanel' -v -timeout 1h
+//	PLUMB_LONG_TESTS=1 go test ./stats -run 'TestARMAPanel' -v -timeout 1h
 //
 // The README's tables come from that run; the tests check nothing beyond
 // that every series gets a forecast, so that a change in the numbers is
@@ -186,9 +187,7 @@ func topOrders(counts map[string]int, k int) string {
 // TestARMAPanel: 1,000 series of 300 values per case (seed 20261204),
 // horizon 14.
 func TestARMAPanel(t *testing.T) {
-	if os.Getenv("PLUMB_FULL_SIMULATIONS") == "" {
-		t.Skip("a long simulation: set PLUMB_FULL_SIMULATIONS=1 to run it")
-	}
+	longtests.Require(t, "4 × 1,000 simulated series through verdict, recipe and two forecasts each, about ten minutes")
 	const series, n, horizon = 1000, 300, 14
 	var out strings.Builder
 	for ci, c := range armaPanelCases {
