@@ -147,14 +147,22 @@ func FitARMA(w []float64, o ARMAOrder, start *ARMAModel) (ARMAModel, error) {
 // (about 1e-7, one evaluation a parameter instead of two).
 // A loose fit leaves the residuals out (the search computes them for the
 // chosen model only).
+// A loose fit also stops after fewer iterations and evaluations: a
+// candidate whose optimum lies on the boundary (a moving-average root at
+// the unit circle, common after an unneeded difference) crawls towards it
+// and would otherwise cost hundreds of evaluations.
 type fitPrecision struct {
 	gradient, function float64
 	central, residuals bool
+	iterations, evals  int
+	// used, when set, counts the likelihood evaluations (ChooseARMA's
+	// budget).
+	used *int
 }
 
 var (
-	tightFit = fitPrecision{gradient: 1e-9, function: 1e-14, central: true, residuals: true}
-	looseFit = fitPrecision{gradient: 1e-5, function: 1e-10}
+	tightFit = fitPrecision{gradient: 1e-9, function: 1e-14, central: true, residuals: true, iterations: 400, evals: 20000}
+	looseFit = fitPrecision{gradient: 1e-5, function: 1e-10, iterations: 60, evals: 600}
 )
 
 func fitARMA(w []float64, o ARMAOrder, start *ARMAModel, precision fitPrecision) (ARMAModel, error) {
@@ -192,6 +200,9 @@ func fitARMA(w []float64, o ARMAOrder, start *ARMAModel, precision fitPrecision)
 		}
 	}
 	objective := func(x []float64) float64 {
+		if precision.used != nil {
+			*precision.used++
+		}
 		ar, ma, sar, sma, mean := armaParams(x, o)
 		_, logL, _ := armaLikelihood(ws, o, ar, ma, sar, sma, mean, false)
 		if math.IsInf(logL, -1) || math.IsNaN(logL) {
@@ -229,8 +240,10 @@ func fitARMA(w []float64, o ARMAOrder, start *ARMAModel, precision fitPrecision)
 		settings := &optimize.Settings{
 			GradientThreshold: precision.gradient,
 			Converger:         &optimize.FunctionConverge{Absolute: precision.function, Relative: precision.function, Iterations: 20},
-			MajorIterations:   400,
-			FuncEvaluations:   20000,
+			MajorIterations:   precision.iterations,
+			FuncEvaluations:   precision.evals,
+			// Each gradient costs k (forward) or 2k (central) evaluations.
+			GradEvaluations: max(1, precision.evals/(2*k)),
 		}
 		result, _ := optimize.Minimize(problem, x0, settings, &optimize.BFGS{})
 		if result != nil && result.F < objective(x0) {

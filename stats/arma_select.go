@@ -20,10 +20,12 @@ type ARMASearch struct {
 	MaxFits int
 }
 
-// Defaults of the search: p, q ≤ 3, P, Q ≤ 1, at most 30 fits; the
-// screen's order (see ChooseARMA).
+// Defaults of the search: p, q ≤ 3, P, Q ≤ 1, at most 30 fits and 4e6
+// filter steps (about 2,000 evaluations of an ARMA(1,1) on 1,000 values);
+// the screen's order (see ChooseARMA).
 const (
 	ShortAROrder                = 2
+	DefaultARMAWork             = 4_000_000
 	DefaultMaxARMAOrder         = 3
 	DefaultMaxSeasonalARMAOrder = 1
 	DefaultMaxARMAFits          = 30
@@ -53,7 +55,10 @@ type ARMAChoice struct {
 //     q ± 1, p and q together ± 1, P ± 1, Q ± 1, P and Q together ± 1, and,
 //     after one difference, the same orders with the mean (drift) added or
 //     removed. Move to the best neighbour if it lowers AICc; stop when none
-//     does or after MaxFits fits.
+//     does, after MaxFits fits or when the likelihood evaluations have cost
+//     DefaultARMAWork filter steps in all (an evaluation costs about n·r, r
+//     the state's dimension; a fit stopped by the budget still competes
+//     with what it reached).
 //  3. Orders stay within the bounds, and a model is a candidate only when w
 //     holds at least the lags it reaches plus its coefficients plus three
 //     values (MinARMALength).
@@ -63,10 +68,12 @@ type ARMAChoice struct {
 //     lower still; a non-stationary least-squares fit is not a candidate.
 //
 // A screen comes first: when the least-squares autoregression needs at
-// most ShortAROrder lags (by AIC), moving-average terms have little to
-// add, and the search is only that autoregression fitted by exact
+// most ShortAROrder lags (by AIC, or by BIC (Schwarz 1978), which keeps
+// fewer spurious lags on long series), moving-average terms have little to
+// add, and the search is only the AIC autoregression fitted by exact
 // likelihood (each mean choice, started from the least-squares
-// coefficients) against its least-squares fit. Steps 1-2 run when it needs
+// coefficients; the BIC one when only BIC screened it) against the AIC
+// least-squares fit. Steps 1-2 run when it needs
 // more, which is where an ARMA model is more parsimonious (an MA(1) with
 // θ = -0.5 needs about five autoregressive lags; a seasonal pattern, about
 // a period's worth).
@@ -117,13 +124,25 @@ func ChooseARMA(w []float64, opts ARMASearch) (ARMAChoice, error) {
 			len(w) >= MinARMALength(o)
 	}
 	fitted := map[ARMAOrder]ARMAModel{}
+	work := 0 // filter steps so far, evaluations times n·r
 	var best *ARMAModel
 	var firstFailure Status
 	try := func(o ARMAOrder, from *ARMAModel) {
 		if _, done := fitted[o]; done || !admissible(o) || out.Fits >= maxFits {
 			return
 		}
-		m, err2 := fitARMA(w, o, warmStart(from, o), looseFit)
+		// An evaluation costs about n·r steps, r = max(p + sP, q + sQ + 1).
+		cost := len(w) * max(o.AR+s*o.SeasonalAR, o.MA+s*o.SeasonalMA+1)
+		left := (DefaultARMAWork - work) / cost
+		if left < 1 {
+			return
+		}
+		precision := looseFit
+		precision.evals = min(precision.evals, left)
+		evals := 0
+		precision.used = &evals
+		m, err2 := fitARMA(w, o, warmStart(from, o), precision)
+		work += evals * cost
 		if err2 != nil {
 			err = err2
 			return
@@ -142,12 +161,22 @@ func ChooseARMA(w []float64, opts ARMASearch) (ARMAChoice, error) {
 		}
 	}
 	short := ls.Status == StatusOK && ls.Order <= ShortAROrder
+	shortModel := ls
+	if ls.Status == StatusOK && !short {
+		// AIC often keeps a few spurious lags on a long series; the screen
+		// asks BIC, which does not.
+		bicOpts := arOpts
+		bicOpts.Rule = LagBIC
+		if byBIC, err := FitAR(w, bicOpts); err == nil && byBIC.Status == StatusOK && byBIC.Order <= ShortAROrder {
+			short, shortModel = true, byBIC
+		}
+	}
 	if short {
 		// A short autoregression describes w: fit it by exact likelihood
 		// from the least-squares coefficients, with each mean choice.
-		from := ARMAModel{Order: ARMAOrder{AR: ls.Order}, AR: ls.Coefficients, Status: StatusOK, Mean: nan()}
+		from := ARMAModel{Order: ARMAOrder{AR: shortModel.Order}, AR: shortModel.Coefficients, Status: StatusOK, Mean: nan()}
 		for _, mean := range meanChoices {
-			try(ARMAOrder{AR: ls.Order, Period: s, WithMean: mean}, &from)
+			try(ARMAOrder{AR: shortModel.Order, Period: s, WithMean: mean}, &from)
 		}
 	} else {
 		starts := []ARMAOrder{{}, {AR: 1}, {MA: 1}, {AR: 1, MA: 1}}
