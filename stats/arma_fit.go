@@ -103,19 +103,28 @@ func armaLikelihood(w []float64, o ARMAOrder, ar, ma, sar, sma []float64, mean f
 }
 
 // armaParams unpacks a free parameter vector: AR, MA, seasonal AR,
-// seasonal MA blocks (each through the stationary or invertible map), then
-// the mean.
-func armaParams(x []float64, o ARMAOrder) (ar, ma, sar, sma []float64, mean float64) {
+// seasonal MA blocks, each through the stationary or invertible map (the
+// mean is not among them: fastSumsMean concentrates it out).
+func armaParams(x []float64, o ARMAOrder) (ar, ma, sar, sma []float64) {
 	i := 0
 	take := func(n int) []float64 { s := x[i : i+n]; i += n; return s }
 	ar = stationaryFromFree(take(o.AR))
 	ma = invertibleFromFree(take(o.MA))
 	sar = stationaryFromFree(take(o.SeasonalAR))
 	sma = invertibleFromFree(take(o.SeasonalMA))
-	if o.WithMean {
-		mean = x[i]
-	}
 	return
+}
+
+// concentrated returns the σ²- and μ-concentrated log-likelihood of ws at
+// the coefficients, and μ̂ (0 without a mean).
+func concentrated(ws []float64, o ARMAOrder, ar, ma, sar, sma []float64) (logL, mean float64) {
+	a, b := expandARMA(ar, ma, sar, sma, o.Period)
+	sq, lf, mu, ok := newARMAStateSpace(a, b).fastSumsMean(ws, o.WithMean)
+	if !ok {
+		return math.Inf(-1), 0
+	}
+	logL, _ = armaFilterResult{SumSquares: sq, SumLogF: lf}.concentratedLogLikelihood(len(ws))
+	return logL, mu
 }
 
 // FitARMA fits the ARMAOrder o to w by exact maximum likelihood.
@@ -127,7 +136,9 @@ func armaParams(x []float64, o ARMAOrder) (ar, ma, sar, sma []float64, mean floa
 // the stationary region of each autoregressive polynomial and the
 // invertible region of each moving-average one (stationaryFromFree:
 // Jones 1980, Monahan 1984), so every candidate the optimiser visits is a
-// stationary, invertible model; the mean is free. w is first centred on
+// stationary, invertible model; the mean is concentrated out with σ² (its
+// generalised least-squares estimate at each point, fastSumsMean). w is
+// first centred on
 // its sample mean (when the model has one) and divided by its root mean
 // square about that centre, which leaves the
 // estimates unchanged (they are mapped back) and keeps the mean's scale
@@ -192,7 +203,7 @@ func fitARMA(w []float64, o ARMAOrder, start *ARMAModel, precision fitPrecision)
 	for i, v := range w {
 		ws[i] = (v - center) / scale
 	}
-	k := o.parameters()
+	k := o.AR + o.MA + o.SeasonalAR + o.SeasonalMA // free parameters; μ is concentrated
 	x0 := make([]float64, k)
 	if start != nil && start.Status == StatusOK && start.Order == o {
 		if v, ok := armaFree(*start, center, scale); ok {
@@ -203,8 +214,8 @@ func fitARMA(w []float64, o ARMAOrder, start *ARMAModel, precision fitPrecision)
 		if precision.used != nil {
 			*precision.used++
 		}
-		ar, ma, sar, sma, mean := armaParams(x, o)
-		_, logL, _ := armaLikelihood(ws, o, ar, ma, sar, sma, mean, false)
+		ar, ma, sar, sma := armaParams(x, o)
+		logL, _ := concentrated(ws, o, ar, ma, sar, sma)
 		if math.IsInf(logL, -1) || math.IsNaN(logL) {
 			return math.MaxFloat64 / 4
 		}
@@ -250,7 +261,8 @@ func fitARMA(w []float64, o ARMAOrder, start *ARMAModel, precision fitPrecision)
 			best = result.X
 		}
 	}
-	ar, ma, sar, sma, mean := armaParams(best, o)
+	ar, ma, sar, sma := armaParams(best, o)
+	_, mean := concentrated(ws, o, ar, ma, sar, sma)
 	m, s := armaModelAt(w, o, ar, ma, sar, sma, center+scale*mean, precision.residuals)
 	if s != StatusOK {
 		return failedARMA(s, o), nil
@@ -274,13 +286,6 @@ func armaFree(m ARMAModel, center, scale float64) ([]float64, bool) {
 			return nil, false
 		}
 		x = append(x, f...)
-	}
-	if m.Order.WithMean {
-		mean := 0.0 // a new mean starts at w's sample mean
-		if !math.IsNaN(m.Mean) {
-			mean = (m.Mean - center) / scale
-		}
-		x = append(x, mean)
 	}
 	return x, true
 }

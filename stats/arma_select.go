@@ -174,7 +174,7 @@ func ChooseARMA(w []float64, opts ARMASearch) (ARMAChoice, error) {
 	if short {
 		// A short autoregression describes w: fit it by exact likelihood
 		// from the least-squares coefficients, with each mean choice.
-		from := ARMAModel{Order: ARMAOrder{AR: shortModel.Order}, AR: shortModel.Coefficients, Status: StatusOK, Mean: nan()}
+		from := ARMAModel{Order: ARMAOrder{AR: shortModel.Order}, AR: shortModel.Coefficients, Status: StatusOK}
 		for _, mean := range meanChoices {
 			try(ARMAOrder{AR: shortModel.Order, Period: s, WithMean: mean}, &from)
 		}
@@ -250,8 +250,9 @@ func ChooseARMA(w []float64, opts ARMASearch) (ARMAChoice, error) {
 	return out, nil
 }
 
-// warmStart returns the fitted neighbour's estimates reshaped to order o
-// (coefficients carried over, new ones zero, dropped ones cut), or nil when
+// warmStart returns the fitted neighbour's coefficients reshaped to order
+// o (carried over, new ones zero, dropped ones cut; the mean is
+// concentrated out, so it needs no start), or nil when
 // there is no neighbour or the reshaped polynomials leave the stationary or
 // invertible region (FitARMA then starts from white noise).
 func warmStart(from *ARMAModel, o ARMAOrder) *ARMAModel {
@@ -266,11 +267,5 @@ func warmStart(from *ARMAModel, o ARMAOrder) *ARMAModel {
 	m := ARMAModel{Order: o, Status: StatusOK,
 		AR: resize(from.AR, o.AR), MA: resize(from.MA, o.MA),
 		SeasonalAR: resize(from.SeasonalAR, o.SeasonalAR), SeasonalMA: resize(from.SeasonalMA, o.SeasonalMA)}
-	if o.WithMean {
-		m.Mean = from.Mean
-		if !from.Order.WithMean {
-			m.Mean = nan() // FitARMA starts a new mean at w's own
-		}
-	}
 	return &m
 }

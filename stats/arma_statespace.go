@@ -427,14 +427,30 @@ func (ss *armaStateSpace) firstColumn(g []float64) (f float64, ok bool) {
 // from; it is what the optimiser evaluates. Once the update m_t·(Z·w_t)² is
 // negligible (steadyTolerance relative to F), F and G stay fixed.
 func (ss *armaStateSpace) fastSums(x []float64) (sumSquares, sumLogF float64, ok bool) {
+	sumSquares, sumLogF, _, ok = ss.fastSumsMean(x, false)
+	return sumSquares, sumLogF, ok
+}
+
+// fastSumsMean is fastSums with, when withMean is set, the mean of x
+// concentrated out: the model's gains do not depend on the mean, so the
+// innovations of x - μ are v_t - μ·u_t, with u_t those of a series of ones
+// filtered alongside, and Σ (v_t - μ·u_t)²/F_t is least at the generalised
+// least-squares mean μ̂ = Σ v_t·u_t/F_t / Σ u_t²/F_t, the maximum-likelihood
+// estimate of μ at the given coefficients. It returns the sums at μ̂, and μ̂
+// (0 without withMean).
+func (ss *armaStateSpace) fastSumsMean(x []float64, withMean bool) (sumSquares, sumLogF, mean float64, ok bool) {
 	r := ss.r
 	phi := ss.phi
-	buf := getScratch(4 * r)
+	buf := getScratch(5 * r)
 	defer putScratch(buf)
-	g, w, a, tw := buf[:r], buf[r:2*r], buf[2*r:3*r], buf[3*r:4*r]
+	g, w, a, tw, a1 := buf[:r], buf[r:2*r], buf[2*r:3*r], buf[3*r:4*r], buf[4*r:5*r]
+	for i := range a1 {
+		a1[i] = 0
+	}
+	var cross, ones float64 // Σ v·u/F and Σ u²/F
 	f, ok := ss.firstColumn(g)
 	if !ok {
-		return 0, 0, false
+		return 0, 0, 0, false
 	}
 	copy(w, g)
 	m := -1 / f
@@ -459,6 +475,16 @@ func (ss *armaStateSpace) fastSums(x []float64) (sumSquares, sumLogF float64, ok
 			a[i] = phi[i]*a0 + a[i+1] + g[i]/f*v
 		}
 		a[r-1] = phi[r-1]*a0 + g[r-1]/f*v
+		if withMean {
+			u := 1 - a1[0]
+			cross += v * u / f
+			ones += u * u / f
+			b0 := a1[0]
+			for i := 0; i < r-1; i++ {
+				a1[i] = phi[i]*b0 + a1[i+1] + g[i]/f*u
+			}
+			a1[r-1] = phi[r-1]*b0 + g[r-1]/f*u
+		}
 		if steady {
 			continue
 		}
@@ -470,7 +496,7 @@ func (ss *armaStateSpace) fastSums(x []float64) (sumSquares, sumLogF float64, ok
 		df := m * u * u
 		fNext := f + df
 		if !(fNext > 0) {
-			return 0, 0, false
+			return 0, 0, 0, false
 		}
 		dg := 0.0
 		for i := 0; i < r; i++ {
@@ -485,8 +511,15 @@ func (ss *armaStateSpace) fastSums(x []float64) (sumSquares, sumLogF float64, ok
 			steady, settled = true, t+1
 		}
 	}
-	if !(sumSquares < math.Inf(1)) || math.IsNaN(sumSquares) {
-		return 0, 0, false
+	if withMean {
+		if !(ones > 0) {
+			return 0, 0, 0, false
+		}
+		mean = cross / ones
+		sumSquares -= cross * mean
 	}
-	return sumSquares, sumLogF, true
+	if !(sumSquares > 0) || math.IsInf(sumSquares, 0) || math.IsNaN(sumSquares) {
+		return 0, 0, 0, false
+	}
+	return sumSquares, sumLogF, mean, true
 }
