@@ -217,11 +217,12 @@ func seasonalBySeason(s SeasonalityResult) bool {
 //   - With it, and no seasonal differencing, two alternatives that also
 //     explain a persistent-looking series are tried, each overriding the
 //     unit-root evidence at α/2 (Bonferroni over the two): a
-//     trend-stationary series (ADF with a trend rejects a unit root at
-//     α/2, the trend's slope is significant at α by its Newey-West t, and
-//     stationaryAroundLine), and a level shift in a stationary series (the
-//     break test, MeanBreak, significant at α, and stationaryAroundShift:
-//     Zivot-Andrews at α/2 and KPSS with the shift removed). If both hold,
+//     trend-stationary series (rejectsAroundLine: ADF with a trend at α/2;
+//     the trend's slope significant at α by its Newey-West t; and
+//     stationaryAroundLine: KPSS with a trend), and a level shift in a
+//     stationary series (the break test, MeanBreak, significant at α;
+//     rejectsAroundShift: Zivot-Andrews at α/2; and stationaryAroundShift:
+//     KPSS with the shift removed). If both hold,
 //     the one with the lower BIC (the line: 2 parameters; the shift: 3,
 //     its date counted) wins. Otherwise the cause is a unit root, and d
 //     follows the differencing sequence (up to 2).
@@ -231,8 +232,8 @@ func seasonalBySeason(s SeasonalityResult) bool {
 //     attribute the cause, so that a stationary series is not tested four
 //     times). The cause is then whichever of a trend (the slope's
 //     Newey-West t) and a shift (the break test) is significant at α and
-//     leaves a stationary series by the same checks (stationaryAroundLine,
-//     stationaryAroundShift), by BIC if both; if neither, a unit root (one
+//     whose unit-root test rejects at α (rejectsAroundLine,
+//     rejectsAroundShift), by BIC if both; if neither, a unit root (one
 //     difference).
 func (j *judgement) meanDecision(z []float64, o judgeOptions, stabilityPeriod int) ([]float64, error) {
 	alpha, each := o.alpha, o.alpha/4
@@ -269,21 +270,24 @@ func (j *judgement) meanDecision(z []float64, o judgeOptions, stabilityPeriod in
 	case unitRoot && deterministic:
 		// Cheapest first: ADF with a trend rejects a unit root only for a
 		// few series with one, so most never need the slope's Newey-West t.
-		if adf, err := ADF(z, ADFOptions{Deterministic: DeterministicLevelAndSlope}); err == nil && adf.Status == StatusOK && adf.PValue < alpha/2 {
+		if rejectsAroundLine(z, alpha/2) {
 			trendOK = line.pValue() < alpha && stationaryAroundLine(z, alpha)
 		}
 		if shiftP < alpha {
-			if shiftOK, err = j.stationaryAroundShift(z, alpha); err != nil {
+			if shiftOK, err = j.rejectsAroundShift(z, alpha/2); err != nil {
 				return nil, err
 			}
+			shiftOK = shiftOK && j.stationaryAroundShift(z, alpha)
 		}
 	case !unitRoot && deterministic && meanMoves(j, each/2):
-		// The same evidence as above that the series is stationary around
-		// the line or the shift; ADF has already rejected a unit root
-		// without either.
-		trendOK = line.pValue() < alpha && stationaryAroundLine(z, alpha)
+		// ADF without a line or a shift has rejected a unit root; the
+		// unit-root test that allows for the line (ADF with a trend) or for
+		// the shift (Zivot-Andrews) must reject it too, at α: here they
+		// confirm, they do not override. KPSS, which over-rejects
+		// persistent stationary series, is not asked.
+		trendOK = line.pValue() < alpha && rejectsAroundLine(z, alpha)
 		if shiftP < alpha {
-			if shiftOK, err = j.stationaryAroundShift(z, alpha); err != nil {
+			if shiftOK, err = j.rejectsAroundShift(z, alpha); err != nil {
 				return nil, err
 			}
 		}
@@ -318,38 +322,52 @@ func (j *judgement) meanDecision(z []float64, o judgeOptions, stabilityPeriod in
 	return z, nil
 }
 
-// stationaryAroundLine reports whether KPSS with a trend does not reject,
-// at α, that z is stationary around a straight line: what a trend must
-// leave for it to explain a moving mean.
-func stationaryAroundLine(z []float64, alpha float64) bool {
-	kpss, err := KPSS(z, KPSSOptions{Deterministic: DeterministicLevelAndSlope})
-	return err == nil && kpss.Status == StatusOK && !(kpss.PValue < alpha)
+// The two deterministic alternatives to a unit root, a trend and a level
+// shift, are each accepted only when the unit-root test that allows for
+// them rejects: ADF with a trend for the line, and for the shift the
+// Zivot-Andrews test against one break in the intercept, whose critical
+// values allow for the break date being chosen from the data. A random walk
+// has step-like stretches, and the break test, whose null is a stationary
+// series, finds one in almost every walk; ADF on the walk less its
+// best-fitting step, with critical values for a series with a constant
+// only, would often reject. Where they override unit-root evidence they
+// test at α/2 each (Bonferroni over the two, so that a random walk is taken
+// for either with probability at most about α); where ADF has already
+// rejected a unit root, at α.
+
+// rejectsAroundLine reports whether ADF with a trend rejects a unit root in
+// z at level.
+func rejectsAroundLine(z []float64, level float64) bool {
+	adf, err := ADF(z, ADFOptions{Deterministic: DeterministicLevelAndSlope})
+	return err == nil && adf.Status == StatusOK && adf.PValue < level
 }
 
-// stationaryAroundShift reports whether z is stationary around the level
-// shift the break test found (j.brk): the Zivot-Andrews test rejects a unit
-// root against one break in the intercept at α/2, with the lag ADF chose
-// (fixed: one scan over the break dates instead of a lag search), and KPSS
-// does not reject, at α, that z with the shift removed is stationary. A
-// random walk has step-like stretches, and the break test, whose null is a
-// stationary series, finds one in almost every walk; Zivot-Andrews' null is
-// the unit root, with critical values that allow for the break date being
-// chosen from the data, which ADF's on the shift-removed series do not.
-//
-// A trend and a shift are the two deterministic alternatives tried against
-// a unit root; each is accepted at α/2 (Bonferroni), so that a random walk
-// is taken for either with probability at most about α.
-func (j *judgement) stationaryAroundShift(z []float64, alpha float64) (bool, error) {
+// rejectsAroundShift reports whether the Zivot-Andrews test rejects a unit
+// root in z against one break in the intercept at level, with the lag ADF
+// chose (fixed: one scan over the break dates instead of a lag search).
+func (j *judgement) rejectsAroundShift(z []float64, level float64) (bool, error) {
 	lags := j.adf.Lags
 	za, err := ZivotAndrews(z, ZivotAndrewsOptions{Break: BreakLevel, LagRule: LagGiven, MaxLag: &lags})
 	if err != nil {
 		return false, err
 	}
-	if za.Status != StatusOK || !(za.PValue < alpha/2) {
-		return false, nil
-	}
+	return za.Status == StatusOK && za.PValue < level, nil
+}
+
+// stationaryAroundLine reports whether KPSS with a trend does not reject,
+// at α, that z is stationary around a straight line; asked, as a second
+// opinion, when ADF found unit-root evidence.
+func stationaryAroundLine(z []float64, alpha float64) bool {
+	kpss, err := KPSS(z, KPSSOptions{Deterministic: DeterministicLevelAndSlope})
+	return err == nil && kpss.Status == StatusOK && !(kpss.PValue < alpha)
+}
+
+// stationaryAroundShift reports whether KPSS does not reject, at α, that z
+// with the shift the break test found (j.brk) removed is stationary; asked,
+// as a second opinion, when ADF found unit-root evidence.
+func (j *judgement) stationaryAroundShift(z []float64, alpha float64) bool {
 	kpss, err := KPSS(withoutShift(z, j.brk.Index, j.brk.Size), KPSSOptions{})
-	return err == nil && kpss.Status == StatusOK && !(kpss.PValue < alpha), nil
+	return err == nil && kpss.Status == StatusOK && !(kpss.PValue < alpha)
 }
 
 // differences runs the differencing sequence on z, which has unit-root

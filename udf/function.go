@@ -6,6 +6,7 @@ import (
 	"database/sql/driver"
 	"fmt"
 	"runtime"
+	"strings"
 	"sync"
 	"sync/atomic"
 
@@ -254,6 +255,9 @@ func register(conn *sql.Conn, functions []*function) error {
 	var names []string
 	byName := map[string][]duckdb.ScalarFunc{}
 	for _, f := range functions {
+		if strings.HasSuffix(f.name, "_sql") {
+			f = writesSQL(f)
+		}
 		if _, ok := byName[f.name]; !ok {
 			names = append(names, f.name)
 		}
@@ -272,4 +276,20 @@ func register(conn *sql.Conn, functions []*function) error {
 		}
 	}
 	return nil
+}
+
+// writesSQL wraps a function that writes the SELECT a table macro runs
+// (plumb_<name>_sql) so that the plumb functions its SQL calls are
+// qualified (qualifyCalls).
+func writesSQL(f *function) *function {
+	g := *f
+	eval := f.eval
+	g.eval = func(args []driver.Value) (any, error) {
+		v, err := eval(args)
+		if s, ok := v.(string); ok && err == nil {
+			return qualifyCalls(s), nil
+		}
+		return v, err
+	}
+	return &g
 }

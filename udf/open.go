@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"net/url"
 	"strings"
+	"sync"
 	"sync/atomic"
 
 	"github.com/duckdb/duckdb-go/v2"
@@ -119,7 +120,29 @@ func allFunctions() ([]*function, error) {
 	} {
 		all = append(all, group...)
 	}
+	for _, f := range all {
+		if strings.HasSuffix(f.name, "_sql") {
+			raiseInSQL(f)
+		}
+	}
 	return all, t.err
+}
+
+// raiseInSQL makes a function that writes a table function's query (the
+// plumb_<name>_sql functions) answer a bad argument with a query that
+// raises it through SQL's error(): the user then reads "Invalid Input
+// Error: period must be at least 2, ...", the same words the commands
+// print, instead of the message behind duckdb-go's prefix for a Go
+// function's error ("database/sql/driver: API error: plumb_diagnose_sql:").
+func raiseInSQL(f *function) {
+	eval := f.eval
+	f.eval = func(args []driver.Value) (any, error) {
+		v, err := eval(args)
+		if err != nil {
+			return "SELECT error(" + quoteLiteral(err.Error()) + ")", nil
+		}
+		return v, nil
+	}
 }
 
 // macros is the SQL that creates plumb's TEMP macros on a connection.
@@ -137,9 +160,16 @@ var macros = strings.Join([]string{
 	shardMacros,
 }, "\n")
 
-// createMacros creates plumb's TEMP macros on one connection.
+var (
+	qualifiedOnce   sync.Once
+	qualifiedMacros string
+)
+
+// createMacros creates plumb's TEMP macros on one connection, with every
+// call of a plumb scalar function qualified (qualifyCalls).
 func createMacros(ctx context.Context, execer driver.ExecerContext) error {
-	if _, err := execer.ExecContext(ctx, macros, nil); err != nil {
+	qualifiedOnce.Do(func() { qualifiedMacros = qualifyCalls(macros) })
+	if _, err := execer.ExecContext(ctx, qualifiedMacros, nil); err != nil {
 		return fmt.Errorf("udf: create macros: %w", err)
 	}
 	return nil

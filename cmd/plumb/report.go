@@ -22,7 +22,8 @@ the ranked table, and for each of the top groups its series with a rolling
 mean and a ±2 rolling standard deviation band, the series after its
 recommended transform, and its autocorrelation with ±1.96/√n bounds. The file
 needs nothing from the network.`,
-		Args: cobra.ExactArgs(1),
+		Example: `  plumb report plumb-demo/shops.parquet --by shop,product --at day --value units --period 7 --out report.html`,
+		Args:    cobra.ExactArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if out == "" {
 				return fmt.Errorf("name the report file with --out (-o)")

@@ -23,12 +23,17 @@ functions, on an embedded DuckDB database. Each client session has its own
 connection, transactions and TEMP tables.
 
 Sandbox: clients read and write files only under --data (a relative path in
-SQL means one under --data), cannot install or load extensions, and cannot
-change DuckDB's configuration. Sessions never share a DuckDB connection.
+SQL means one under --data; the database file and DuckDB's spill files are
+out of reach, and a --db inside --data is refused), cannot install or load
+extensions, attach databases or change DuckDB's configuration, and run only
+what an allow-list of statements, table functions and pragmas holds (the
+README lists it). Sessions never share a DuckDB connection.
 
 Authentication is SCRAM-SHA-256 with users from --users FILE or the
 PLUMB_USERS variable ("user:password" lines or comma-separated), never from
-the command line; --auth trust is allowed only on a loopback address.
+the command line; --auth trust is allowed only on a loopback address. A line
+"read user:password" makes a user that only queries; "write" (the default)
+may also change the database and write files under --data.
 SIGINT or SIGTERM stops accepting, lets running statements finish for
 --grace, cancels (rolls back) what still runs, and closes the database.`,
 		Example: `  PLUMB_USERS='ana:s3cret' plumb serve --data ./plumb-demo --listen 127.0.0.1:5433
@@ -49,7 +54,7 @@ SIGINT or SIGTERM stops accepting, lets running statements finish for
 				users = string(b)
 			}
 			var err error
-			if cfg.Users, err = pgserver.ParseUsers(users); err != nil {
+			if cfg.Users, cfg.Roles, err = pgserver.ParseUsers(users); err != nil {
 				return err
 			}
 			if cfg.DataDir != "" {

@@ -88,7 +88,24 @@ def fmt(v):
 rows = []
 
 
+# Cases on the edge of statsmodels' failure: whether its regression at the
+# earliest candidate dates raises LinAlgError (or gives NaN) depends on the
+# LAPACK build and CPU that numpy loads. Under Debian 12's reference LAPACK
+# the first two failed and the third gave a value; under its OpenBLAS the
+# first two gave a value and the third failed. They are written as "failed"
+# on every machine, so that the output does not depend on which is loaded
+# (plumb's test still requires a result from plumb on each).
+LAPACK_DEPENDENT = {
+    ("sim068", "level", 0.15, "aic"),
+    ("sim068", "level", 0.15, "drop_insignificant"),
+    ("log_airpassengers", "level", 0.05, "aic"),
+}
+
+
 def run(name, x, brk, reg, trim, rule, autolag, maxlag):
+    if (name, brk, trim, rule) in LAPACK_DEPENDENT:
+        rows.append([name, brk, trim, rule, maxlag, "failed", "", "", "", "", "", ""])
+        return
     with warnings.catch_warnings():
         warnings.simplefilter("ignore")
         try:

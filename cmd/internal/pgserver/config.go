@@ -25,6 +25,7 @@ type Config struct {
 	ReadOnly     bool   // open DBPath read-only
 	Auth         string // "scram" (default) or "trust" (loopback only)
 	Users        map[string]string
+	Roles        map[string]Role // per user; a user not listed has RoleWrite
 	TLSCert      string
 	TLSKey       string
 	QueryTimeout time.Duration // 0: none
@@ -79,9 +80,12 @@ func (c *Config) Check() error {
 
 // ParseUsers reads "user:password" lines (blank lines and # comments are
 // skipped), as in a users file or the PLUMB_USERS variable (lines or
-// commas).
-func ParseUsers(text string) (map[string]string, error) {
+// commas). A line may start with a role and a space, "read ana:s3cret" or
+// "write ben:pa55"; without one a user has RoleWrite. The password is
+// everything after the first colon.
+func ParseUsers(text string) (map[string]string, map[string]Role, error) {
 	users := map[string]string{}
+	roles := map[string]Role{}
 	sc := bufio.NewScanner(strings.NewReader(strings.ReplaceAll(text, ",", "\n")))
 	for n := 1; sc.Scan(); n++ {
 		line := strings.TrimSpace(sc.Text())
@@ -89,10 +93,28 @@ func ParseUsers(text string) (map[string]string, error) {
 			continue
 		}
 		user, password, ok := strings.Cut(line, ":")
+		role := RoleWrite
+		if r, name, spaced := strings.Cut(user, " "); spaced {
+			switch Role(r) {
+			case RoleRead, RoleWrite:
+				role, user = Role(r), strings.TrimSpace(name)
+			default:
+				return nil, nil, fmt.Errorf("users line %d: want [read|write] user:password, not the role %q", n, r)
+			}
+		}
 		if !ok || user == "" || password == "" {
-			return nil, fmt.Errorf("users line %d: want user:password", n)
+			return nil, nil, fmt.Errorf("users line %d: want [read|write] user:password", n)
 		}
 		users[user] = password
+		roles[user] = role
 	}
-	return users, sc.Err()
+	return users, roles, sc.Err()
+}
+
+// role is the user's role (RoleWrite unless the users file says read).
+func (c *Config) role(user string) Role {
+	if r, ok := c.Roles[user]; ok {
+		return r
+	}
+	return RoleWrite
 }

@@ -43,8 +43,15 @@ func (s shape) returnsRows() bool {
 // A column whose type DuckDB cannot tell before the parameters are bound
 // (SELECT $1, a table function's result) is described as text and the shape
 // marked incomplete; it is described again once the values are inlined.
+//
+// Every client statement reaches DuckDB through here first, so the
+// allow-list is applied here: its token checks before DuckDB prepares the
+// statement, the statement type after.
 func (sess *session) describeSQL(ctx context.Context, sql string) (shape, error) {
 	var sh shape
+	if err := sess.gate.check(sql); err != nil {
+		return sh, err
+	}
 	err := sess.db.Raw(func(dc any) error {
 		prep, ok := dc.(driver.ConnPrepareContext)
 		if !ok {
@@ -61,6 +68,11 @@ func (sess *session) describeSQL(ctx context.Context, sql string) (shape, error)
 		}
 		if sh.kind, err = ds.StatementType(); err != nil {
 			return err
+		}
+		if sess.gate != nil {
+			if err := sess.gate.checkKind(sh.kind); err != nil {
+				return err
+			}
 		}
 		for i := 1; i <= ds.NumInput(); i++ {
 			t, err := ds.ParamType(i)
@@ -96,7 +108,42 @@ func (sess *session) describeSQL(ctx context.Context, sql string) (shape, error)
 		}
 		return nil
 	})
+	if err == nil && sh.kind == duckdb.STATEMENT_TYPE_EXPLAIN && sess.gate != nil {
+		// EXPLAIN ANALYZE runs what it explains: that must be allowed too.
+		if inner := explained(sql); inner != "" {
+			if _, err := sess.describeSQL(ctx, inner); err != nil {
+				return sh, err
+			}
+		}
+	}
 	return sh, err
+}
+
+// explained is the statement an EXPLAIN [ANALYZE] [(options)] explains.
+func explained(sql string) string {
+	toks := lex(sql)
+	idx := significant(toks)
+	k := 1
+	if k < len(idx) && toks[idx[k]].is("analyze") {
+		k++
+	}
+	if k < len(idx) && toks[idx[k]].is("(") {
+		depth := 0
+		for ; k < len(idx); k++ {
+			if toks[idx[k]].is("(") {
+				depth++
+			} else if toks[idx[k]].is(")") {
+				if depth--; depth == 0 {
+					k++
+					break
+				}
+			}
+		}
+	}
+	if k >= len(idx) {
+		return ""
+	}
+	return join(toks[idx[k]:])
 }
 
 // duckdbParamType names a parameter's DuckDB type for a cast, "" for types

@@ -118,3 +118,15 @@ func responseFor(err error) *pgproto3.ErrorResponse {
 	}
 	return errorResponse(err)
 }
+
+// responseFor is the package's responseFor with the server's own paths
+// taken out of the message: a client learns where a file it named is in its
+// own words, never where the server keeps its files.
+func (sess *session) responseFor(err error) *pgproto3.ErrorResponse {
+	r := responseFor(err)
+	if sess.srv.files != nil {
+		r.Message = sess.srv.files.Scrub(r.Message)
+		r.Detail = sess.srv.files.Scrub(r.Detail)
+	}
+	return r
+}

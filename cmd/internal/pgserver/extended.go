@@ -15,7 +15,10 @@ func (sess *session) parse(m *pgproto3.Parse) error {
 		return nil
 	}
 	p := &prepared{sql: m.Query}
-	p.rewritten, p.paths = sess.rewrite(m.Query)
+	var err error
+	if p.rewritten, p.paths, err = sess.rewrite(m.Query); err != nil {
+		return err
+	}
 	p.toks = lex(p.rewritten)
 	if sh, ok := sess.ownShape(p.rewritten); ok {
 		p.shape, p.own = sh, true
@@ -95,10 +98,15 @@ func (sess *session) bind(m *pgproto3.Bind) error {
 			if oid == 0 && format == 1 {
 				oid = p.params[i]
 			}
-			if onlyFileLike, isPath := p.paths[i+1]; isPath && data != nil && format == 0 {
-				if resolved, changed := resolvePath(string(data), sess.srv.cfg.DataDir, onlyFileLike); changed {
-					data = []byte(resolved)
+			if isSource, isPath := p.paths[i+1]; isPath && data != nil {
+				if format != 0 {
+					return pgError{stateInsufficientPriv, fmt.Sprintf("parameter $%d names a file or source: send it in text format", i+1)}
 				}
+				checked, err := sess.gate.paramValue(string(data), isSource)
+				if err != nil {
+					return err
+				}
+				data = []byte(checked)
 			}
 			lit, err := paramLiteral(data, format, oid, p.shape.paramTypes[i])
 			if err != nil {
@@ -109,6 +117,11 @@ func (sess *session) bind(m *pgproto3.Bind) error {
 		sql, err := inlineParams(p.toks, literals)
 		if err != nil {
 			return pgError{stateProtocolViolation, err.Error()}
+		}
+		if !p.own { // the values are in: check the statement as it will run
+			if err := sess.gate.check(sql); err != nil {
+				return err
+			}
 		}
 		pt.sql = sql
 		if p.shape.incomplete && !p.own {

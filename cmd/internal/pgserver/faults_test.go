@@ -231,7 +231,11 @@ func TestServeProcess(t *testing.T) {
 		t.Skip("not a test on its own: the server process TestShutdownDuringCreateTable starts (it sets PLUMB_TEST_SERVE_DB)")
 	}
 	grace, _ := time.ParseDuration(os.Getenv("PLUMB_TEST_SERVE_GRACE"))
-	cfg := Config{Addr: "127.0.0.1:0", Auth: "trust", DBPath: dbPath, DataDir: filepath.Dir(dbPath), Grace: grace}
+	data := filepath.Join(filepath.Dir(dbPath), "data") // --db must lie outside --data
+	if err := os.MkdirAll(data, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	cfg := Config{Addr: "127.0.0.1:0", Auth: "trust", DBPath: dbPath, DataDir: data, Grace: grace}
 	err := Run(context.Background(), cfg, slog.New(slog.NewTextHandler(io.Discard, nil)), func(a net.Addr) {
 		fmt.Printf("listening %s\n", a)
 	})

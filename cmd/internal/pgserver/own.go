@@ -158,6 +158,9 @@ func (sess *session) own(sql string, formats []int16, describe bool) (bool, int6
 	case "savepoint":
 		return true, 0, pgError{stateFeatureNotSupport, "savepoints are not supported: DuckDB has none, so plumb serve refuses SAVEPOINT, RELEASE and ROLLBACK TO; commit or roll back the whole transaction"}
 	case "copy in":
+		if sess.gate != nil && sess.gate.role == RoleRead {
+			return true, 0, refused("COPY ... FROM STDIN is not allowed for a read-only user (role read)")
+		}
 		n, err := sess.copyIn(sql)
 		return true, n, err
 	case "copy out":

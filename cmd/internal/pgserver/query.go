@@ -41,18 +41,19 @@ type portal struct {
 }
 
 // normalize maps statements PostgreSQL clients send to DuckDB's dialect:
-// whole-statement answers first (psql's \d steps), then the token rules.
-func normalize(sql, dataDir string) (string, map[int]bool) {
+// whole-statement answers first (psql's \d steps), then the token rules
+// and the allow-list's token checks of g.
+func normalize(sql string, g *gate) (string, map[int]bool, error) {
 	sql = strings.TrimSpace(sql)
 	if r := rewrite(sql); r != sql {
-		return r, nil
+		return r, nil, nil
 	}
-	return rewriteSQL(sql, dataDir)
+	return rewriteSQL(sql, g)
 }
 
-// rewrite applies normalize with the session's data directory.
-func (sess *session) rewrite(sql string) (string, map[int]bool) {
-	return normalize(sql, sess.srv.cfg.DataDir)
+// rewrite applies normalize with the session's allow-list.
+func (sess *session) rewrite(sql string) (string, map[int]bool, error) {
+	return normalize(sql, sess.gate)
 }
 
 // simpleQuery runs every statement of a Query message in order, stopping
@@ -63,9 +64,14 @@ func (sess *session) simpleQuery(text string) {
 		sess.be.Send(&pgproto3.EmptyQueryResponse{})
 	}
 	for _, s := range stmts {
-		sql, _ := sess.rewrite(s)
-		if err := sess.run(s, sql, nil, nil, true); err != nil {
-			sess.be.Send(responseFor(err))
+		sql, _, err := sess.rewrite(s)
+		if err != nil {
+			sess.logStatement("execute", s, time.Now(), 0, err)
+		} else {
+			err = sess.run(s, sql, nil, nil, true)
+		}
+		if err != nil {
+			sess.be.Send(sess.responseFor(err))
 			break
 		}
 	}

@@ -1,7 +1,6 @@
 package pgserver
 
 import (
-	"path/filepath"
 	"regexp"
 	"strings"
 )
@@ -18,9 +17,14 @@ import (
 
 // rewriter holds one statement's tokens and what the rules need to know.
 type rewriter struct {
-	toks    []token
-	dataDir string       // relative file paths resolve against it
-	paths   map[int]bool // parameters ($n) that name a file, to resolve once bound
+	toks  []token
+	gate  *gate        // what the session may run; nil: rewrite only
+	paths map[int]bool // parameters ($n) that name a file (false) or a source (true), to check once bound
+	err   error        // the first refusal
+	// inMacro: the statement creates a macro, whose body's bare names may
+	// be its parameters
+	inMacro bool
+	closing []int // filePaths: closings of the significant tokens
 }
 
 // tokenRule is one rewrite on a statement's tokens.
@@ -29,24 +33,36 @@ type tokenRule struct {
 	apply func(r *rewriter)
 }
 
-var tokenRules = []tokenRule{
-	{"BEGIN [WORK | TRANSACTION] [modes] and START TRANSACTION [modes] become DuckDB's BEGIN TRANSACTION", beginTransaction},
-	{"PostgreSQL's OPERATOR(pg_catalog.op) syntax becomes the bare operator", operatorSyntax},
-	{"COLLATE pg_catalog.default and COLLATE \"C\" are dropped", dropCollate},
-	{"pg_catalog.x becomes x, information_schema.x too where the layer has an x", qualifiedCompat},
-	{"'name'::regclass, ::regtype and ::regproc look the name up", regLiteral},
-	{"a select item that is one function call is named after the function", functionColumnName},
-	{"LIKE patterns escape with a backslash, as PostgreSQL's do by default", likeEscape},
-	{"relative file paths resolve against --data", relativePaths},
+// tokenRules are set in init: a plumb table function's source is itself
+// a statement, so filePaths calls rewriteSQL, which reads tokenRules.
+var tokenRules []tokenRule
+
+func init() { tokenRules = rules() }
+
+func rules() []tokenRule {
+	return []tokenRule{
+		{"BEGIN [WORK | TRANSACTION] [modes] and START TRANSACTION [modes] become DuckDB's BEGIN TRANSACTION", beginTransaction},
+		{"PostgreSQL's OPERATOR(pg_catalog.op) syntax becomes the bare operator", operatorSyntax},
+		{"COLLATE pg_catalog.default and COLLATE \"C\" are dropped", dropCollate},
+		{"pg_catalog.x becomes x, information_schema.x too where the layer has an x", qualifiedCompat},
+		{"'name'::regclass, ::regtype and ::regproc look the name up", regLiteral},
+		{"paths are checked by the sandbox; relative ones resolve against --data", filePaths},
+		{"a select item that is one function call is named after the function", functionColumnName},
+		{"LIKE patterns escape with a backslash, as PostgreSQL's do by default", likeEscape},
+	}
 }
 
-// rewriteSQL applies every rule to one statement.
-func rewriteSQL(sql, dataDir string) (string, map[int]bool) {
-	r := &rewriter{toks: lex(sql), dataDir: dataDir, paths: map[int]bool{}}
+// rewriteSQL applies every rule to one statement, then the token checks of
+// the allow-list (allow.go); a nil gate only rewrites.
+func rewriteSQL(sql string, g *gate) (string, map[int]bool, error) {
+	r := &rewriter{toks: lex(sql), gate: g, paths: map[int]bool{}}
 	for _, rule := range tokenRules {
 		rule.apply(r)
 	}
-	return join(r.toks), r.paths
+	if g != nil && r.err == nil { // on the statement as DuckDB will read it
+		r.err = g.checkTokens(lex(join(r.toks)))
+	}
+	return join(r.toks), r.paths, r.err
 }
 
 // next returns the index of the first significant token after i, or -1.
@@ -318,111 +334,292 @@ func likeEscape(r *rewriter) {
 	}
 }
 
-// fileFunctions take a file path, a glob or a list of them first.
-var fileFunctions = map[string]bool{"read_csv": true, "read_csv_auto": true, "read_parquet": true, "parquet_scan": true,
-	"read_json": true, "read_json_auto": true, "read_ndjson": true, "read_ndjson_auto": true, "read_text": true,
-	"read_blob": true, "glob": true, "parquet_metadata": true, "parquet_schema": true, "parquet_file_metadata": true,
-	"sniff_csv": true}
-
-// sourceFunctions are plumb's table functions: their first argument (and
-// restore's second) is a table name, a query or a file.
-var sourceFunctions = map[string]int{"diagnose": 1, "differenced": 1, "rolling_dispersion": 1, "stationarize": 1,
-	"stationarize_recipes": 1, "restore": 2}
-
 // fileLike is what plumb's table functions read as a file (udf/source.go).
 var fileLike = regexp.MustCompile(`[/\\*?]|\.(parquet|csv|tsv|json|jsonl|ndjson|txt)(\.(gz|zst))?$`)
 
-// relativePaths: 'shops.parquet' in FROM, in a file-reading function, in
-// a plumb table function's source or in COPY becomes the path under --data.
-func relativePaths(r *rewriter) {
-	if r.dataDir == "" {
+// inlineFrom are functions whose arguments may contain FROM 'text' that
+// names no file: trim(BOTH 'x' FROM 'y'), substring('abc' FROM 2), ...
+var inlineFrom = map[string]bool{"trim": true, "substring": true, "extract": true, "overlay": true, "position": true}
+
+// filePaths: every path a statement names (a literal in FROM or JOIN, a
+// file-reading table function's first argument, a plumb table function's
+// file source, COPY's file) is checked by the sandbox and, if allowed,
+// replaced by the absolute path under --data it means; a relative path
+// means one under --data. A parameter in such a place is marked, to be
+// checked once bound. A parenthesised SELECT given as a plumb table
+// function's source is checked and rewritten as a statement of its own.
+func filePaths(r *rewriter) {
+	if r.gate == nil {
 		return
 	}
-	copyStmt := false
-	if first := r.next(-1); first >= 0 && r.toks[first].is("copy") {
-		copyStmt = true
-	}
-	for i, t := range r.toks {
-		switch {
-		case t.is("from") || t.is("join") || copyStmt && t.is("to"):
-			// FROM 'x' is also part of EXTRACT, SUBSTRING and TRIM, so
-			// outside COPY only a file-like literal with no cast counts.
-			if j := r.next(i); j >= 0 {
-				if after := r.next(j); after < 0 || !r.toks[after].is("::") {
-					r.resolve(j, !copyStmt)
-				}
-			}
-		case t.kind == tokWord:
-			open := r.next(i)
-			if open < 0 || !r.toks[open].is("(") {
-				continue
-			}
-			name := t.name()
-			if fileFunctions[name] {
-				r.resolveArgs(open, 1, false)
-			} else if n := sourceFunctions[name]; n > 0 {
-				r.resolveArgs(open, n, true)
-			}
+	idx := significant(r.toks)
+	r.closing = closings(r.toks, idx)
+	for k, c := range r.closing {
+		if c < 0 && (r.toks[idx[k]].is("(") || r.toks[idx[k]].is("[")) {
+			// DuckDB would not parse it either; refusing it here keeps
+			// every check below linear
+			r.fail(pgError{stateSyntax, "syntax error: a parenthesis or bracket is not closed"})
+			return
 		}
 	}
-}
-
-// resolveArgs resolves the first n arguments after the parenthesis at open.
-func (r *rewriter) resolveArgs(open, n int, onlyFileLike bool) {
-	arg := r.next(open)
-	for k := 0; k < n && arg >= 0; k++ {
-		if r.toks[arg].is("[") { // a list of paths
-			for j := r.next(arg); j >= 0 && !r.toks[j].is("]"); j = r.next(j) {
-				r.resolve(j, onlyFileLike)
-			}
-		} else {
-			r.resolve(arg, onlyFileLike)
+	copyStmt := len(idx) > 0 && r.toks[idx[0]].is("copy")
+	if copyStmt && len(idx) > 1 && (r.toks[idx[1]].kind == tokString || r.toks[idx[1]].kind == tokParam) {
+		r.file(idx[1]) // COPY 'file' TO ...
+	}
+	// In a macro's body a bare name may be the macro's parameter, so a
+	// source or path there must be a literal.
+	r.inMacro = false
+	for _, i := range idx {
+		if t := r.toks[i]; t.is("macro") || t.is("function") {
+			r.inMacro = r.toks[idx[0]].is("create")
+			break
+		} else if t.is("as") || t.is("(") {
+			break
 		}
-		// skip to the token after the next comma at this depth
-		depth := 0
-		for ; arg >= 0 && arg < len(r.toks); arg = r.next(arg) {
-			t := r.toks[arg]
-			if t.is("(") || t.is("[") {
-				depth++
-			} else if t.is(")") || t.is("]") {
-				if depth == 0 {
-					return
-				}
-				depth--
-			} else if t.is(",") && depth == 0 {
-				arg = r.next(arg)
+	}
+	if len(idx) > 0 && r.toks[idx[0]].is("export") { // EXPORT DATABASE [name] 'directory'
+		for _, i := range idx {
+			if r.toks[i].kind == tokString || r.toks[i].kind == tokParam {
+				r.file(i)
 				break
 			}
 		}
 	}
+	var openers []string // the word before each open parenthesis
+	for k, i := range idx {
+		t := r.toks[i]
+		prev := token{}
+		if k > 0 {
+			prev = r.toks[idx[k-1]]
+		}
+		switch {
+		case t.is("("):
+			openers = append(openers, prev.name())
+		case t.is(")"):
+			if len(openers) > 0 {
+				openers = openers[:len(openers)-1]
+			}
+		case t.is("from") || t.is("join") || copyStmt && t.is("to"):
+			if len(openers) > 0 && inlineFrom[openers[len(openers)-1]] || prev.is("distinct") || k+1 >= len(idx) {
+				continue
+			}
+			j := idx[k+1]
+			switch next := r.toks[j]; {
+			case next.kind == tokString || next.kind == tokParam:
+				r.file(j)
+			case next.kind == tokQuoted && fileLike.MatchString(next.name()) && (k+2 >= len(idx) || !r.toks[idx[k+2]].is(".")):
+				// DuckDB reads FROM "x.csv" as the file x.csv
+				r.toks[j] = token{tokString, sqlQuote(next.name())}
+				r.file(j)
+			}
+		case (t.kind == tokWord || t.kind == tokQuoted) && k+1 < len(idx) && r.toks[idx[k+1]].is("(") && !prev.is("."):
+			name := t.name()
+			if tableFunctions[name].reads {
+				r.arguments(name, idx, k+1, []int{1}, r.file)
+			} else if positions, ok := sourceArguments[name]; ok {
+				r.arguments(name, idx, k+1, positions, r.source)
+			}
+		}
+	}
 }
 
-// resolve turns the string literal at i into an absolute path under the
-// data directory, or marks the parameter at i as a path.
-func (r *rewriter) resolve(i int, onlyFileLike bool) {
+// arguments applies check to the arguments at the given 1-based positions
+// of the call whose parenthesis is idx[open]. Each must be a plain '...'
+// literal or a parameter (a cast after it is allowed), or a [list] of
+// those: a path computed by an expression would escape the check.
+func (r *rewriter) arguments(name string, idx []int, open int, positions []int, check func(int)) {
+	want := map[int]bool{}
+	for _, p := range positions {
+		want[p] = true
+	}
+	pos, start := 1, open+1
+	for k := open + 1; k < len(idx); k++ {
+		t := r.toks[idx[k]]
+		if (t.is("(") || t.is("[")) && r.closing[k] > k {
+			k = r.closing[k] // skip what is nested: each token is looked at once per call
+			continue
+		}
+		if !t.is(")") && !t.is(",") {
+			continue
+		}
+		if want[pos] && k > start {
+			r.argument(name, idx[start:k], check)
+		}
+		if t.is(")") {
+			return
+		}
+		pos, start = pos+1, k+1
+	}
+}
+
+// closings pairs each opening parenthesis or bracket (by its position in
+// idx) with its closing one, -1 where none closes it.
+func closings(toks []token, idx []int) []int {
+	out := make([]int, len(idx))
+	var open []int
+	for k, i := range idx {
+		out[k] = -1
+		switch t := toks[i]; {
+		case t.is("(") || t.is("["):
+			open = append(open, k)
+		case (t.is(")") || t.is("]")) && len(open) > 0:
+			out[open[len(open)-1]] = k
+			open = open[:len(open)-1]
+		}
+	}
+	return out
+}
+
+// argument checks one argument's tokens (indexes into r.toks).
+func (r *rewriter) argument(name string, arg []int, check func(int)) {
+	first := r.toks[arg[0]]
+	if len(arg) > 1 && r.toks[arg[1]].is(":=") { // a named argument: not a path
+		return
+	}
+	literal := func(t token) bool {
+		_, ok := t.stringValue()
+		return ok || t.kind == tokParam
+	}
+	rest := arg[1:]
+	if first.is("[") {
+		for k, i := range arg[1:] {
+			t := r.toks[i]
+			if t.is("]") {
+				rest = arg[k+2:]
+				break
+			}
+			if t.is(",") {
+				continue
+			}
+			if !literal(t) {
+				r.fail(refused("the paths given to %s must be '...' literals or parameters in plumb serve", name))
+				return
+			}
+			check(i)
+		}
+	} else {
+		if !literal(first) {
+			if _, isSource := sourceArguments[name]; isSource && r.isName(arg) && !r.inMacro {
+				return // a table name written as an identifier
+			}
+			r.fail(refused("the source or path given to %s must be a '...' literal or a parameter in plumb serve", name))
+			return
+		}
+		check(arg[0])
+	}
+	for k := 0; k < len(rest); k++ { // only casts may follow: 'x'::VARCHAR
+		t := r.toks[rest[k]]
+		if t.is("::") || t.kind == tokWord || t.is("[") || t.is("]") {
+			continue
+		}
+		r.fail(refused("the source or path given to %s must be a '...' literal or a parameter in plumb serve", name))
+		return
+	}
+}
+
+// isName reports whether the tokens are one [catalog.][schema.]name.
+func (r *rewriter) isName(arg []int) bool {
+	for k, i := range arg {
+		t := r.toks[i]
+		if k%2 == 0 && t.kind != tokWord && t.kind != tokQuoted || k%2 == 1 && !t.is(".") {
+			return false
+		}
+	}
+	return len(arg)%2 == 1
+}
+
+// fail keeps the first error the rules meet.
+func (r *rewriter) fail(err error) {
+	if r.err == nil {
+		r.err = err
+	}
+}
+
+// file checks the path literal at i and writes the absolute path it means,
+// or marks the parameter at i as a file.
+func (r *rewriter) file(i int) {
 	t := r.toks[i]
 	if t.kind == tokParam {
-		r.paths[paramNumber(t.text)] = onlyFileLike
+		r.paths[paramNumber(t.text)] = false
 		return
 	}
 	v, ok := t.stringValue()
 	if !ok {
+		r.fail(refused("a path must be a plain '...' literal in plumb serve"))
 		return
 	}
-	if p, changed := resolvePath(v, r.dataDir, onlyFileLike); changed {
-		r.toks[i] = token{tokString, sqlQuote(p)}
+	p, err := r.gate.fileValue(v)
+	if err != nil {
+		r.fail(err)
+		return
 	}
+	if r.gate.checking && p != v {
+		r.fail(refused("path %q was not resolved against the data directory before it ran", v))
+		return
+	}
+	r.toks[i] = token{tokString, sqlQuote(p)}
 }
 
-// resolvePath joins a relative path to dir; absolute paths, URLs, table
-// names and queries are left alone.
-func resolvePath(p, dir string, onlyFileLike bool) (string, bool) {
-	s := strings.TrimSpace(p)
-	if dir == "" || s == "" || filepath.IsAbs(s) || strings.Contains(s, "://") || strings.HasPrefix(s, "(") ||
-		strings.HasPrefix(s, "~") || onlyFileLike && !fileLike.MatchString(s) {
-		return p, false
+// source checks the plumb table function source at i (a literal or a
+// parameter) as sourceValue does.
+func (r *rewriter) source(i int) {
+	t := r.toks[i]
+	if t.kind == tokParam {
+		r.paths[paramNumber(t.text)] = true
+		return
 	}
-	return filepath.Join(dir, s), true
+	v, _ := t.stringValue()
+	p, err := r.gate.sourceValue(v)
+	if err != nil {
+		r.fail(err)
+		return
+	}
+	r.toks[i] = token{tokString, sqlQuote(p)}
+}
+
+// fileValue is the absolute path a path the client wrote means, if the
+// sandbox allows it.
+func (g *gate) fileValue(v string) (string, error) {
+	p, err := g.files.Resolve(v)
+	if err != nil {
+		return "", pgError{stateInsufficientPriv, err.Error()}
+	}
+	return p, nil
+}
+
+// sourceValue checks a plumb table function's source: a parenthesised
+// SELECT is checked and rewritten as a statement; a file path or glob is
+// resolved as fileValue does; a table or view name is kept.
+func (g *gate) sourceValue(v string) (string, error) {
+	s := strings.TrimSpace(v)
+	switch {
+	case strings.HasPrefix(s, "("):
+		sql, _, err := rewriteSQL(s, g)
+		return sql, err
+	case fileLike.MatchString(s):
+		p, err := g.fileValue(s)
+		if err == nil && g.checking && p != s {
+			return "", refused("path %q was not resolved against the data directory before it ran", s)
+		}
+		return p, err
+	case strings.HasPrefix(s, `"`):
+		// a quoted name is used as written (udf/source.go): it must be
+		// one name, or one could write "t", duckdb_logs
+		r := &rewriter{toks: lex(s)}
+		if !r.isName(significant(r.toks)) {
+			return "", refused("the source %s is not one table or view name", s)
+		}
+	}
+	return v, nil
+}
+
+// paramValue checks a bound parameter marked by the rules: a source
+// (isSource) or a file.
+func (g *gate) paramValue(v string, isSource bool) (string, error) {
+	if isSource {
+		return g.sourceValue(v)
+	}
+	return g.fileValue(v)
 }
 
 func paramNumber(text string) int {

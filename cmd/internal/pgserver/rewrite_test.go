@@ -52,7 +52,7 @@ func TestRewriteRules(t *testing.T) {
 		{`WHERE c.relname LIKE 'jdbc\_%'`, `WHERE c.relname LIKE 'jdbc\_%' ESCAPE '\'`},
 		{`WHERE c.relname LIKE 'a\_b' ESCAPE '!'`, `WHERE c.relname LIKE 'a\_b' ESCAPE '!'`},
 		{`WHERE c.relname LIKE 'plain%'`, `WHERE c.relname LIKE 'plain%'`},
-		// relativePaths (data directory /srv/data)
+		// filePaths (data directory /srv/data)
 		{"SELECT * FROM 'shops.parquet'", "SELECT * FROM '/srv/data/shops.parquet'"},
 		{"SELECT * FROM read_csv('in/x.csv', header = true)", "SELECT * FROM read_csv('/srv/data/in/x.csv', header = true)"},
 		{"SELECT * FROM read_parquet(['a.parquet', 'b.parquet'])", "SELECT * FROM read_parquet(['/srv/data/a.parquet', '/srv/data/b.parquet'])"},
@@ -66,9 +66,9 @@ func TestRewriteRules(t *testing.T) {
 		{"SELECT extract(year FROM '2024-01-01'::DATE)", `SELECT extract(year FROM '2024-01-01'::DATE) AS "extract"`},
 		{"SELECT substring('a.csv' FROM 1)", `SELECT substring('a.csv' FROM 1) AS "substring"`},
 	} {
-		got, _ := rewriteSQL(test.in, "/srv/data")
-		if got != test.want {
-			t.Errorf("rewrite %q\n got %q\nwant %q", test.in, got, test.want)
+		got, _, err := rewriteSQL(test.in, testGate("/srv/data"))
+		if err != nil || got != test.want {
+			t.Errorf("rewrite %q\n got %q (%v)\nwant %q", test.in, got, err, test.want)
 		}
 	}
 }
@@ -76,17 +76,16 @@ func TestRewriteRules(t *testing.T) {
 // A parameter where a file path goes is marked, so that its bound value
 // is resolved against --data too.
 func TestRewriteMarksPathParameters(t *testing.T) {
-	_, paths := rewriteSQL("SELECT * FROM diagnose($1, by := $2) JOIN read_csv($3) ON true", "/d")
-	if len(paths) != 2 || !paths[1] || paths[3] {
-		t.Errorf("paths %v, want $1 (file-like only) and $3 (any)", paths)
+	g := testGate("/d")
+	_, paths, err := rewriteSQL("SELECT * FROM diagnose($1, by := $2) JOIN read_csv($3) ON true", g)
+	if err != nil || len(paths) != 2 || !paths[1] || paths[3] {
+		t.Errorf("paths %v (%v), want $1 (a source) and $3 (a file)", paths, err)
 	}
-	if p, ok := resolvePath("sales", "/d", true); ok {
-		t.Errorf("a table name was resolved to %q", p)
+	if p, err := g.paramValue("sales", true); err != nil || p != "sales" {
+		t.Errorf("a table name became %q (%v)", p, err)
 	}
-	if p, ok := resolvePath("x/../../etc/passwd.csv", "/d", true); !ok || p != "/etc/passwd.csv" {
-		// filepath.Join cleans the path; DuckDB's allowed_directories
-		// then refuses it, as TestSandbox checks for the absolute form.
-		t.Errorf("resolved to %q", p)
+	if p, err := g.paramValue("x/../../etc/passwd.csv", true); err == nil {
+		t.Errorf("a path outside --data was allowed as %q", p)
 	}
 }
 

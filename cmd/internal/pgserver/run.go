@@ -18,7 +18,7 @@ func Run(ctx context.Context, cfg Config, log *slog.Logger, ready func(net.Addr)
 	}
 	ln, err := net.Listen("tcp", cfg.Addr)
 	if err != nil {
-		srv.db.Close()
+		srv.Shutdown()
 		return err
 	}
 	if ready != nil {

@@ -10,12 +10,15 @@ import (
 	"fmt"
 	"log/slog"
 	"net"
+	"os"
+	"path/filepath"
 	"sort"
 	"strings"
 	"sync"
 	"sync/atomic"
 	"time"
 
+	"github.com/plumb-sql/plumb/cmd/internal/sandbox"
 	"github.com/plumb-sql/plumb/udf"
 )
 
@@ -26,6 +29,9 @@ type Server struct {
 	creds credentials
 	tls   *tls.Config
 	log   *slog.Logger
+	files *sandbox.Paths // what files clients may reach
+	spill string         // DuckDB's temporary directory, private to the server
+	names *catalogNames  // the database's function names, for the allow-list
 
 	mu       sync.Mutex
 	ln       net.Listener
@@ -56,12 +62,20 @@ func New(ctx context.Context, cfg Config, log *slog.Logger) (*Server, error) {
 		}
 		s.creds = creds
 	}
-	db, err := udf.Open(ctx, udf.Options{Path: cfg.DBPath, ReadOnly: cfg.ReadOnly})
-	if err != nil {
+	if err := s.placeFiles(); err != nil {
 		return nil, err
 	}
-	if err := sandbox(ctx, db, cfg); err != nil {
+	db, err := udf.Open(ctx, udf.Options{Path: cfg.DBPath, ReadOnly: cfg.ReadOnly})
+	if err != nil {
+		os.RemoveAll(s.spill)
+		return nil, err
+	}
+	if s.names, err = readCatalogNames(ctx, db); err == nil {
+		err = lockDown(ctx, db, cfg, s.files, s.spill)
+	}
+	if err != nil {
 		db.Close()
+		os.RemoveAll(s.spill)
 		return nil, err
 	}
 	s.db = db
@@ -78,13 +92,78 @@ func New(ctx context.Context, cfg Config, log *slog.Logger) (*Server, error) {
 	return s, nil
 }
 
-// sandbox confines every client: files only under the data directory, no
-// extensions, and a locked configuration. DuckDB applies these settings to
-// the whole database.
-func sandbox(ctx context.Context, db *sql.DB, cfg Config) error {
-	stmts := []string{}
-	if cfg.DataDir != "" {
-		stmts = append(stmts, "SET allowed_directories = ["+udf.QuoteLiteral(cfg.DataDir)+"]")
+// placeFiles refuses a database file inside the data directory (a client
+// could overwrite it), creates the private spill directory outside it, and
+// makes the file policy: the data directory, never the spill directory, the
+// database file or its write-ahead log.
+func (s *Server) placeFiles() error {
+	cfg := s.cfg
+	if cfg.DBPath != "" && cfg.DataDir != "" {
+		inside, err := sandbox.New(cfg.DataDir)
+		if err != nil {
+			return err
+		}
+		if _, err := inside.Resolve(mustAbs(cfg.DBPath)); err == nil {
+			return fmt.Errorf("--db %q lies inside --data %q, where clients could read and overwrite it: put the database file outside the data directory", cfg.DBPath, cfg.DataDir)
+		}
+	}
+	spill, err := sandbox.SpillDirectory(cfg.DataDir)
+	if err != nil {
+		return err
+	}
+	private := []string{spill}
+	if cfg.DBPath != "" {
+		db := mustAbs(cfg.DBPath)
+		private = append(private, db, db+".wal", db+".tmp")
+	}
+	files, err := sandbox.New(cfg.DataDir, private...)
+	if err != nil {
+		os.RemoveAll(spill)
+		return err
+	}
+	s.files, s.spill = files, spill
+	return nil
+}
+
+func mustAbs(p string) string {
+	if abs, err := filepath.Abs(p); err == nil {
+		return abs
+	}
+	return p
+}
+
+// readCatalogNames reads the names of the database's table functions and
+// of all its functions (DuckDB's and plumb's).
+func readCatalogNames(ctx context.Context, db *sql.DB) (*catalogNames, error) {
+	names := &catalogNames{table: map[string]bool{}, functions: map[string]bool{}}
+	rows, err := db.QueryContext(ctx, "SELECT DISTINCT lower(function_name), function_type IN ('table', 'table_macro') FROM duckdb_functions()")
+	if err != nil {
+		return nil, fmt.Errorf("read the function catalogue: %w", err)
+	}
+	defer rows.Close()
+	for rows.Next() {
+		var name string
+		var table bool
+		if err := rows.Scan(&name, &table); err != nil {
+			return nil, err
+		}
+		names.functions[name] = true
+		if table {
+			names.table[name] = true
+		}
+	}
+	return names, rows.Err()
+}
+
+// lockDown confines every client: files only under the data directory,
+// spill files in a directory of the server's own, no extensions, and a
+// locked configuration. DuckDB applies these settings to the whole
+// database; the allow-list (allow.go) and the file policy (rewrite.go)
+// check each statement before DuckDB sees it.
+func lockDown(ctx context.Context, db *sql.DB, cfg Config, files *sandbox.Paths, spill string) error {
+	stmts := []string{"SET temp_directory = " + udf.QuoteLiteral(spill)}
+	if files.Data() != "" { // the policy writes every path with links resolved
+		stmts = append(stmts, "SET allowed_directories = ["+udf.QuoteLiteral(files.Data())+"]")
 	}
 	if cfg.MemoryLimit != "" {
 		stmts = append(stmts, "SET memory_limit = "+udf.QuoteLiteral(cfg.MemoryLimit))
@@ -137,6 +216,11 @@ func (s *Server) Serve(ln net.Listener) error {
 		}()
 	}
 }
+
+// Files is the server's file policy, for anything else in the process that
+// serves files to clients: a path a client names is reachable only if
+// Files().Resolve allows it.
+func (s *Server) Files() *sandbox.Paths { return s.files }
 
 // Addr is the listening address (useful with port 0).
 func (s *Server) Addr() net.Addr {
@@ -204,7 +288,9 @@ func (s *Server) Shutdown() error {
 		s.log.Warn("sessions still open after shutdown; closing the database anyway")
 	}
 	s.log.Info("closing database")
-	return s.db.Close()
+	err := s.db.Close()
+	os.RemoveAll(s.spill)
+	return err
 }
 
 func (s *Server) busy() bool {

@@ -30,6 +30,7 @@ type session struct {
 	database string
 	txn      byte // 'I' idle, 'T' in a transaction, 'E' in a failed transaction
 	params   map[string]string
+	gate     *gate // what this session may run (allow.go)
 
 	statements map[string]*prepared
 	portals    map[string]*portal
@@ -143,6 +144,7 @@ func (sess *session) login(m *pgproto3.StartupMessage) (bool, error) {
 			return false, err
 		}
 	}
+	sess.gate = &gate{files: srv.files, role: srv.cfg.role(sess.user), readOnly: srv.cfg.ReadOnly, catalog: srv.names}
 	sess.pid = srv.nextPID.Add(1)
 	sess.secret = randomSecret()
 	if !srv.register(sess) {
@@ -304,7 +306,7 @@ func (sess *session) handle(err error) {
 	if err == nil {
 		return
 	}
-	sess.be.Send(responseFor(err))
+	sess.be.Send(sess.responseFor(err))
 	sess.skipping = true
 }
 
