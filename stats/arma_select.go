@@ -1,5 +1,7 @@
 package stats
 
+import "math"
+
 // ARMASearch bounds ChooseARMA's search. The zero value means the defaults.
 type ARMASearch struct {
 	// MaxAR and MaxMA bound p and q (0 means DefaultMaxARMAOrder);
@@ -56,7 +58,9 @@ type ARMAChoice struct {
 //     q ± 1, p and q together ± 1, P ± 1, Q ± 1, P and Q together ± 1, and,
 //     after one difference, the same orders with the mean (drift) added or
 //     removed. Move to the best neighbour if it lowers AICc; stop when none
-//     does, after MaxFits fits or when the likelihood evaluations have cost
+//     does, when the best model has a first-order moving average within 0.03
+//     of a unit root (nearUnitMA), after MaxFits fits or when the likelihood
+//     evaluations have cost
 //     DefaultARMAWork filter steps in all (an evaluation costs about n·r, r
 //     the state's dimension; a fit stopped by the budget still competes
 //     with what it reached).
@@ -197,7 +201,7 @@ func ChooseARMA(w []float64, opts ARMASearch) (ARMAChoice, error) {
 	if err != nil {
 		return ARMAChoice{}, err
 	}
-	for best != nil && out.Fits < maxFits && !short {
+	for best != nil && out.Fits < maxFits && !short && !nearUnitMA(*best) {
 		current := *best
 		o := current.Order
 		var next []ARMAOrder
@@ -254,6 +258,15 @@ func ChooseARMA(w []float64, opts ARMASearch) (ARMAChoice, error) {
 	}
 	out.Model = *best
 	return out, nil
+}
+
+// nearUnitMA reports whether the model's first-order moving average, plain
+// or seasonal, is within 0.03 of a unit root (|θ_1| or |Θ_1| > 0.97 with
+// q = 1 or Q = 1): the sign that w was differenced once too often. The
+// stepwise search stops there; its neighbours crawl to the same boundary
+// at a high cost and cannot undo the difference.
+func nearUnitMA(m ARMAModel) bool {
+	return (len(m.MA) == 1 && math.Abs(m.MA[0]) > 0.97) || (len(m.SeasonalMA) == 1 && math.Abs(m.SeasonalMA[0]) > 0.97)
 }
 
 // warmStart returns the fitted neighbour's coefficients reshaped to order
