@@ -192,6 +192,14 @@ type listBuffers struct {
 	times  []int64
 }
 
+// length is the number of elements of row's list (0 for NULL).
+func (r *listColumn) length(row int) uint64 {
+	if !valid(r.rows, uint64(row)) {
+		return 0
+	}
+	return r.entries[row].length
+}
+
 // value returns row's list, or nil for a NULL list. It only reads DuckDB's
 // memory, so workers may call it concurrently while the chunk is alive.
 // With b, the list is written into b's slices (grown as needed) instead of

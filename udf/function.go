@@ -4,6 +4,7 @@ import (
 	"context"
 	"database/sql"
 	"database/sql/driver"
+	"errors"
 	"fmt"
 	"runtime"
 	"strings"
@@ -34,6 +35,9 @@ type function struct {
 	// of their arguments, such as those returning a STRUCT of numbers.
 	reuse bool
 	eval  func(args []driver.Value) (any, error)
+	// maxList is the longest list argument accepted (maxListValues; 0:
+	// any).
+	maxList int64
 }
 
 func (f *function) Config() duckdb.ScalarFuncConfig {
@@ -55,11 +59,11 @@ func (f *function) Executor() duckdb.ScalarFuncExecutor {
 		ChunkContextExecutor: func(ctx context.Context, chunk *duckdb.ChunkIteratorState) error {
 			switch {
 			case chunkAccess.ok && !forceIterator:
-				return f.executeDirect(chunk)
+				return f.executeDirect(ctx, chunk)
 			case f.parallel:
-				return f.executeParallel(chunk)
+				return f.executeParallel(ctx, chunk)
 			default:
-				return f.executeRows(chunk)
+				return f.executeRows(ctx, chunk)
 			}
 		},
 	}
@@ -85,7 +89,10 @@ var forceIterator bool
 // listColumn and whose other columns by duckdb-go's getter, then writes
 // the results row by row. Parallel functions spread the rows over
 // GOMAXPROCS goroutines, each reading its own rows' arguments.
-func (f *function) executeDirect(state *duckdb.ChunkIteratorState) error {
+//
+// Every row checks the query's context first, so a cancelled statement
+// stops after the rows being computed, not after the whole chunk.
+func (f *function) executeDirect(ctx context.Context, state *duckdb.ChunkIteratorState) error {
 	in := state.GetInputChunk()
 	n := in.GetSize()
 	lists := make([]*listColumn, in.ColumnCount())
@@ -95,9 +102,15 @@ func (f *function) executeDirect(state *duckdb.ChunkIteratorState) error {
 	results := make([]any, n)
 	skip := make([]bool, n)
 	evalRow := func(row int, args []driver.Value, bufs []listBuffers) error {
+		if err := stopped(ctx); err != nil {
+			return err
+		}
 		for c := range args {
 			var err error
 			if lists[c] != nil {
+				if err := f.checkListLength(lists[c].length(row)); err != nil {
+					return err
+				}
 				var b *listBuffers
 				if f.reuse {
 					b = &bufs[c]
@@ -162,7 +175,7 @@ func (f *function) executeDirect(state *duckdb.ChunkIteratorState) error {
 }
 
 // executeRows evaluates a chunk row by row through duckdb-go's iterator.
-func (f *function) executeRows(chunk *duckdb.ChunkIteratorState) error {
+func (f *function) executeRows(ctx context.Context, chunk *duckdb.ChunkIteratorState) error {
 	args := make([]driver.Value, chunk.ColumnCount())
 	for row, err := range chunk.Rows() {
 		if err != nil {
@@ -170,6 +183,9 @@ func (f *function) executeRows(chunk *duckdb.ChunkIteratorState) error {
 		}
 		for i := range args {
 			args[i] = *row.GetValuePtr(i)
+		}
+		if err := errors.Join(stopped(ctx), f.checkBoxedLists(args)); err != nil {
+			return fmt.Errorf("%s: %w", f.name, err)
 		}
 		v, err := f.evalSafely(args)
 		if err != nil {
@@ -187,7 +203,7 @@ func (f *function) executeRows(chunk *duckdb.ChunkIteratorState) error {
 // arguments, so reading overlaps computing; a second walk over the rows
 // writes the results in order, each as soon as it is ready (the chunk API
 // sets a result only at the row its iterator stands on).
-func (f *function) executeParallel(chunk *duckdb.ChunkIteratorState) error {
+func (f *function) executeParallel(ctx context.Context, chunk *duckdb.ChunkIteratorState) error {
 	size := chunk.GetInputChunk().GetSize()
 	results := make([]any, size)
 	errs := make([]error, size)
@@ -200,7 +216,11 @@ func (f *function) executeParallel(chunk *duckdb.ChunkIteratorState) error {
 		go func() {
 			defer wg.Done()
 			for i := range jobs {
-				results[i], errs[i] = f.evalSafely(args[i])
+				if errs[i] = stopped(ctx); errs[i] == nil {
+					if errs[i] = f.checkBoxedLists(args[i]); errs[i] == nil {
+						results[i], errs[i] = f.evalSafely(args[i])
+					}
+				}
 				args[i] = nil
 				close(done[i])
 			}
@@ -209,6 +229,9 @@ func (f *function) executeParallel(chunk *duckdb.ChunkIteratorState) error {
 	n := 0
 	var readErr error
 	for row, err := range chunk.Rows() {
+		if err == nil {
+			err = stopped(ctx) // reading the rows boxes every value: stop early too
+		}
 		if err != nil {
 			readErr = err
 			break

@@ -22,6 +22,10 @@ type Options struct {
 	// Settings are DuckDB configuration options applied at start-up, such
 	// as "threads" or "memory_limit".
 	Settings map[string]string
+	// MemoryLimit, in bytes, bounds the list arguments plumb's functions
+	// accept (maxListValues); 0: no bound. It does not set DuckDB's own
+	// memory_limit.
+	MemoryLimit int64
 }
 
 // Open opens a DuckDB database with every plumb function registered.
@@ -52,7 +56,7 @@ func Open(ctx context.Context, opts Options) (*sql.DB, error) {
 		return nil, fmt.Errorf("open database %q: %w", displayPath(opts.Path), err)
 	}
 	db := sql.OpenDB(connector)
-	if err := registerAll(ctx, db, &ready); err != nil {
+	if err := registerAll(ctx, db, &ready, opts.MemoryLimit); err != nil {
 		db.Close()
 		return nil, err
 	}
@@ -70,7 +74,7 @@ func displayPath(p string) string {
 // connection, creates the macros on it, and then sets ready so that every
 // later connection creates its own macros as it opens. DuckDB binds a macro
 // body when the macro is created, so the functions must come first.
-func registerAll(ctx context.Context, db *sql.DB, ready *atomic.Bool) error {
+func registerAll(ctx context.Context, db *sql.DB, ready *atomic.Bool, memoryLimit int64) error {
 	conn, err := db.Conn(ctx)
 	if err != nil {
 		return fmt.Errorf("udf: connect: %w", err)
@@ -79,6 +83,9 @@ func registerAll(ctx context.Context, db *sql.DB, ready *atomic.Bool) error {
 	functions, err := allFunctions()
 	if err != nil {
 		return err
+	}
+	for _, f := range functions {
+		f.maxList = maxListValues(memoryLimit)
 	}
 	if err := register(conn, functions); err != nil {
 		return err

@@ -34,6 +34,12 @@ type Config struct {
 	Grace        time.Duration // how long running statements may finish at shutdown
 	// FailedLoginDelay is the pause before a failed login is answered.
 	FailedLoginDelay time.Duration
+	// AuthTimeout is how long a connection may take to log in (0: 10 s,
+	// as PostgreSQL's authentication_timeout); it holds a connection slot
+	// meanwhile.
+	AuthTimeout time.Duration
+	// TLSRequired refuses sessions that did not negotiate TLS.
+	TLSRequired bool
 }
 
 // Check validates a configuration before anything is opened.
@@ -46,6 +52,9 @@ func (c *Config) Check() error {
 	}
 	if c.Grace == 0 {
 		c.Grace = 10 * time.Second
+	}
+	if c.AuthTimeout == 0 {
+		c.AuthTimeout = 10 * time.Second
 	}
 	if c.FailedLoginDelay == 0 {
 		c.FailedLoginDelay = time.Second
@@ -68,6 +77,17 @@ func (c *Config) Check() error {
 	}
 	if (c.TLSCert == "") != (c.TLSKey == "") {
 		return fmt.Errorf("give both --tls-cert and --tls-key, or neither")
+	}
+	if c.TLSRequired && c.TLSCert == "" {
+		return fmt.Errorf("--tls-required needs a certificate: give --tls-cert and --tls-key")
+	}
+	if c.MaxConns < 0 || c.AuthTimeout < 0 {
+		return fmt.Errorf("--max-connections and --auth-timeout must not be negative")
+	}
+	if c.MemoryLimit != "" {
+		if _, err := byteSize(c.MemoryLimit); err != nil {
+			return fmt.Errorf("--memory-limit: %w", err)
+		}
 	}
 	if c.DataDir != "" {
 		st, err := os.Stat(c.DataDir)

@@ -446,11 +446,12 @@ func readBinaryCopy(r *bufio.Reader, cols []column, ins *copyInserter) (int64, e
 				literals[i] = "NULL"
 				continue
 			}
-			data := make([]byte, size)
-			if _, err := io.ReadFull(r, data); err != nil {
+			// Read as the bytes arrive, so a field length the data does
+			// not back costs no memory.
+			data, err := readGrowing(r, nil, int(size))
+			if err != nil {
 				return n, pgError{stateBadCopyData, "COPY data cut short"}
 			}
-			var err error
 			if _, isArray := elementOf[cols[i].oid]; isArray {
 				var items []string
 				items, err = binaryArrayLiterals(data)

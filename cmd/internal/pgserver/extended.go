@@ -20,6 +20,9 @@ func (sess *session) parse(m *pgproto3.Parse) error {
 		return err
 	}
 	p.toks = lex(p.rewritten)
+	if maxParam(p.toks) > maxParams { // before anything is sized by it
+		return pgError{stateUndefinedParameter, fmt.Sprintf("parameter numbers go up to $%d", maxParams)}
+	}
 	if sh, ok := sess.ownShape(p.rewritten); ok {
 		p.shape, p.own = sh, true
 		p.shape.params = make([]uint32, maxParam(p.toks))
@@ -184,6 +187,10 @@ func (sess *session) execute(m *pgproto3.Execute) error {
 }
 
 // maxParam is the highest $n in a statement.
+// maxParams is the most parameters a statement may have: a Bind message
+// counts them in 16 bits, as PostgreSQL does.
+const maxParams = 65535
+
 func maxParam(toks []token) int {
 	n := 0
 	for _, t := range toks {

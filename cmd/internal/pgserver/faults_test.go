@@ -235,7 +235,8 @@ func TestServeProcess(t *testing.T) {
 	if err := os.MkdirAll(data, 0o755); err != nil {
 		t.Fatal(err)
 	}
-	cfg := Config{Addr: "127.0.0.1:0", Auth: "trust", DBPath: dbPath, DataDir: data, Grace: grace}
+	cfg := Config{Addr: "127.0.0.1:0", Auth: "trust", DBPath: dbPath, DataDir: data, Grace: grace,
+		MemoryLimit: os.Getenv("PLUMB_TEST_SERVE_MEMORY")}
 	err := Run(context.Background(), cfg, slog.New(slog.NewTextHandler(io.Discard, nil)), func(a net.Addr) {
 		fmt.Printf("listening %s\n", a)
 	})

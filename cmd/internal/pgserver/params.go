@@ -195,7 +195,11 @@ func binaryLiteral(data []byte, oid uint32) (string, error) {
 	return "", fmt.Errorf("plumb cannot read a binary parameter of type %d; send it as text", oid)
 }
 
-// numericText decodes PostgreSQL's binary numeric (base-10000 digits).
+// numericText decodes PostgreSQL's binary numeric (base-10000 digits d_k
+// with a weight w: the value is the sum of d_k·10000^(w−k)) into decimal
+// text. It is written as 0.DDDD…e(4(w+1)), so its length follows the
+// digits the message holds, not the weight or display scale it claims (a
+// weight of 32767 would otherwise spell 131,072 digits from 8 bytes).
 func numericText(b []byte) (string, error) {
 	if len(b) < 8 {
 		return "", fmt.Errorf("binary numeric of %d bytes", len(b))
@@ -203,43 +207,37 @@ func numericText(b []byte) (string, error) {
 	n := int(binary.BigEndian.Uint16(b))
 	weight := int(int16(binary.BigEndian.Uint16(b[2:])))
 	sign := binary.BigEndian.Uint16(b[4:])
-	scale := int(binary.BigEndian.Uint16(b[6:]))
 	if len(b) != 8+2*n {
 		return "", fmt.Errorf("binary numeric of %d bytes for %d digits", len(b), n)
 	}
-	if sign == 0xC000 {
+	switch sign {
+	case 0xC000:
 		return "NaN", nil
+	case 0xD000:
+		return "Infinity", nil
+	case 0xF000:
+		return "-Infinity", nil
+	case 0x0000, 0x4000:
+	default:
+		return "", fmt.Errorf("binary numeric with an invalid sign %#x", sign)
 	}
-	var ip, fp strings.Builder
-	for k := 0; k <= weight; k++ {
-		d := 0
-		if k < n {
-			d = int(binary.BigEndian.Uint16(b[8+2*k:]))
-		}
-		if ip.Len() == 0 {
-			fmt.Fprintf(&ip, "%d", d)
-		} else {
-			fmt.Fprintf(&ip, "%04d", d)
-		}
+	if n == 0 {
+		return "0", nil
 	}
-	if ip.Len() == 0 {
-		ip.WriteString("0")
-	}
-	for k := weight + 1; fp.Len() < scale; k++ {
-		d := 0
-		if k >= 0 && k < n {
-			d = int(binary.BigEndian.Uint16(b[8+2*k:]))
-		}
-		fmt.Fprintf(&fp, "%04d", d)
-	}
-	s := ip.String()
-	if scale > 0 {
-		s += "." + fp.String()[:scale]
-	}
+	var sb strings.Builder
 	if sign == 0x4000 {
-		s = "-" + s
+		sb.WriteString("-")
 	}
-	return s, nil
+	sb.WriteString("0.")
+	for k := 0; k < n; k++ {
+		d := binary.BigEndian.Uint16(b[8+2*k:])
+		if d > 9999 {
+			return "", fmt.Errorf("binary numeric digit %d out of range", d)
+		}
+		fmt.Fprintf(&sb, "%04d", d)
+	}
+	fmt.Fprintf(&sb, "e%d", 4*(weight+1))
+	return sb.String(), nil
 }
 
 // binaryArrayLiterals reads a one-dimensional binary array into element
@@ -256,7 +254,16 @@ func binaryArrayLiterals(b []byte) ([]string, error) {
 	if dims != 1 || len(b) < 20 {
 		return nil, fmt.Errorf("plumb accepts one-dimensional arrays only (got %d dimensions)", dims)
 	}
-	n := int(binary.BigEndian.Uint32(b[12:]))
+	n := int(int32(binary.BigEndian.Uint32(b[12:])))
+	// Every element takes at least its 4-byte length, so the count the
+	// header claims is checked against the bytes present before the list
+	// is allocated.
+	if n < 0 || n > (len(b)-20)/4 {
+		return nil, fmt.Errorf("binary array header claims %d elements in %d bytes", n, len(b))
+	}
+	if n > maxArrayElements {
+		return nil, errTooManyElements(n)
+	}
 	p := 20
 	items := make([]string, 0, n)
 	for k := 0; k < n; k++ {
@@ -282,9 +289,26 @@ func binaryArrayLiterals(b []byte) ([]string, error) {
 	return items, nil
 }
 
+// maxArrayElements is the most elements an array parameter may have: an
+// element becomes a SQL literal of its own (a few tens of bytes while it is
+// built, from as little as two bytes of the message), so a 64 MiB message
+// of one-digit elements must not turn into gigabytes. 4,194,304 values is
+// plumb's own bound, above any series a client would bind as one array.
+const maxArrayElements = 1 << 22
+
+func errTooManyElements(n int) error {
+	return fmt.Errorf("an array parameter of %d elements is over plumb's limit of %d", n, maxArrayElements)
+}
+
 // textArrayLiterals reads PostgreSQL's array text ({1,2,"a b",NULL}) into
 // element literals of type elem (0: left to DuckDB).
 func textArrayLiterals(s string, elem uint32) ([]string, error) {
+	// Each element costs tens of bytes while parsed and rendered, whatever
+	// its own length, so the count is bounded first (at most one element
+	// per comma, plus one).
+	if n := strings.Count(s, ",") + 1; n > maxArrayElements {
+		return nil, errTooManyElements(n)
+	}
 	elems, err := parseArrayText(s)
 	if err != nil {
 		return nil, err

@@ -626,6 +626,9 @@ func paramNumber(text string) int {
 	n := 0
 	for _, c := range text[1:] {
 		n = n*10 + int(c-'0')
+		if n > maxParams {
+			return maxParams + 1 // saturates: no overflow from a long $n
+		}
 	}
 	return n
 }

@@ -157,7 +157,7 @@ func TestParameterLiterals(t *testing.T) {
 		{[]byte{0x40, 0x04, 0, 0, 0, 0, 0, 0}, 1, oidFloat8, "2.5::DOUBLE"},
 		{[]byte{0, 0, 0x22, 0x79}, 1, oidDate, "DATE '2024-02-29'"}, // 8825 days after 2000-01-01
 		{[]byte{0x6b, 0xa7, 0xb8, 0x10, 0x9d, 0xad, 0x11, 0xd1, 0x80, 0xb4, 0, 0xc0, 0x4f, 0xd4, 0x30, 0xc8}, 1, oidUUID, "'6ba7b810-9dad-11d1-80b4-00c04fd430c8'::UUID"},
-		{[]byte{0, 2, 0, 0, 0, 0, 0, 2, 0, 12, 13, 72}, 1, oidNumeric, "'12.34'::DOUBLE"}, // 12.3400: digits 12, 3400, scale 2
+		{[]byte{0, 2, 0, 0, 0, 0, 0, 2, 0, 12, 13, 72}, 1, oidNumeric, "'0.00123400e4'::DOUBLE"}, // 12.3400: digits 12, 3400, weight 0, scale 2; written 0.DDDD…e(4(weight+1))
 	} {
 		got, err := paramLiteral(test.data, test.format, test.oid, "")
 		if err != nil || got != test.want {

@@ -2,6 +2,7 @@ package pgserver
 
 import (
 	"context"
+	"fmt"
 	"log/slog"
 	"net"
 	"os"
@@ -15,6 +16,13 @@ func Run(ctx context.Context, cfg Config, log *slog.Logger, ready func(net.Addr)
 	srv, err := New(ctx, cfg, log)
 	if err != nil {
 		return err
+	}
+	if cfg.MemoryLimit != "" {
+		m, _ := byteSize(cfg.MemoryLimit) // New checked it
+		if err := capProcessMemory(processMemoryCap(m)); err != nil {
+			srv.db.Close()
+			return fmt.Errorf("cap the process's memory: %w", err)
+		}
 	}
 	ln, err := net.Listen("tcp", cfg.Addr)
 	if err != nil {

@@ -6,12 +6,12 @@ import (
 	"crypto/subtle"
 	"crypto/tls"
 	"database/sql"
-	"errors"
 	"fmt"
 	"log/slog"
 	"net"
 	"os"
 	"path/filepath"
+	"runtime/debug"
 	"sort"
 	"strings"
 	"sync"
@@ -24,22 +24,28 @@ import (
 
 // Server accepts PostgreSQL clients and serves them from one database.
 type Server struct {
-	cfg   Config
-	db    *sql.DB
-	creds credentials
-	tls   *tls.Config
-	log   *slog.Logger
-	files *sandbox.Paths // what files clients may reach
-	spill string         // DuckDB's temporary directory, private to the server
-	names *catalogNames  // the database's function names, for the allow-list
+	cfg    Config
+	db     *sql.DB
+	creds  credentials
+	logins *loginThrottle
+	tls    *tls.Config
+	log    *slog.Logger
+	files  *sandbox.Paths // what files clients may reach
+	spill  string         // DuckDB's temporary directory, private to the server
+	names  *catalogNames  // the database's function names, for the allow-list
 
 	mu       sync.Mutex
 	ln       net.Listener
 	sessions map[uint32]*session
-	closing  atomic.Bool
-	version  string // what version() answers
-	wg       sync.WaitGroup
-	nextPID  atomic.Uint32
+	open     int // connections holding a slot, logged in or not
+	refusing int // connections being told the server is full
+	// dropped counts connections closed unanswered since droppedLogged.
+	dropped       int
+	droppedLogged time.Time
+	closing       atomic.Bool
+	version       string // what version() answers
+	wg            sync.WaitGroup
+	nextPID       atomic.Uint32
 }
 
 // New opens the database with the sandbox in force and prepares to serve.
@@ -47,7 +53,7 @@ func New(ctx context.Context, cfg Config, log *slog.Logger) (*Server, error) {
 	if err := cfg.Check(); err != nil {
 		return nil, err
 	}
-	s := &Server{cfg: cfg, log: log, sessions: map[uint32]*session{}}
+	s := &Server{cfg: cfg, log: log, sessions: map[uint32]*session{}, logins: newLoginThrottle(cfg.FailedLoginDelay)}
 	if cfg.TLSCert != "" {
 		cert, err := tls.LoadX509KeyPair(cfg.TLSCert, cfg.TLSKey)
 		if err != nil {
@@ -65,7 +71,15 @@ func New(ctx context.Context, cfg Config, log *slog.Logger) (*Server, error) {
 	if err := s.placeFiles(); err != nil {
 		return nil, err
 	}
-	db, err := udf.Open(ctx, udf.Options{Path: cfg.DBPath, ReadOnly: cfg.ReadOnly})
+	var memoryLimit int64
+	if cfg.MemoryLimit != "" {
+		memoryLimit, _ = byteSize(cfg.MemoryLimit) // Check read it
+		// The Go heap (plumb's functions, the sessions' buffers) is held
+		// to the same limit as DuckDB's buffers; the setting is the
+		// process's.
+		debug.SetMemoryLimit(memoryLimit)
+	}
+	db, err := udf.Open(ctx, udf.Options{Path: cfg.DBPath, ReadOnly: cfg.ReadOnly, MemoryLimit: memoryLimit})
 	if err != nil {
 		os.RemoveAll(s.spill)
 		return nil, err
@@ -189,32 +203,7 @@ func (s *Server) Serve(ln net.Listener) error {
 	s.ln = ln
 	s.mu.Unlock()
 	s.log.Info("listening", "addr", ln.Addr().String(), "auth", s.cfg.Auth, "tls", s.tls != nil, "data", s.cfg.DataDir)
-	for {
-		c, err := ln.Accept()
-		if err != nil {
-			if s.closing.Load() {
-				return nil
-			}
-			var ne net.Error
-			if errors.As(err, &ne) && ne.Timeout() {
-				continue
-			}
-			return err
-		}
-		s.wg.Add(1)
-		go func() {
-			defer s.wg.Done()
-			defer func() {
-				// A bug met by one client's input ends that session, not
-				// the server and everyone else's.
-				if r := recover(); r != nil {
-					s.log.Error("session ended by an internal error", "remote", c.RemoteAddr().String(), "panic", fmt.Sprint(r))
-					c.Close()
-				}
-			}()
-			s.handle(c)
-		}()
-	}
+	return s.acceptLoop(ln)
 }
 
 // Files is the server's file policy, for anything else in the process that
@@ -232,14 +221,12 @@ func (s *Server) Addr() net.Addr {
 	return s.ln.Addr()
 }
 
-func (s *Server) register(sess *session) bool {
+// register makes a logged-in session known to cancel requests and
+// shutdown; its connection already holds a slot (admit).
+func (s *Server) register(sess *session) {
 	s.mu.Lock()
 	defer s.mu.Unlock()
-	if len(s.sessions) >= s.cfg.MaxConns {
-		return false
-	}
 	s.sessions[sess.pid] = sess
-	return true
 }
 
 func (s *Server) unregister(sess *session) {

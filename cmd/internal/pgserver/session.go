@@ -22,6 +22,9 @@ type session struct {
 	srv      *Server
 	conn     net.Conn
 	be       *pgproto3.Backend
+	frames   *frameReader
+	full     bool      // the connection holds no slot: refuse the login
+	loginBy  time.Time // the --auth-timeout deadline
 	db       *sql.Conn
 	log      *slog.Logger
 	pid      uint32
@@ -39,14 +42,18 @@ type session struct {
 
 	mu     sync.Mutex
 	cancel context.CancelFunc // of the running statement
-	busy   bool
+	// stopWatch ends the watchPeer of the running statement.
+	stopWatch chan struct{}
+	busy      bool
 }
 
-func (s *Server) handle(c net.Conn) {
+// handle serves one connection; full means it holds no slot and is only
+// told that the server is full (a cancel request is still honoured).
+func (s *Server) handle(c net.Conn, full bool) {
 	start := time.Now()
-	sess := &session{srv: s, conn: c, be: pgproto3.NewBackend(c, c), txn: 'I',
+	sess := &session{srv: s, txn: 'I', full: full,
 		params: map[string]string{}, statements: map[string]*prepared{}, portals: map[string]*portal{}}
-	sess.be.SetMaxBodyLen(64 << 20)
+	sess.attach(c)
 	sess.log = s.log.With("remote", c.RemoteAddr().String())
 	defer c.Close()
 	ok, err := sess.startup()
@@ -72,7 +79,12 @@ func (s *Server) handle(c net.Conn) {
 // startup handles SSL negotiation, cancel requests, the startup message and
 // authentication; ok reports whether a session was established.
 func (sess *session) startup() (bool, error) {
-	sess.conn.SetDeadline(time.Now().Add(30 * time.Second))
+	timeout := sess.srv.cfg.AuthTimeout
+	if sess.full {
+		timeout = min(timeout, refusalTimeout)
+	}
+	sess.loginBy = time.Now().Add(timeout)
+	sess.conn.SetDeadline(sess.loginBy)
 	defer sess.conn.SetDeadline(time.Time{})
 	for {
 		msg, err := sess.be.ReceiveStartupMessage()
@@ -94,9 +106,7 @@ func (sess *session) startup() (bool, error) {
 			if err := t.Handshake(); err != nil {
 				return false, fmt.Errorf("TLS handshake: %w", err)
 			}
-			sess.conn = t
-			sess.be = pgproto3.NewBackend(t, t)
-			sess.be.SetMaxBodyLen(64 << 20)
+			sess.attach(t)
 		case *pgproto3.GSSEncRequest:
 			if _, err := sess.conn.Write([]byte{'N'}); err != nil {
 				return false, err
@@ -124,15 +134,35 @@ func (sess *session) login(m *pgproto3.StartupMessage) (bool, error) {
 		sess.fatal(stateAdminShutdown, "the server is shutting down")
 		return false, nil
 	}
+	if sess.full {
+		sess.fatal(stateTooManyConns, fmt.Sprintf("sorry, too many connections (at most %d)", srv.cfg.MaxConns))
+		return false, nil
+	}
+	if _, secure := sess.conn.(*tls.Conn); srv.cfg.TLSRequired && !secure {
+		sess.fatal(stateInvalidAuthSpec, "this server accepts TLS connections only: connect with sslmode=require or stronger")
+		return false, nil
+	}
 	if sess.user == "" {
 		sess.fatal(stateInvalidAuthSpec, "no user name given")
 		return false, nil
 	}
 	if srv.cfg.Auth == "scram" {
+		host, _, _ := net.SplitHostPort(sess.conn.RemoteAddr().String())
+		keys := loginKeys(sess.user, host)
+		if wait := srv.logins.wait(keys); wait > 0 {
+			if time.Now().Add(wait).After(sess.loginBy) {
+				sess.log.Warn("login refused: too many failed logins", "user", sess.user)
+				sess.fatal(stateInvalidPassword, fmt.Sprintf("too many failed logins for this user or address; try again in %s", wait.Round(time.Second)))
+				return false, nil
+			}
+			time.Sleep(wait)
+		}
 		if err := scramLogin(sess.be, srv.creds, sess.user); err != nil {
 			var le errLogin
 			if errors.As(err, &le) {
-				time.Sleep(srv.cfg.FailedLoginDelay)
+				// The answer waits its turn, but no longer than the
+				// login deadline; later attempts still queue (wait above).
+				time.Sleep(min(srv.logins.failed(keys), time.Until(sess.loginBy)-50*time.Millisecond))
 				sess.log.Warn("login failed", "user", sess.user, "reason", le.reason)
 				code := stateInvalidPassword
 				if strings.Contains(le.reason, "expected") || strings.Contains(le.reason, "mechanism") || strings.Contains(le.reason, "malformed") {
@@ -143,14 +173,12 @@ func (sess *session) login(m *pgproto3.StartupMessage) (bool, error) {
 			}
 			return false, err
 		}
+		srv.logins.succeeded(keys)
 	}
 	sess.gate = &gate{files: srv.files, role: srv.cfg.role(sess.user), readOnly: srv.cfg.ReadOnly, catalog: srv.names}
 	sess.pid = srv.nextPID.Add(1)
 	sess.secret = randomSecret()
-	if !srv.register(sess) {
-		sess.fatal(stateTooManyConns, fmt.Sprintf("too many connections (at most %d)", srv.cfg.MaxConns))
-		return false, nil
-	}
+	srv.register(sess)
 	db, err := srv.db.Conn(context.Background())
 	if err != nil {
 		srv.unregister(sess)
@@ -174,6 +202,7 @@ func (sess *session) login(m *pgproto3.StartupMessage) (bool, error) {
 		sess.fatal(stateInternal, err.Error())
 		return false, nil
 	}
+	sess.frames.limit = maxMessage
 	sess.be.Send(&pgproto3.AuthenticationOk{})
 	for _, name := range startupParameters {
 		sess.be.Send(&pgproto3.ParameterStatus{Name: name, Value: sess.param(strings.ToLower(name))})
@@ -319,8 +348,10 @@ func (sess *session) begin() context.Context {
 	} else {
 		ctx, cancel = context.WithCancel(ctx)
 	}
+	stop := make(chan struct{})
+	go sess.watchPeer(ctx, cancel, stop)
 	sess.mu.Lock()
-	sess.cancel, sess.busy = cancel, true
+	sess.cancel, sess.busy, sess.stopWatch = cancel, true, stop
 	sess.mu.Unlock()
 	return ctx
 }
@@ -330,7 +361,10 @@ func (sess *session) end() {
 	if sess.cancel != nil {
 		sess.cancel()
 	}
-	sess.cancel, sess.busy = nil, false
+	if sess.stopWatch != nil {
+		close(sess.stopWatch)
+	}
+	sess.cancel, sess.busy, sess.stopWatch = nil, false, nil
 	sess.mu.Unlock()
 }
 

@@ -77,3 +77,28 @@ func TestTLS(t *testing.T) {
 	}
 	c.Close(context.Background())
 }
+
+// TestTLSRequired: with --tls-required a plaintext client is refused with
+// a message saying why, a TLS client is served, and the flag without a
+// certificate is a start-up error.
+func TestTLSRequired(t *testing.T) {
+	cert, key := selfSigned(t)
+	ts := startServer(t, Config{TLSCert: cert, TLSKey: key, TLSRequired: true})
+	_, err := pgx.Connect(context.Background(), ts.url("ana", "s3cret")) // sslmode=disable
+	if err == nil || sqlStateOf(err) != stateInvalidAuthSpec || !strings.Contains(err.Error(), "TLS connections only") {
+		t.Errorf("plaintext client: %v, want a 28000 error naming TLS", err)
+	}
+	c, err := pgx.Connect(context.Background(), strings.Replace(ts.url("ana", "s3cret"), "sslmode=disable", "sslmode=require", 1))
+	if err != nil {
+		t.Fatalf("TLS client: %v", err)
+	}
+	var n int
+	if err := c.QueryRow(context.Background(), "SELECT 6").Scan(&n); err != nil || n != 6 {
+		t.Errorf("over TLS: %v", err)
+	}
+	c.Close(context.Background())
+	cfg := Config{Addr: "127.0.0.1:0", Users: map[string]string{"ana": "s3cret"}, TLSRequired: true}
+	if err := cfg.Check(); err == nil || !strings.Contains(err.Error(), "--tls-required needs a certificate") {
+		t.Errorf("--tls-required without a certificate: %v", err)
+	}
+}
