@@ -4,6 +4,8 @@ import (
 	"math"
 
 	"gonum.org/v1/gonum/stat/distuv"
+
+	"github.com/plumb-sql/plumb/stats/defaults"
 )
 
 // Integration is the differencing between a series z and its stationary
@@ -119,8 +121,8 @@ type Forecast struct {
 // DefaultHorizon and DefaultCoverage are the defaults plumb's SQL layer
 // offers; ForecastAR itself takes both explicitly.
 const (
-	DefaultHorizon  = 14
-	DefaultCoverage = 0.95
+	DefaultHorizon  = defaults.Horizon
+	DefaultCoverage = defaults.Coverage
 	// MaxHorizon bounds the horizon so that a mistyped one cannot exhaust
 	// memory: three slices of this many values per series.
 	MaxHorizon = 100000

@@ -1,10 +1,15 @@
 package stats
 
-import "math"
+import (
+	"math"
 
-// DefaultPeriods are the seasonal periods tried when none is given: a week
-// of days, a year of months, a day of hours, a year of weeks, a year of days.
-var DefaultPeriods = []int{7, 12, 24, 52, 365}
+	"github.com/plumb-sql/plumb/stats/defaults"
+)
+
+// DefaultPeriods are the seasonal periods tried when none is given
+// (defaults.Periods: a week of days, a year of months, a day of hours, a
+// year of weeks, a year of days).
+var DefaultPeriods = defaults.Periods()
 
 // SeasonalStrengthThreshold is the seasonal strength from which plumb calls a
 // series seasonal and recommends one seasonal difference: 0.64, the

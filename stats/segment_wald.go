@@ -15,47 +15,39 @@ import (
 //	Q = Σ_j m_j (ȳ_j - ȳ)² / (c·λ̂²),
 //
 // and its p-value is P(F(k-1, ν) > Q/(k-1)). The pieces, and why each is
-// there (measured on seeded AR(1) series with φ from 0 to 0.9 and T from 50
-// to 5,000; TestPValueUniformity and TestSegmentTestsGrid print the
-// results, the README copies them):
+// there (DEVELOPERS.md, "P-value calibration", has the measurements behind
+// them and the command that repeats them):
 //
 //   - λ̂² = σ̂_v² / (1 - φ̃)², an AR(1) approximation fitted to the
 //     deviations e_t of y from its segment means (blockAR1Fit). Block
 //     demeaning biases the pooled least-squares φ̂ down by (1 + φ)/m (the
 //     part of Kendall's (1954) bias that comes from estimating each block's
 //     mean) and the ratio estimator by another 2φ/n, so
-//     φ̃ = (m·φ̂ + 1)/(m - 1 - 2m/n) (Kendall's whole-series correction
-//     (m·φ̂ + 1)/(m - 3) over-corrected: mean φ̃ 0.534 for φ = 0.5, m = 25).
-//     σ̂_v² divides the residual sum of squares by n - k - 1, the k means
-//     and φ being estimated.
+//     φ̃ = (m·φ̂ + 1)/(m - 1 - 2m/n); Kendall's whole-series correction
+//     (m·φ̂ + 1)/(m - 3) over-corrects here. σ̂_v² divides the residual
+//     sum of squares by n - k - 1, the k means and φ being estimated.
 //   - c corrects for short segments: for an AR(1) series a segment mean's
 //     variance is λ²·g(m)/m with g(m) = 1 - 2φ(1 - φ^m)/(m(1 - φ²)) (the
 //     sum of its autocovariances with Bartlett-type weights), so
 //     E Σ m_j (ȳ_j - ȳ)² = λ²·(Σ_j g(m_j) - g(n)) = λ²·c·(k-1). Without it
-//     the test under-rejects for persistent series (E Q = 6.6 instead of 7
-//     at φ = 0.5, T = 200, k = 8).
+//     the test under-rejects for persistent series.
 //   - ν, the denominator's degrees of freedom, carries the uncertainty of
 //     λ̂² (Satterthwaite 1946): by the delta method
 //     Var(log λ̂²) ≈ 2/(n-k-1) + 4·Var(φ̃)/(1 - φ̃)², with Var(φ̃) the
 //     AR(1) value (1 - φ²)/n times the bias correction's scale squared,
-//     and ν = 2/Var(log λ̂²). This was the cause of the heavy tail: with
-//     λ̂² treated as known (a χ²(k-1) reference) the test rejected 4.4 to
-//     11.5 times too often at p < 1e-4 at T = 200, because at φ = 0.5 the
-//     relative error of λ̂² is about 30% (ν ≈ 25), far from negligible when
-//     k-1 = 7. ν is evaluated one standard error above φ̃: it falls steeply
-//     as φ rises, and at φ̃ itself it is largest exactly when φ̃
-//     underestimates φ, which is when λ̂² is too small (T = 200, φ = 0.5,
-//     300,000 series: 1.57× nominal at p < 1e-4 with ν at φ̃, 0.40× with
-//     ν at the true φ, 1.10× one standard error above φ̃).
+//     and ν = 2/Var(log λ̂²). Treating λ̂² as known (a χ²(k-1) reference)
+//     gives the test a heavy tail, because the relative error of λ̂² is
+//     far from negligible beside k-1 degrees of freedom. ν is evaluated one
+//     standard error above φ̃: it falls steeply as φ rises, and at φ̃
+//     itself it is largest exactly when φ̃ underestimates φ, which is when
+//     λ̂² is too small.
 //
 // The spread test adds one small-sample correction: centring each segment
 // at its own median adds the median's sampling error to every absolute
 // deviation of that segment, which inflates the within-segment variation
 // (and λ̂²) by about κ/m, while the segment means of the deviations move
 // only at second order (the median minimises the sum of absolute
-// deviations). κ was measured by simulation (TestSpreadCentringInflation,
-// 200,000 white-noise series per length): 2.66, 2.33 and 2.49 at m = 25,
-// 50 and 100; for AR(1) series with φ up to 0.7 it measured 2 to 3.
+// deviations). κ is measured by simulation (TestSpreadCentringInflation).
 
 // spreadCentringInflation is κ above.
 const spreadCentringInflation = 2.5

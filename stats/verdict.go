@@ -3,6 +3,8 @@ package stats
 import (
 	"math"
 	"strings"
+
+	"github.com/plumb-sql/plumb/stats/defaults"
 )
 
 // StationarityOptions configure Stationarity.
@@ -12,7 +14,7 @@ type StationarityOptions struct {
 	// seasonality is not judged and the status stays ok.
 	Period     int
 	Candidates []int
-	// Alpha is the level for the whole verdict; 0 means 0.05.
+	// Alpha is the level for the whole verdict; 0 means defaults.Alpha.
 	Alpha float64
 	// Segments for the stability checks; 0 means automatic.
 	Segments int
@@ -213,7 +215,7 @@ func joinViolations(v []Violation) string {
 func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, error) {
 	alpha := opts.Alpha
 	if alpha == 0 {
-		alpha = 0.05
+		alpha = defaults.Alpha
 	}
 	if !(alpha > 0 && alpha < 1) {
 		return StationarityResult{}, errorf("stationarity: alpha must be between 0 and 1, got %v", opts.Alpha)

@@ -3,6 +3,8 @@ package stats
 import (
 	"fmt"
 	"math"
+
+	"github.com/plumb-sql/plumb/stats/defaults"
 )
 
 // BreakKind names what the Zivot-Andrews test lets break once.
@@ -47,7 +49,7 @@ func CheckBreakTrim(trim float64) error {
 
 // Trimming limits: the p-value table covers these fractions.
 const (
-	DefaultBreakTrim = 0.15
+	DefaultBreakTrim = defaults.Trimming
 	minBreakTrim     = 0.05
 	maxBreakTrim     = 0.30
 )

@@ -53,3 +53,18 @@ func value(v float64, ok bool) any {
 	}
 	return orNull(v)
 }
+
+// withSeries adapts an evaluation over a series to DuckDB's arguments: a
+// NULL series gives NULL.
+func withSeries(f func(x []float64, args []driver.Value) (any, error)) func([]driver.Value) (any, error) {
+	return func(args []driver.Value) (any, error) {
+		if args[0] == nil {
+			return nil, nil
+		}
+		x, err := floats(args[0])
+		if err != nil {
+			return nil, err
+		}
+		return f(x, args)
+	}
+}

@@ -13,12 +13,12 @@ import (
 
 // Every table function hands DuckDB the groups of its source a batch at a
 // time, so that it completes under DuckDB's memory_limit whatever the
-// number of groups. What DuckDB 1.5.6 does, measured (DEVELOPERS.md has the
-// numbers):
+// number of groups. What DuckDB 1.5.6 does (DEVELOPERS.md, "Bounded
+// memory", has the measurements):
 //
-//   - list() cannot spill to disk: a GROUP BY that gathers 36.5 million
-//     (at, value) pairs into lists needs about 1.1 GB and fails with an
-//     out-of-memory error under a smaller memory_limit.
+//   - list() cannot spill to disk: a GROUP BY that gathers (at, value)
+//     pairs into lists fails with an out-of-memory error once the lists
+//     outgrow memory_limit.
 //   - Two GROUP BYs in one query, as UNION ALL branches or MATERIALIZED
 //     CTEs, keep their lists until the query ends, even on one thread:
 //     splitting the groups inside one plain query saves nothing.
@@ -50,17 +50,11 @@ import (
 // functions that return a row per source row rowBytes, which adds their
 // output.
 //
-// Gathering took about 30 bytes a row, measured with BIGINT and DOUBLE
-// columns: 100,000 groups × 365 rows needed a memory_limit between 1.0 and
-// 1.1 GB, in group order and in time order alike. But on a source in time
-// order every thread meets every group, and merging the threads' partial
-// lists copies them: 1,000,000 groups × 365 rows in time order ran out of
-// memory under memory_limit = '4GB' in batches of 67 million rows (30 bytes
-// a row would have allowed 74 million) and completed in batches of 36
-// million. gatherBytesPerRow allows for that copy. Under memory_limit =
-// '100MB', 8,000 groups of 350 rows on average on two threads,
-// stationarize_recipes ran out of memory until the chunks' lists were
-// counted.
+// gatherBytesPerRow is about twice what gathering takes on a source in
+// group order: on a source in time order every thread meets every group,
+// and merging the threads' partial lists copies them. The chunks' lists
+// (chunkBytes) are counted because a small memory_limit is exhausted by
+// them alone.
 const (
 	batchMemoryShare  = 0.6
 	batchReserve      = 40 << 20
@@ -70,10 +64,7 @@ const (
 
 // batchRowsCap bounds a batch even when memory_limit would allow more:
 // gathering more than a few GB at once only costs the kernel time to hand
-// out fresh pages. 1,000,000 groups × 365 rows on two cores (group-sorted
-// Parquet): one batch took 48 s, 68 s of user and 20 s of system CPU time
-// and 10.9 GB; batches of at most 73.5 million rows 42 s, 67 s and 7 s,
-// and 2.6 GB; of at most 2^26 rows 39 s and 2.6 GB (median of 3).
+// out fresh pages, and takes memory for no gain in speed.
 const batchRowsCap = 1 << 26
 
 // rowBytes is what a batch of a function that returns a row per source row
@@ -81,9 +72,8 @@ const batchRowsCap = 1 << 26
 // values (at, the value, and its results): the gathering, plus its output
 // held twice while the next batch runs (the recursive CTE keeps the last
 // batch's rows beside the batch's own), plus a third for the lists'
-// overhead. rolling_dispersion (7 lists) ran out of memory under
-// memory_limit = '80MB' (8,000 groups) when every function was allowed 128
-// bytes a row.
+// overhead: a function returning many lists needs more than a fixed
+// allowance per row.
 func rowBytes(lists int) int { return gatherBytesPerRow + 24*lists }
 
 // chunkBytes is, per source row, what DuckDB holds while one chunk of
@@ -195,24 +185,10 @@ func (q seriesQuery) planCTEs(bytesPerRow int) string {
 	for i, b := range q.by {
 		null[i] = quoteIdent(b) + " IS NULL"
 	}
-	return fmt.Sprintf(`%[1]s, plumb_keys AS MATERIALIZED (
-    SELECT %[2]s, count(*) AS plumb_rows, (%[3]s) AS plumb_null_key
-    FROM plumb_input
-    WHERE (SELECT plumb_ok FROM plumb_source_ok)
-    GROUP BY %[2]s%[4]s
-), plumb_plan AS MATERIALIZED (
-    SELECT %[2]s, plumb_rows, plumb_null_key, dense_rank() OVER (ORDER BY plumb_start // plumb_batch_rows) - 1 AS plumb_batch
-    FROM (
-        SELECT *, sum(plumb_rows) OVER (ORDER BY %[2]s ROWS BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW) - plumb_rows AS plumb_start
-        FROM plumb_keys
-    ), (
-        SELECT CASE WHEN getvariable('plumb_batch_rows') IS NULL
-                    THEN plumb_batch_rows(current_setting('memory_limit'), current_setting('threads')::BIGINT,
-                                          count(*), sum(plumb_rows)::BIGINT, %[5]d, %[6]d)
-                    ELSE greatest(getvariable('plumb_batch_rows')::BIGINT, 1) END AS plumb_batch_rows
-        FROM plumb_keys
-    )
-)`, q.inputCTE(), by, strings.Join(null, " OR "), q.shardFilter(), bytesPerRow, q.chunkBytes())
+	return renderStage("plan.sql", struct {
+		Input, By, NullKey, ShardFilter string
+		BytesPerRow, ChunkBytes         int
+	}{q.inputCTE(), by, strings.Join(null, " OR "), q.shardFilter(), bytesPerRow, q.chunkBytes()})
 }
 
 // batchedCTEs returns a WITH RECURSIVE clause whose last table, plumb_done,
@@ -237,41 +213,14 @@ func (q seriesQuery) batchedCTEs(perGroup string, bytesPerRow int) string {
 		equal[i] = fmt.Sprintf("plumb_input.%[1]s = plumb_k.%[1]s", c)
 		same[i] = fmt.Sprintf("plumb_input.%[1]s IS NOT DISTINCT FROM plumb_k.%[1]s", c)
 	}
-	return fmt.Sprintf(`WITH RECURSIVE %[1]s, plumb_batches AS (
-    SELECT -1::BIGINT AS plumb_batch, (SELECT count(DISTINCT plumb_batch) FROM plumb_plan) AS plumb_batch_count,
-           true AS plumb_marker, plumb_out AS plumb_row
-    FROM (
-        WITH %[2]s, plumb_series AS (
-            SELECT plumb_no_series.* FROM (SELECT 1) AS plumb_one(plumb_x) LEFT JOIN plumb_no_series ON false
-        )
-        SELECT * FROM (
-            %[4]s
-        ) LIMIT 1
-    ) AS plumb_out
-    UNION ALL (
-        WITH plumb_next AS (
-            SELECT DISTINCT plumb_batch + 1 AS plumb_batch, plumb_batch_count
-            FROM plumb_batches
-            WHERE plumb_marker AND plumb_batch + 1 < plumb_batch_count
-        ), plumb_batch_keys AS (
-            SELECT plumb_plan.* FROM plumb_plan JOIN plumb_next USING (plumb_batch)
-        ), plumb_batch_input AS (
-            SELECT plumb_input.*, plumb_k.plumb_rows AS plumb_counted
-            FROM plumb_input JOIN (FROM plumb_batch_keys WHERE NOT plumb_null_key) AS plumb_k ON %[5]s
-            UNION ALL
-            SELECT plumb_input.*, plumb_k.plumb_rows AS plumb_counted
-            FROM plumb_input JOIN (FROM plumb_batch_keys WHERE plumb_null_key) AS plumb_k ON %[6]s
-        ), %[3]s, plumb_out AS MATERIALIZED (
-            %[4]s
-        )
-        SELECT plumb_next.plumb_batch, plumb_next.plumb_batch_count, false, plumb_out FROM plumb_out, plumb_next
-        UNION ALL
-        SELECT plumb_batch, plumb_batch_count, true, NULL FROM plumb_next
-    )
-), plumb_done AS (
-    SELECT plumb_row.* FROM plumb_batches WHERE NOT plumb_marker
-)`, q.planCTEs(bytesPerRow),
-		q.seriesCTEs("(SELECT *, NULL::BIGINT AS plumb_counted FROM plumb_input LIMIT 0)", "plumb_no_series"),
-		q.seriesCTEs("plumb_batch_input", "plumb_series"),
-		perGroup, strings.Join(equal, " AND "), strings.Join(same, " AND "))
+	return renderStage("batches.sql", struct {
+		Plan, NoSeries, Series, PerGroup, KeysEqual, KeysSame string
+	}{
+		Plan:      q.planCTEs(bytesPerRow),
+		NoSeries:  q.seriesCTEs("(SELECT *, NULL::BIGINT AS plumb_counted FROM plumb_input LIMIT 0)", "plumb_no_series"),
+		Series:    q.seriesCTEs("plumb_batch_input", "plumb_series"),
+		PerGroup:  perGroup,
+		KeysEqual: strings.Join(equal, " AND "),
+		KeysSame:  strings.Join(same, " AND "),
+	})
 }

@@ -5,6 +5,7 @@ import (
 	"fmt"
 
 	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/defaults"
 )
 
 // The checks of option values that SQL and the commands share: a value
@@ -75,14 +76,14 @@ func periodArgMeaning(v driver.Value, null string) (int, error) {
 }
 
 // whiteNoiseArgs reads white_noise's lags and fitted: lags at least 1
-// (NULL: 10, the macro's default), fitted from 0 to lags - 1, so that the
+// (NULL: defaults.WhiteNoiseLags), fitted from 0 to lags - 1, so that the
 // test keeps lags - fitted ≥ 1 degrees of freedom.
 func whiteNoiseArgs(lagsArg, fittedArg driver.Value) (int, int, error) {
-	lags, err := intOr(lagsArg, "lags", 10)
+	lags, err := intOr(lagsArg, "lags", defaults.WhiteNoiseLags)
 	if err != nil {
 		return 0, 0, err
 	}
-	fitted, err := intOr(fittedArg, "fitted", 0)
+	fitted, err := intOr(fittedArg, "fitted", defaults.WhiteNoiseFitted)
 	if err != nil {
 		return 0, 0, err
 	}

@@ -4,13 +4,16 @@ import (
 	"database/sql/driver"
 	"fmt"
 	"math"
+
+	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/udf/internal/vectors"
 )
 
 // floats converts a DuckDB LIST(DOUBLE) value into a []float64. NULL
 // elements become NaN: plumb treats NULL and NaN alike as missing, and every
 // function documents what it does with a missing value.
 func floats(v driver.Value) ([]float64, error) {
-	if x, ok := v.([]float64); ok { // read unboxed by listColumn
+	if x, ok := v.([]float64); ok { // read unboxed by vectors.List
 		return x, nil
 	}
 	list, ok := v.([]any)
@@ -33,16 +36,18 @@ func floats(v driver.Value) ([]float64, error) {
 
 // doubleList is a LIST(DOUBLE) result with NaN standing for NULL, alone or
 // as a member of a STRUCT result. executeDirect writes them straight into
-// DuckDB's vectors (resultwriter.go); the other paths hand them to
-// duckdb-go as listOrNull does.
-type doubleList []float64
+// DuckDB's vectors (vectors.Write); the fallback hands them to duckdb-go as
+// listOrNull does.
+type doubleList = vectors.Floats
 
-// resultValue turns doubleLists, also inside a STRUCT's map, into what
-// duckdb-go's setter takes.
+// resultValue turns doubleLists, also inside a STRUCT's map, and records
+// into what duckdb-go's setter takes.
 func resultValue(v any) any {
 	switch x := v.(type) {
 	case doubleList:
 		return listOrNull(x)
+	case record:
+		return resultValue(x.Map())
 	case float64:
 		return orNull(x)
 	case map[string]any:
@@ -98,4 +103,21 @@ func orNull(v float64) any {
 		return nil
 	}
 	return v
+}
+
+// textList is a LIST(VARCHAR) value of violations.
+func textList(v []stats.Violation) []any {
+	out := make([]any, len(v))
+	for i, x := range v {
+		out[i] = string(x)
+	}
+	return out
+}
+
+// textOrNull returns s, or SQL NULL for the empty string.
+func textOrNull(s string) any {
+	if s == "" {
+		return nil
+	}
+	return s
 }

@@ -2,10 +2,10 @@ package udf
 
 import (
 	"database/sql/driver"
+	_ "embed"
 	"fmt"
 	"math"
 	"slices"
-	"strings"
 	"sync/atomic"
 
 	"github.com/duckdb/duckdb-go/v2"
@@ -13,10 +13,15 @@ import (
 	"github.com/plumb-sql/plumb/stats"
 )
 
+// The maths: stats.Regularize and stats.Stationarity (stats/gaps.go, stats/verdict*.go), stats.BenjaminiHochberg (stats/fdr.go); the SQL in diagnoseSQL, batches.go and series.go.
+
+//go:embed sql/diagnose.sql
+var diagnoseMacros string
+
 // diagnoseFunctions provides the per-group work and the SQL of
 //
-//	diagnose(source, by := ..., at := ..., value := ..., period := NULL, alpha := 0.05, fill := 'none',
-//	         shard := NULL, shards := NULL)
+//	diagnose(source, by := ..., at := ..., value := ..., period, alpha, fill, shard, shards)
+//	    (the defaults in udf/sql/diagnose.sql, from package defaults)
 //
 // which returns one row per group: the group columns; n, first_at, last_at,
 // gaps (time points missing from the group's usual step), missing (NULL
@@ -26,21 +31,16 @@ import (
 // and rank, 1 for the group furthest from stationary.
 //
 // With shard := k, shards := n it judges only the groups of shard k
-// (shard.go) and returns their rows without q-values and rank, with shard
+// (combine_diagnoses.go) and returns their rows without q-values and rank, with shard
 // and shards columns instead; combine_diagnoses ranks the union of the n
 // parts.
 func diagnoseFunctions(t *types) []*function {
-	fields := append(verdictFields(t),
-		field{"n_used", t.bigint()}, field{"step", t.bigint()},
-		field{"gaps", t.bigint()}, field{"missing", t.bigint()},
-		field{"ljung_box_p_value", t.double()}, field{"shift_point", t.bigint()},
-	)
 	return []*function{{
 		name:     "plumb_diagnose",
 		parallel: true,
 		reuse:    true, // the result is a STRUCT of numbers and text
 		params:   []duckdb.TypeInfo{t.anyType(), t.bigint(), t.double(), t.varchar()},
-		result:   t.structOf(fields...),
+		result:   diagnoseLayout.info(t),
 		nullable: true,
 		eval: withPoints(func(p points, args []driver.Value) (any, error) {
 			opts, err := stationarityOptions(args[1], args[2])
@@ -108,12 +108,11 @@ func GroupsDone() int64 { return groupsDone.Load() }
 func diagnoseGroup(at []int64, x []float64, order []int, opts stats.StationarityOptions, fill stats.FillMethod) (any, error) {
 	for i := 1; i < len(at); i++ {
 		if at[i] == at[i-1] {
-			out := stationarityStruct(stats.StationarityResult{Status: duplicateAt, BoxCoxLambda: math.NaN(), ShiftIndex: -1})
-			out["seasonal_strength"], out["reason"] = nil, nil
-			for _, k := range []string{"n_used", "step", "gaps", "missing", "ljung_box_p_value", "shift_point"} {
-				out[k] = nil
+			d := diagnosed{
+				verdict:   stats.StationarityResult{Status: duplicateAt, BoxCoxLambda: math.NaN(), ShiftIndex: -1},
+				duplicate: true,
 			}
-			return out, nil
+			return diagnoseLayout.record(&d), nil
 		}
 	}
 	defer groupsDone.Add(1)
@@ -125,34 +124,112 @@ func diagnoseGroup(at []int64, x []float64, order []int, opts stats.Stationarity
 	if err != nil {
 		return nil, err
 	}
-	out := stationarityStruct(v)
-	out["n_used"] = int64(len(reg.Values))
-	out["step"] = int64(reg.Step)
-	out["gaps"] = int64(reg.Gaps)
-	out["missing"] = int64(reg.Missing)
-	out["ljung_box_p_value"], out["shift_point"] = nil, nil
+	d := diagnosed{verdict: v, regular: reg, status: string(v.Status), shiftPoint: -1}
 	failed := v.Status != stats.StatusOK && v.Status != stats.StatusSeasonUnknown
 	if !failed {
 		// The series after its recommended transform (the verdict's own,
 		// applied to the series with its outliers set aside).
 		if v.Differenced != nil {
 			if lb, err := stats.LjungBox(v.Differenced, 0, 0); err == nil && lb.Status == stats.StatusOK {
-				out["ljung_box_p_value"] = orNull(lb.PValue)
+				d.ljungBox = orNull(lb.PValue)
 			}
 		}
 		if v.ShiftIndex >= 0 {
-			out["shift_point"] = int64(observationAt(at, reg, v.ShiftIndex, order))
+			d.shiftPoint = observationAt(at, reg, v.ShiftIndex, order)
 		}
 	}
 	switch {
 	case failed:
 	case (reg.Gaps > 0 || reg.Missing > 0) && fill != stats.FillNone && fill != "":
-		out["status"] = "gaps_filled"
+		d.status = "gaps_filled"
 	case reg.Gaps > 0 || reg.Irregular > 0:
-		out["status"] = "gaps_ignored"
+		d.status = "gaps_ignored"
 	}
-	return out, nil
+	return diagnoseLayout.record(&d), nil
 }
+
+// diagnosed is one group's judgement as plumb_diagnose returns it.
+type diagnosed struct {
+	verdict stats.StationarityResult
+	regular stats.Regular
+	// status is the verdict's, or gaps_filled or gaps_ignored.
+	status string
+	// ljungBox is the Ljung-Box p-value after the recipe (nil: none).
+	ljungBox any
+	// shiftPoint is where, in the list as aggregated, the first observation
+	// after a level shift stands (-1: none); diagnoseSQL reads its time.
+	shiftPoint int
+	// duplicate: the group repeats a time, and nothing was judged.
+	duplicate bool
+}
+
+// diagnoseLayout is plumb_diagnose's STRUCT, in the order of diagnose's
+// columns (diagnoseFields): the verdict's fields (verdictLayout) with the
+// group's own around them, then step and shift_point, which diagnoseSQL
+// uses and does not show. A new column of diagnose's rows is one more
+// entry here; sharded parts and combine_diagnoses carry it through.
+var diagnoseLayout = func() *layout[diagnosed] {
+	// fromVerdict is the verdict's column of that name; a group with a
+	// repeated time has the verdict of nothing judged, without its
+	// reason and seasonal strength.
+	fromVerdict := func(name string) column[diagnosed] {
+		c, ok := verdictLayout.column(name)
+		if !ok {
+			panic("udf: the verdict has no field " + name) // caught by every test that opens a database
+		}
+		return column[diagnosed]{name, c.kind, func(d *diagnosed) any {
+			if d.duplicate && (name == "reason" || name == "seasonal_strength") {
+				return nil
+			}
+			return c.get(&d.verdict)
+		}}
+	}
+	// judged is v for a group whose times do not repeat, NULL otherwise.
+	judged := func(f func(*diagnosed) any) func(*diagnosed) any {
+		return func(d *diagnosed) any {
+			if d.duplicate {
+				return nil
+			}
+			return f(d)
+		}
+	}
+	cols := []column[diagnosed]{
+		varchar("status", func(d *diagnosed) any {
+			if d.duplicate {
+				return duplicateAt
+			}
+			return d.status
+		}),
+		fromVerdict("reason"),
+		integer64("gaps", judged(func(d *diagnosed) any { return int64(d.regular.Gaps) })),
+		integer64("missing", judged(func(d *diagnosed) any { return int64(d.regular.Missing) })),
+		integer64("n_used", judged(func(d *diagnosed) any { return int64(len(d.regular.Values)) })),
+	}
+	for _, name := range []string{"mean_stable", "spread_stable", "seasonal", "stationary", "violations",
+		"mean_cause", "shift_at", "shift_size", "trend_slope", "spread_cause", "seasonal_kind", "second_period",
+		"zero_share", "demand_class", "outliers",
+		"differences", "seasonal_differences", "box_cox_lambda", "period", "seasonal_strength",
+		"cured", "left_violations", "over_differenced", "score",
+		"adf_statistic", "adf_p_value", "adf_lags", "kpss_statistic", "kpss_p_value", "kpss_lags",
+		"mean_p_value", "spread_p_value"} {
+		cols = append(cols, fromVerdict(name))
+	}
+	cols = append(cols,
+		num("ljung_box_p_value", func(d *diagnosed) any { return d.ljungBox }),
+		integer64("step", judged(func(d *diagnosed) any { return int64(d.regular.Step) })),
+		integer64("shift_point", judged(func(d *diagnosed) any {
+			if d.shiftPoint >= 0 {
+				return int64(d.shiftPoint)
+			}
+			return nil
+		})),
+	)
+	return newLayout(cols...)
+}()
+
+// diagnoseHidden are the fields of plumb_diagnose's STRUCT that are not
+// columns of diagnose.
+var diagnoseHidden = map[string]bool{"step": true, "shift_point": true}
 
 // observationAt returns where, in the list of points as aggregated, the
 // first observation at or after position i of the judged series stands:
@@ -183,19 +260,18 @@ func sqlLiteral(v driver.Value) string {
 var diagnoseTests = []string{"adf", "kpss", "mean", "spread", "ljung_box"}
 
 // diagnoseFields are diagnose's columns after the group columns, n,
-// first_at and last_at, in order; status must come first. Each is a field
-// of plumb_diagnose's STRUCT, except shift_at, which the query reads from
-// the group's points (diagnoseSQL). A new column of diagnose's rows is one
-// more name here (and a field of the STRUCT); sharded parts and
-// combine_diagnoses carry it through unchanged.
-var diagnoseFields = []string{"status", "reason", "gaps", "missing", "n_used",
-	"mean_stable", "spread_stable", "seasonal", "stationary", "violations",
-	"mean_cause", "shift_at", "shift_size", "trend_slope", "spread_cause", "seasonal_kind", "second_period",
-	"zero_share", "demand_class", "outliers",
-	"differences", "seasonal_differences", "box_cox_lambda", "period", "seasonal_strength",
-	"cured", "left_violations", "over_differenced", "score",
-	"adf_statistic", "adf_p_value", "adf_lags", "kpss_statistic", "kpss_p_value", "kpss_lags",
-	"mean_p_value", "spread_p_value", "ljung_box_p_value"}
+// first_at and last_at, in order (status first): diagnoseLayout's names but
+// the hidden ones. shift_at is the exception among them: the query reads
+// it from the group's points (diagnoseSQL).
+var diagnoseFields = func() []string {
+	var names []string
+	for _, n := range diagnoseLayout.names {
+		if !diagnoseHidden[n] {
+			names = append(names, n)
+		}
+	}
+	return names
+}()
 
 // diagnoseSQL judges every group a batch at a time (batchedCTEs), then
 // ranks them (rankedSQL); with shards set it returns the groups of one shard
@@ -206,11 +282,7 @@ var diagnoseFields = []string{"status", "reason", "gaps", "missing", "n_used",
 // group (TestDiagnoseShiftAt counts the calls).
 func diagnoseSQL(q seriesQuery, period, alpha, fill string) string {
 	by := q.byList("")
-	perGroup := fmt.Sprintf(`SELECT %[1]s, n, first_at, last_at, plumb_d,
-                   CASE WHEN plumb_d.shift_point IS NOT NULL THEN plumb_points[plumb_d.shift_point + 1].t END AS plumb_shift_at
-            FROM (SELECT %[1]s, plumb_points, plumb_rows AS n, plumb_first_at AS first_at, plumb_last_at AS last_at,
-                         plumb_diagnose(plumb_points, %[2]s, %[3]s, %[4]s) AS plumb_d
-                  FROM plumb_series)`, by, period, alpha, fill)
+	perGroup := renderStage("judge_group", struct{ By, Period, Alpha, Fill string }{by, period, alpha, fill})
 	picks := make([]string, len(diagnoseFields))
 	for i, f := range diagnoseFields {
 		picks[i] = fmt.Sprintf("plumb_d.%s AS %s", f, f)
@@ -219,10 +291,10 @@ func diagnoseSQL(q seriesQuery, period, alpha, fill string) string {
 		}
 	}
 	picks[0] = q.duplicateAtCheck("plumb_d.status") + " AS status"
-	judged := fmt.Sprintf(`, plumb_judged AS (
-    SELECT %s, n, first_at, last_at, %s
-    FROM plumb_done
-)`, by, strings.Join(picks, ", "))
+	judged := renderStage("judged", struct {
+		By    string
+		Picks []string
+	}{by, picks})
 	if q.shards > 0 {
 		return q.batchedCTEs(perGroup, gatherBytesPerRow) + judged + fmt.Sprintf(`
 SELECT *, %d AS shard, %d AS shards FROM plumb_judged ORDER BY %s`, q.shard, q.shards, by)
@@ -238,34 +310,12 @@ SELECT *, %d AS shard, %d AS shards FROM plumb_judged ORDER BY %s`, q.shard, q.s
 //
 // The q-values come from one list per test, in the groups' row order,
 // adjusted in Go (plumb_q_values), unnested beside their positions and
-// joined back: ten window sorts that carried every column took about 0.1 s
-// at 10,000 groups, single-threaded. A group without a score (not judged)
-// has no rank.
+// joined back, which is cheaper than a window sort per test carrying every
+// column (DEVELOPERS.md, "Performance notes"). A group without a score (not
+// judged) has no rank.
 func rankedSQL(orderTail string) string {
-	var lists, qs []string
-	for _, test := range diagnoseTests {
-		lists = append(lists, fmt.Sprintf("plumb_q_values(list(%[1]s_p_value ORDER BY plumb_row)) AS %[1]s", test))
-		qs = append(qs, fmt.Sprintf("unnest(%[1]s) AS %[1]s_q_value", test))
-	}
-	return fmt.Sprintf(`, plumb_numbered AS MATERIALIZED (
-    SELECT *, row_number() OVER () AS plumb_row FROM plumb_judged
-), plumb_lists AS (
-    SELECT count(*) AS plumb_count, %[1]s
-    FROM plumb_numbered
-), plumb_q AS (
-    SELECT unnest(range(1, plumb_count + 1)) AS plumb_row, %[2]s
-    FROM plumb_lists
-)
-SELECT * FROM (
-    SELECT plumb_numbered.* EXCLUDE (plumb_row), plumb_q.* EXCLUDE (plumb_row),
-           CASE WHEN score IS NOT NULL THEN rank() OVER (ORDER BY score DESC NULLS LAST) END AS rank
-    FROM plumb_numbered JOIN plumb_q USING (plumb_row)
-)
-ORDER BY rank, %[3]s`, strings.Join(lists, ",\n           "), strings.Join(qs, ",\n       "), orderTail)
+	return renderStage("rank.sql", struct {
+		Tests     []string
+		OrderTail string
+	}{diagnoseTests, orderTail})
 }
-
-const diagnoseMacro = `
-CREATE OR REPLACE TEMP MACRO diagnose(source, "by", "at", value, period := NULL, alpha := 0.05, fill := 'none',
-                                      shard := NULL, shards := NULL) AS TABLE
-    FROM query(plumb_diagnose_sql(source, "by", "at", value, period::BIGINT, alpha::DOUBLE, fill, shard::BIGINT, shards::BIGINT));
-`

@@ -2,16 +2,22 @@ package udf
 
 import (
 	"database/sql/driver"
+	_ "embed"
 
 	"github.com/duckdb/duckdb-go/v2"
 
 	"github.com/plumb-sql/plumb/stats"
 )
 
+// The maths: stats.Difference and stats.Undifference (stats/difference.go).
+
+//go:embed sql/difference.sql
+var differenceMacros string
+
 // differenceFunctions wraps stats.Difference and stats.Undifference.
 //
-//	difference(series, lag := 1, times := 1)       -> DOUBLE[]
-//	undifference(series, anchor, lag := 1)         -> DOUBLE[]
+//	difference(series, lag, times)       -> DOUBLE[]
+//	undifference(series, anchor, lag)    -> DOUBLE[] (defaults in udf/sql/difference.sql)
 func differenceFunctions(t *types) []*function {
 	return []*function{{
 		name:   "plumb_difference",
@@ -61,10 +67,3 @@ func differenceFunctions(t *types) []*function {
 		},
 	}}
 }
-
-const differenceMacros = `
-CREATE OR REPLACE TEMP MACRO difference(series, lag := 1, times := 1) AS
-    plumb_difference(series::DOUBLE[], lag, times);
-CREATE OR REPLACE TEMP MACRO undifference(series, anchor, lag := 1) AS
-    plumb_undifference(series::DOUBLE[], anchor::DOUBLE[], lag);
-`

@@ -2,15 +2,21 @@ package udf
 
 import (
 	"database/sql/driver"
+	_ "embed"
 	"fmt"
 	"strings"
 
 	"github.com/duckdb/duckdb-go/v2"
 )
 
+// The maths: stats.Difference (stats/difference.go); the SQL in differencedSQL.
+
+//go:embed sql/differenced.sql
+var differencedMacros string
+
 // differencedFunctions provides the SQL behind the differenced table macro:
 //
-//	differenced(source, by := ..., at := ..., value := ..., lag := 1, times := 1)
+//	differenced(source, by := ..., at := ..., value := ..., lag, times) (defaults in udf/sql/differenced.sql)
 //
 // returns one row per source row: the group columns, at, the original value
 // and differenced_value, the value differenced times times at lag lag within
@@ -79,8 +85,3 @@ func readSeriesQuery(function string, args []driver.Value) (seriesQuery, error) 
 	}
 	return q, nil
 }
-
-const differencedMacro = `
-CREATE OR REPLACE TEMP MACRO differenced(source, "by", "at", value, lag := 1, times := 1) AS TABLE
-    FROM query(plumb_differenced_sql(source, "by", "at", value, lag, times));
-`

@@ -15,4 +15,11 @@
 // memory_limit (batches.go). Because they are macros, they see the caller's
 // TEMP tables and open transaction. Macros are TEMP so that a database file opened by plumb is
 // never written with definitions that plain DuckDB could not run.
+//
+// Each SQL function, or family of them, has a file of its name: <name>.go
+// with its registration, argument checks and a line naming where its maths
+// lives in package stats, and sql/<name>.sql with its macros (families in
+// open.go lists them). A STRUCT result is declared once as a layout
+// (layout.go). The reach into duckdb-go's vectors is walled off in
+// internal/vectors.
 package udf

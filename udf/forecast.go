@@ -2,6 +2,7 @@ package udf
 
 import (
 	"database/sql/driver"
+	_ "embed"
 	"fmt"
 	"math"
 	"strings"
@@ -10,13 +11,19 @@ import (
 	"github.com/duckdb/duckdb-go/v2"
 
 	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/defaults"
 )
+
+// The maths: stats.ForecastByRecipe (stats/forecast_recipe.go, stats/forecast.go, stats/ar.go, stats/accuracy.go).
+
+//go:embed sql/forecast.sql
+var forecastMacros string
 
 // forecastFunctions provides two table functions that forecast every group
 // through its own recipe (stats.ForecastByRecipe):
 //
-//	forecast(source, by, at, value, horizon := 14, coverage := 0.95, period := NULL,
-//	         alpha := 0.05, fill := 'none', holdout := 0, point := 'median')
+//	forecast(source, by, at, value, horizon, coverage, period, alpha, fill, holdout, point)
+//	    (the defaults in udf/sql/forecast.sql, from package defaults)
 //	    one row per group and step: the group columns, at (continuing each
 //	    group's own step, in the at column's type), step (1..horizon),
 //	    forecast, lower, upper (the central prediction interval of the given
@@ -42,26 +49,12 @@ import (
 //	    of a seasonal series when period is NULL (lag 1 otherwise).
 func forecastFunctions(t *types) []*function {
 	d := t.double()
-	fields := []field{
-		{"status", t.varchar()}, {"reason", t.varchar()},
-		{"offsets", t.doubles()}, {"forecast", t.doubles()}, {"lower", t.doubles()}, {"upper", t.doubles()},
-		{"actual", t.doubles()},
-		{"mean_cause", t.varchar()}, {"seasonal_kind", t.varchar()}, {"period", t.bigint()},
-		{"box_cox_lambda", d}, {"seasonal_differences", t.bigint()}, {"differences", t.bigint()},
-		{"ar_order", t.bigint()}, {"ar_constant", d}, {"ar_coefficients", t.doubles()},
-		{"residual_variance", d}, {"observations", t.bigint()}, {"aic", d}, {"ljung_box_p_value", d},
-		{"mase", d}, {"interval_coverage", d},
-		{"ma_order", t.bigint()}, {"seasonal_ar_order", t.bigint()}, {"seasonal_ma_order", t.bigint()},
-		{"seasonal_period", t.bigint()}, {"ma_coefficients", t.doubles()},
-		{"seasonal_ar_coefficients", t.doubles()}, {"seasonal_ma_coefficients", t.doubles()},
-		{"log_likelihood", d}, {"aicc", d}, {"model_fit", t.varchar()},
-	}
 	funcs := []*function{{
 		name:     "plumb_forecast",
 		parallel: true,
 		params: []duckdb.TypeInfo{t.anyType(), t.bigint(), d, t.bigint(), d, t.varchar(), t.bigint(),
 			t.varchar()},
-		result:   t.structOf(fields...),
+		result:   forecastLayout.info(t),
 		nullable: true,
 		eval: withPoints(func(p points, args []driver.Value) (any, error) {
 			o, err := readForecastOptions(args[1:])
@@ -167,7 +160,7 @@ func readForecastOptions(args []driver.Value) (forecastOptions, error) {
 	if o.fill, err = fillMethod(args[4]); err != nil {
 		return o, err
 	}
-	if o.holdout, err = intOr(args[5], "holdout", 0); err != nil {
+	if o.holdout, err = intOr(args[5], "holdout", defaults.Holdout); err != nil {
 		return o, err
 	}
 	if args[6] != nil {
@@ -214,16 +207,11 @@ func forecastLiteral(v driver.Value) string {
 // forecastGroup judges one group (on all but the held-out values), fits the
 // recipe's model and forecasts.
 func forecastGroup(at []int64, x []float64, o forecastOptions) (any, error) {
-	out := map[string]any{"status": nil, "reason": nil, "offsets": nil, "forecast": nil, "lower": nil, "upper": nil,
-		"actual": nil, "mean_cause": nil, "seasonal_kind": nil, "period": nil, "box_cox_lambda": nil,
-		"seasonal_differences": nil, "differences": nil, "ar_order": nil, "ar_constant": nil, "ar_coefficients": nil,
-		"residual_variance": nil, "observations": nil, "aic": nil, "ljung_box_p_value": nil, "mase": nil, "interval_coverage": nil,
-		"ma_order": nil, "seasonal_ar_order": nil, "seasonal_ma_order": nil, "seasonal_period": nil, "ma_coefficients": nil,
-		"seasonal_ar_coefficients": nil, "seasonal_ma_coefficients": nil, "log_likelihood": nil, "aicc": nil, "model_fit": nil}
+	var out forecastRow
 	for i := 1; i < len(at); i++ {
 		if at[i] == at[i-1] {
-			out["status"] = duplicateAt
-			return out, nil
+			out.status = duplicateAt
+			return forecastLayout.record(&out), nil
 		}
 	}
 	reg, err := stats.Regularize(at, x, o.fill)
@@ -244,7 +232,7 @@ func forecastGroup(at []int64, x []float64, o forecastOptions) (any, error) {
 			offsets[h] = float64(timeAt(at, reg, n+h) - at[0])
 		}
 	}
-	out["offsets"], out["forecast"], out["lower"], out["upper"] = offsets, nan, nan, nan
+	out.offsets, out.forecast, out.lower, out.upper = offsets, nan, nan, nan
 	if o.holdout > 0 {
 		actual := make(doubleList, o.horizon)
 		for h := range actual {
@@ -253,59 +241,59 @@ func forecastGroup(at []int64, x []float64, o forecastOptions) (any, error) {
 				actual[h] = y[n+h]
 			}
 		}
-		out["actual"] = actual
+		out.actual = actual
 	}
 	if n < 2 {
-		out["status"] = string(stats.StatusTooShort)
-		out["reason"] = stats.StatusReason(stats.StatusTooShort)
-		return out, nil
+		out.status = string(stats.StatusTooShort)
+		out.reason = stats.StatusReason(stats.StatusTooShort)
+		return forecastLayout.record(&out), nil
 	}
 	train := y[:n]
 	v, err := stats.Stationarity(train, o.verdict)
 	if err != nil {
 		return nil, err
 	}
-	out["status"], out["reason"] = string(v.Status), v.Reason
+	out.status, out.reason = string(v.Status), v.Reason
 	if v.Status != stats.StatusOK && v.Status != stats.StatusSeasonUnknown {
-		return out, nil
+		return forecastLayout.record(&out), nil
 	}
 	rec := v.Recipe()
-	out["mean_cause"], out["seasonal_kind"] = textOrNull(string(v.MeanCause)), textOrNull(string(v.SeasonalKind))
+	out.meanCause, out.seasonalKind = textOrNull(string(v.MeanCause)), textOrNull(string(v.SeasonalKind))
 	if rec.Period > 0 {
-		out["period"] = int64(rec.Period)
+		out.period = int64(rec.Period)
 	}
 	if rec.BoxCox {
-		out["box_cox_lambda"] = rec.Lambda
+		out.boxCoxLambda = rec.Lambda
 	}
-	out["seasonal_differences"], out["differences"] = int64(rec.SeasonalDifferences), int64(rec.Differences)
+	out.seasonalDifferences, out.differences = int64(rec.SeasonalDifferences), int64(rec.Differences)
 	f, err := stats.ForecastByRecipe(v.Judged(), rec, stats.RecipeForecastOptions{
 		Horizon: o.horizon, Coverage: o.coverage, AR: stats.AROptions{Period: rec.Period}, MeanPoint: o.meanPoint})
 	if err != nil {
 		return nil, err
 	}
 	if f.Status != stats.StatusOK {
-		out["status"] = string(f.Status)
-		return out, nil
+		out.status = string(f.Status)
+		return forecastLayout.record(&out), nil
 	}
-	out["forecast"], out["lower"], out["upper"] = doubleList(f.Mean), doubleList(f.Lower), doubleList(f.Upper)
+	out.forecast, out.lower, out.upper = doubleList(f.Mean), doubleList(f.Lower), doubleList(f.Upper)
 	m := f.Chosen
-	out["ar_order"], out["ar_constant"], out["ar_coefficients"] = int64(m.Order.AR), orNull(m.Constant), doubleList(m.AR)
-	out["residual_variance"], out["observations"], out["aic"] = orNull(m.Variance), int64(m.Observations), orNull(m.AIC)
-	out["ma_order"], out["seasonal_ar_order"], out["seasonal_ma_order"] = int64(m.Order.MA), int64(m.Order.SeasonalAR), int64(m.Order.SeasonalMA)
+	out.arOrder, out.arConstant, out.arCoefficients = int64(m.Order.AR), orNull(m.Constant), doubleList(m.AR)
+	out.residualVariance, out.observations, out.aic = orNull(m.Variance), int64(m.Observations), orNull(m.AIC)
+	out.maOrder, out.seasonalAROrder, out.seasonalMAOrder = int64(m.Order.MA), int64(m.Order.SeasonalAR), int64(m.Order.SeasonalMA)
 	if m.Order.SeasonalAR+m.Order.SeasonalMA > 0 {
-		out["seasonal_period"] = int64(m.Order.Period)
+		out.seasonalPeriod = int64(m.Order.Period)
 	}
-	out["ma_coefficients"], out["seasonal_ar_coefficients"], out["seasonal_ma_coefficients"] = doubleList(m.MA), doubleList(m.SeasonalAR), doubleList(m.SeasonalMA)
-	out["log_likelihood"], out["aicc"] = orNull(m.LogLikelihood), orNull(m.AICc)
-	out["model_fit"] = "exact_likelihood"
+	out.maCoefficients, out.seasonalARCoefficients, out.seasonalMACoefficients = doubleList(m.MA), doubleList(m.SeasonalAR), doubleList(m.SeasonalMA)
+	out.logLikelihood, out.aicc = orNull(m.LogLikelihood), orNull(m.AICc)
+	out.modelFit = "exact_likelihood"
 	if m.LeastSquares {
-		out["model_fit"] = "least_squares"
+		out.modelFit = "least_squares"
 	}
 	if f.WhiteNoise.Status == stats.StatusOK {
-		out["ljung_box_p_value"] = orNull(f.WhiteNoise.PValue)
+		out.ljungBox = orNull(f.WhiteNoise.PValue)
 	}
 	if o.holdout > 0 {
-		actual := []float64(out["actual"].(doubleList))
+		actual := []float64(out.actual.(doubleList))
 		lag := 1
 		switch {
 		case o.verdict.Period >= 2: // the period the user passed
@@ -314,14 +302,64 @@ func forecastGroup(at []int64, x []float64, o forecastOptions) (any, error) {
 			lag = rec.Period
 		}
 		if e, err := stats.MeanAbsoluteScaledError(actual, f.Mean, train, lag); err == nil && e.Status == stats.StatusOK {
-			out["mase"] = orNull(e.MASE)
+			out.mase = orNull(e.MASE)
 		}
 		if share, used, err := stats.IntervalCoverage(actual, f.Lower, f.Upper); err == nil && used > 0 {
-			out["interval_coverage"] = share
+			out.intervalCoverage = share
 		}
 	}
-	return out, nil
+	return forecastLayout.record(&out), nil
 }
+
+// forecastRow is one group's forecast as plumb_forecast returns it; nil is
+// NULL.
+type forecastRow struct {
+	status, reason, offsets, forecast, lower, upper, actual             any
+	meanCause, seasonalKind, period, boxCoxLambda                       any
+	seasonalDifferences, differences, arOrder, arConstant               any
+	arCoefficients, residualVariance, observations, aic, ljungBox, mase any
+	intervalCoverage                                                    any
+	// the rest of the chosen model (stats.ChooseARMA)
+	maOrder, seasonalAROrder, seasonalMAOrder, seasonalPeriod                any
+	maCoefficients, seasonalARCoefficients, seasonalMACoefficients, modelFit any
+	logLikelihood, aicc                                                      any
+}
+
+// forecastLayout is plumb_forecast's STRUCT, which forecastSQL unpacks.
+var forecastLayout = newLayout(
+	varchar("status", func(r *forecastRow) any { return r.status }),
+	varchar("reason", func(r *forecastRow) any { return r.reason }),
+	doubles("offsets", func(r *forecastRow) any { return r.offsets }),
+	doubles("forecast", func(r *forecastRow) any { return r.forecast }),
+	doubles("lower", func(r *forecastRow) any { return r.lower }),
+	doubles("upper", func(r *forecastRow) any { return r.upper }),
+	doubles("actual", func(r *forecastRow) any { return r.actual }),
+	varchar("mean_cause", func(r *forecastRow) any { return r.meanCause }),
+	varchar("seasonal_kind", func(r *forecastRow) any { return r.seasonalKind }),
+	integer64("period", func(r *forecastRow) any { return r.period }),
+	num("box_cox_lambda", func(r *forecastRow) any { return r.boxCoxLambda }),
+	integer64("seasonal_differences", func(r *forecastRow) any { return r.seasonalDifferences }),
+	integer64("differences", func(r *forecastRow) any { return r.differences }),
+	integer64("ar_order", func(r *forecastRow) any { return r.arOrder }),
+	num("ar_constant", func(r *forecastRow) any { return r.arConstant }),
+	doubles("ar_coefficients", func(r *forecastRow) any { return r.arCoefficients }),
+	num("residual_variance", func(r *forecastRow) any { return r.residualVariance }),
+	integer64("observations", func(r *forecastRow) any { return r.observations }),
+	num("aic", func(r *forecastRow) any { return r.aic }),
+	num("ljung_box_p_value", func(r *forecastRow) any { return r.ljungBox }),
+	num("mase", func(r *forecastRow) any { return r.mase }),
+	num("interval_coverage", func(r *forecastRow) any { return r.intervalCoverage }),
+	integer64("ma_order", func(r *forecastRow) any { return r.maOrder }),
+	integer64("seasonal_ar_order", func(r *forecastRow) any { return r.seasonalAROrder }),
+	integer64("seasonal_ma_order", func(r *forecastRow) any { return r.seasonalMAOrder }),
+	integer64("seasonal_period", func(r *forecastRow) any { return r.seasonalPeriod }),
+	doubles("ma_coefficients", func(r *forecastRow) any { return r.maCoefficients }),
+	doubles("seasonal_ar_coefficients", func(r *forecastRow) any { return r.seasonalARCoefficients }),
+	doubles("seasonal_ma_coefficients", func(r *forecastRow) any { return r.seasonalMACoefficients }),
+	num("log_likelihood", func(r *forecastRow) any { return r.logLikelihood }),
+	num("aicc", func(r *forecastRow) any { return r.aicc }),
+	varchar("model_fit", func(r *forecastRow) any { return r.modelFit }),
+)
 
 // timeAt is the time of position i of the judged series (on the regular
 // grid when Regularize filled it, the i-th observation otherwise), and
@@ -379,14 +417,3 @@ FROM (
 )
 ORDER BY %[1]s, step`, by, quoteIdent(q.at), actualOut, actual)
 }
-
-const forecastMacros = `
-CREATE OR REPLACE TEMP MACRO forecast(source, "by", "at", value, horizon := 14, coverage := 0.95, period := NULL,
-                                      alpha := 0.05, fill := 'none', holdout := 0, point := 'median') AS TABLE
-    FROM query(plumb_forecast_sql(source, "by", "at", value, horizon::BIGINT, coverage::DOUBLE, period::BIGINT,
-                                  alpha::DOUBLE, fill, holdout::BIGINT, point, false));
-CREATE OR REPLACE TEMP MACRO forecast_models(source, "by", "at", value, horizon := 14, coverage := 0.95, period := NULL,
-                                             alpha := 0.05, fill := 'none', holdout := 0, point := 'median') AS TABLE
-    FROM query(plumb_forecast_sql(source, "by", "at", value, horizon::BIGINT, coverage::DOUBLE, period::BIGINT,
-                                  alpha::DOUBLE, fill, holdout::BIGINT, point, true));
-`

@@ -4,7 +4,6 @@ import (
 	"context"
 	"database/sql"
 	"database/sql/driver"
-	"errors"
 	"fmt"
 	"runtime"
 	"strings"
@@ -12,6 +11,8 @@ import (
 	"sync/atomic"
 
 	"github.com/duckdb/duckdb-go/v2"
+
+	"github.com/plumb-sql/plumb/udf/internal/vectors"
 )
 
 // function is one Go scalar function: its SQL name, parameter and result
@@ -50,21 +51,17 @@ func (f *function) Config() duckdb.ScalarFuncConfig {
 }
 
 // Executor uses the chunk executor: DuckDB hands over a chunk of rows at a
-// time, so the cost of the hand-over is paid per chunk rather than per row
-// (DEVELOPERS.md, "Performance notes").
-// Where duckdb-go's layout is as chunkaccess.go expects, list arguments are
-// read without boxing (executeDirect); otherwise through its iterator.
+// time, cheaper than the row executor (DEVELOPERS.md, "Performance
+// notes"). Where package vectors can reach duckdb-go's vectors, list
+// arguments are read without boxing (executeDirect); otherwise, the one
+// fallback, through duckdb-go's iterator (executeBoxed).
 func (f *function) Executor() duckdb.ScalarFuncExecutor {
 	return duckdb.ScalarFuncExecutor{
 		ChunkContextExecutor: func(ctx context.Context, chunk *duckdb.ChunkIteratorState) error {
-			switch {
-			case chunkAccess.ok && !forceIterator:
+			if vectors.Available() && !forceIterator {
 				return f.executeDirect(ctx, chunk)
-			case f.parallel:
-				return f.executeParallel(ctx, chunk)
-			default:
-				return f.executeRows(ctx, chunk)
 			}
+			return f.executeBoxed(ctx, chunk)
 		},
 	}
 }
@@ -86,8 +83,9 @@ func (f *function) evalSafely(args []driver.Value) (v any, err error) {
 var forceIterator bool
 
 // executeDirect evaluates a chunk whose list columns are read by
-// listColumn and whose other columns by duckdb-go's getter, then writes
-// the results row by row. Parallel functions spread the rows over
+// vectors.ReadLists and whose other columns by duckdb-go's getter, then
+// writes the results with vectors.Write (or, for a result it does not
+// write, row by row through duckdb-go's setter). Parallel functions spread the rows over
 // GOMAXPROCS goroutines, each reading its own rows' arguments.
 //
 // Every row checks the query's context first, so a cancelled statement
@@ -95,27 +93,24 @@ var forceIterator bool
 func (f *function) executeDirect(ctx context.Context, state *duckdb.ChunkIteratorState) error {
 	in := state.GetInputChunk()
 	n := in.GetSize()
-	lists := make([]*listColumn, in.ColumnCount())
-	for c := range lists {
-		lists[c] = newListColumn(in, c, n)
-	}
+	lists := vectors.ReadLists(in, n)
 	results := make([]any, n)
 	skip := make([]bool, n)
-	evalRow := func(row int, args []driver.Value, bufs []listBuffers) error {
+	evalRow := func(row int, args []driver.Value, bufs []vectors.Buffers) error {
 		if err := stopped(ctx); err != nil {
 			return err
 		}
 		for c := range args {
 			var err error
 			if lists[c] != nil {
-				if err := f.checkListLength(lists[c].length(row)); err != nil {
+				if err := f.checkListLength(lists[c].Length(row)); err != nil {
 					return err
 				}
-				var b *listBuffers
+				var b *vectors.Buffers
 				if f.reuse {
 					b = &bufs[c]
 				}
-				args[c], err = lists[c].value(row, b)
+				args[c], err = lists[c].Value(row, b)
 			} else {
 				args[c], err = in.GetValue(c, row)
 			}
@@ -143,7 +138,7 @@ func (f *function) executeDirect(ctx context.Context, state *duckdb.ChunkIterato
 		go func() {
 			defer wg.Done()
 			args := make([]driver.Value, len(lists))
-			bufs := make([]listBuffers, len(lists))
+			bufs := make([]vectors.Buffers, len(lists))
 			for failed.Load() == nil {
 				row := int(next.Add(1)) - 1
 				if row >= n {
@@ -159,14 +154,14 @@ func (f *function) executeDirect(ctx context.Context, state *duckdb.ChunkIterato
 	if err := failed.Load(); err != nil {
 		return fmt.Errorf("%s: %w", f.name, *err)
 	}
-	if out, ok := resultVector(state); ok && writeResults(out, results, skip) {
+	if vectors.Write(state, results, skip) {
 		return nil
 	}
 	for row := range n {
 		if skip[row] {
 			continue
 		}
-		moveTo(state, row)
+		vectors.MoveTo(state, row)
 		if err := state.SetResult(resultValue(results[row])); err != nil {
 			return fmt.Errorf("%s: %w", f.name, err)
 		}
@@ -174,44 +169,26 @@ func (f *function) executeDirect(ctx context.Context, state *duckdb.ChunkIterato
 	return nil
 }
 
-// executeRows evaluates a chunk row by row through duckdb-go's iterator.
-func (f *function) executeRows(ctx context.Context, chunk *duckdb.ChunkIteratorState) error {
-	args := make([]driver.Value, chunk.ColumnCount())
-	for row, err := range chunk.Rows() {
-		if err != nil {
-			return err
-		}
-		for i := range args {
-			args[i] = *row.GetValuePtr(i)
-		}
-		if err := errors.Join(stopped(ctx), f.checkBoxedLists(args)); err != nil {
-			return fmt.Errorf("%s: %w", f.name, err)
-		}
-		v, err := f.evalSafely(args)
-		if err != nil {
-			return fmt.Errorf("%s: %w", f.name, err)
-		}
-		if err := row.SetResult(resultValue(v)); err != nil {
-			return fmt.Errorf("%s: %w", f.name, err)
-		}
-	}
-	return nil
-}
-
-// executeParallel evaluates a chunk's rows on GOMAXPROCS goroutines. Each
+// executeBoxed evaluates a chunk through duckdb-go's iterator, on
+// GOMAXPROCS goroutines for a parallel function and on one otherwise. Each
 // row is handed to the workers as soon as DuckDB's thread has read its
 // arguments, so reading overlaps computing; a second walk over the rows
-// writes the results in order, each as soon as it is ready (the chunk API
-// sets a result only at the row its iterator stands on).
-func (f *function) executeParallel(ctx context.Context, chunk *duckdb.ChunkIteratorState) error {
+// writes the results in order (the chunk API sets a result only at the
+// row its iterator stands on). Like executeDirect, it checks the query's
+// context and the lists' lengths before each row.
+func (f *function) executeBoxed(ctx context.Context, chunk *duckdb.ChunkIteratorState) error {
 	size := chunk.GetInputChunk().GetSize()
 	results := make([]any, size)
 	errs := make([]error, size)
 	done := make([]chan struct{}, size)
 	jobs := make(chan int, size)
 	args := make([][]driver.Value, size)
+	workers := runtime.GOMAXPROCS(0)
+	if !f.parallel {
+		workers = 1
+	}
 	var wg sync.WaitGroup
-	for w := 0; w < runtime.GOMAXPROCS(0); w++ {
+	for w := 0; w < workers; w++ {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()

@@ -9,8 +9,11 @@ import (
 	"strings"
 	"sync"
 	"sync/atomic"
+	"text/template"
 
 	"github.com/duckdb/duckdb-go/v2"
+
+	"github.com/plumb-sql/plumb/stats/defaults"
 )
 
 // Options say which database to open and how.
@@ -104,28 +107,50 @@ func registerAll(ctx context.Context, db *sql.DB, ready *atomic.Bool, memoryLimi
 	return nil
 }
 
+// family is one SQL function, or a family of them, and its file: the Go
+// file udf/<name>.go holds its registration (functions), its argument
+// checks and a line naming where its maths lives; udf/sql/<name>.sql, a
+// template rendered with package defaults, creates its macros (TEMP
+// macros that give the Go functions named options and defaults).
+// Families without macros hold plumb's internal plumb_* helpers.
+type family struct {
+	name      string
+	functions func(*types) []*function
+	macros    string
+}
+
+// families lists every family plumb registers, in registration order.
+var families = []family{
+	{"timeaxis", timeAxisFunctions, ""},
+	{"difference", differenceFunctions, differenceMacros},
+	{"differenced", differencedFunctions, differencedMacros},
+	{"unit_root", unitRootFunctions, unitRootMacros},
+	{"stability", stabilityFunctions, stabilityMacros},
+	{"seasonality", seasonalityFunctions, seasonalityMacros},
+	{"white_noise", whiteNoiseFunctions, whiteNoiseMacros},
+	{"rolling", rollingFunctions, rollingMacros},
+	{"box_cox", boxCoxFunctions, boxCoxMacros},
+	{"stationarity", stationarityFunctions, stationarityMacros},
+	{"outlier_positions", outlierPositionsFunctions, outlierPositionsMacros},
+	{"demand_profile", demandProfileFunctions, demandProfileMacros},
+	{"zivot_andrews", zivotAndrewsFunctions, zivotAndrewsMacros},
+	{"mean_break", meanBreakFunctions, meanBreakMacros},
+	{"diagnose", diagnoseFunctions, diagnoseMacros},
+	{"rolling_dispersion", rollingDispersionFunctions, rollingDispersionMacros},
+	{"stationarize", stationarizeFunctions, stationarizeMacros},
+	{"restore", restoreFunctions, restoreMacros},
+	{"forecast", forecastFunctions, forecastMacros},
+	{"batches", batchFunctions, ""},
+	{"combine_diagnoses", combineDiagnosesFunctions, combineDiagnosesMacros},
+	{"columns", columnsFunctions, ""},
+}
+
 // allFunctions lists every Go scalar function plumb registers.
 func allFunctions() ([]*function, error) {
 	t := &types{}
 	var all []*function
-	for _, group := range [][]*function{
-		timeAxisFunctions(t),
-		differenceFunctions(t),
-		differencedFunctions(t),
-		unitRootFunctions(t),
-		conditionFunctions(t),
-		stationarityFunctions(t),
-		outlierFunctions(t),
-		breakFunctions(t),
-		diagnoseFunctions(t),
-		rollingDispersionFunctions(t),
-		stationarizeFunctions(t),
-		forecastFunctions(t),
-		batchFunctions(t),
-		shardFunctions(t),
-		columnsFunctions(t),
-	} {
-		all = append(all, group...)
+	for _, f := range families {
+		all = append(all, f.functions(t)...)
 	}
 	for _, f := range all {
 		if strings.HasSuffix(f.name, "_sql") {
@@ -152,20 +177,27 @@ func raiseInSQL(f *function) {
 	}
 }
 
-// macros is the SQL that creates plumb's TEMP macros on a connection.
-var macros = strings.Join([]string{
-	differenceMacros,
-	differencedMacro,
-	unitRootMacros,
-	conditionMacros,
-	outlierMacros,
-	breakMacros,
-	diagnoseMacro,
-	rollingDispersionMacro,
-	stationarizeMacros,
-	forecastMacros,
-	shardMacros,
-}, "\n")
+// macros is the SQL that creates plumb's TEMP macros on a connection: every
+// family's template, rendered with the defaults.
+var macros = func() string {
+	var b strings.Builder
+	for _, f := range families {
+		if f.macros == "" {
+			continue
+		}
+		tmpl, err := template.New(f.name).Option("missingkey=error").Parse(f.macros)
+		if err == nil {
+			err = tmpl.Execute(&b, defaults.SQL())
+		}
+		if err != nil {
+			// A template is fixed at build time: every test that opens a
+			// database fails on it.
+			return fmt.Sprintf("SELECT error('udf: macros of %s: %s')", f.name, strings.ReplaceAll(err.Error(), "'", "''"))
+		}
+		b.WriteString("\n")
+	}
+	return b.String()
+}()
 
 var (
 	qualifiedOnce   sync.Once

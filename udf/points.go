@@ -7,6 +7,7 @@ import (
 	"slices"
 
 	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/udf/internal/vectors"
 )
 
 // points is one group's observations as diagnose aggregates them: an
@@ -19,10 +20,10 @@ type points struct {
 }
 
 // pointsOf reads a LIST(STRUCT(t, v)) argument: the unboxed points of
-// listColumn, or duckdb-go's boxed []any of map[string]any.
+// vectors.List, or duckdb-go's boxed []any of map[string]any.
 func pointsOf(v driver.Value) (points, error) {
-	if p, ok := v.(points); ok {
-		return p, nil
+	if p, ok := v.(vectors.Points); ok {
+		return points{at: p.At, values: p.Values}, nil
 	}
 	list, ok := v.([]any)
 	if !ok {

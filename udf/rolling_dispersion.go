@@ -2,14 +2,22 @@ package udf
 
 import (
 	"database/sql/driver"
+	_ "embed"
 	"fmt"
 
 	"github.com/duckdb/duckdb-go/v2"
+
+	"github.com/plumb-sql/plumb/stats"
 )
+
+// The maths: stats.Rolling (stats/rolling.go).
+
+//go:embed sql/rolling_dispersion.sql
+var rollingDispersionMacros string
 
 // rollingDispersionFunctions provides
 //
-//	rolling_dispersion(source, by := ..., at := ..., value := ..., width := 30)
+//	rolling_dispersion(source, by := ..., at := ..., value := ..., width) (default in udf/sql/rolling_dispersion.sql)
 //
 // returning one row per source row: the group columns, at, the value, and
 // over the trailing window of width values rolling_mean, rolling_sd,
@@ -18,20 +26,16 @@ import (
 // group mean) / group standard deviation). The first width-1 rows of each
 // group have NULL there.
 func rollingDispersionFunctions(t *types) []*function {
-	list := t.doubles()
 	return []*function{{
 		name:   "plumb_rolling",
 		params: []duckdb.TypeInfo{t.doubles(), t.bigint()},
-		result: t.structOf(field{"mean", list}, field{"sd", list}, field{"mean_ratio", list}, field{"sd_ratio", list}, field{"mean_deviation", list}),
+		result: rollingLayout.info(t),
 		eval: func(args []driver.Value) (any, error) {
 			r, err := rolling(args)
 			if err != nil {
 				return nil, err
 			}
-			return map[string]any{
-				"mean": doubleList(r.Mean), "sd": doubleList(r.SD), "mean_ratio": doubleList(r.MeanRatio),
-				"sd_ratio": doubleList(r.SDRatio), "mean_deviation": doubleList(r.MeanDeviation),
-			}, nil
+			return rollingLayout.record(&r), nil
 		},
 	}, {
 		name:   "plumb_rolling_dispersion_sql",
@@ -61,7 +65,13 @@ FROM plumb_done`, q.byList(""), quoteIdent(q.at), quoteIdent(q.value)), nil
 	}}
 }
 
-const rollingDispersionMacro = `
-CREATE OR REPLACE TEMP MACRO rolling_dispersion(source, "by", "at", value, width := 30) AS TABLE
-    FROM query(plumb_rolling_dispersion_sql(source, "by", "at", value, width::BIGINT));
-`
+type rollingResult = stats.RollingResult
+
+// rollingLayout is plumb_rolling's STRUCT, which the query unnests.
+var rollingLayout = newLayout(
+	doubles("mean", func(r *rollingResult) any { return doubleList(r.Mean) }),
+	doubles("sd", func(r *rollingResult) any { return doubleList(r.SD) }),
+	doubles("mean_ratio", func(r *rollingResult) any { return doubleList(r.MeanRatio) }),
+	doubles("sd_ratio", func(r *rollingResult) any { return doubleList(r.SDRatio) }),
+	doubles("mean_deviation", func(r *rollingResult) any { return doubleList(r.MeanDeviation) }),
+)

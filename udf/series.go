@@ -21,7 +21,7 @@ type seriesQuery struct {
 	// (points.sortByTime) and reports repeated times as duplicateAt.
 	points bool
 	// shards, when above zero, keeps only the groups whose key falls in
-	// shard (0 <= shard < shards; see shard.go).
+	// shard (0 <= shard < shards; see combine_diagnoses.go).
 	shard, shards int
 }
 
@@ -99,44 +99,21 @@ func (q seriesQuery) inputCTE() string {
 // The value column is cast to DOUBLE, so any numeric type works; a column
 // DuckDB cannot cast fails with DuckDB's own conversion message. The
 // counted rows come with each row rather than by a join after the GROUP BY:
-// DuckDB built that join's hash table from the gathered lists, which took
-// 20% more time and 25% more memory at 10,000 groups × 1,000 rows.
+// DuckDB built that join's hash table from the gathered lists, which cost
+// time and memory. The text is udf/sql/stages/gather.sql, one template for
+// both kinds of rows.
 func (q seriesQuery) seriesCTEs(input, name string) string {
-	if q.points {
-		return q.pointsCTEs(input, name)
-	}
-	at := quoteIdent(q.at)
-	value := quoteIdent(q.value)
-	by := q.byList("")
-	label := q.groupLabel()
-	prefix := quoteLiteral(q.function + ": ")
 	// One unordered list of (at, value) pairs, sorted afterwards, rather
 	// than two lists ordered by at: the same on a file sorted by group and
-	// time, and three to four times faster on one ordered by time.
-	return fmt.Sprintf(`plumb_pairs AS (
-    SELECT %[1]s,
-           count(*) AS plumb_rows,
-           max(plumb_counted) AS plumb_counted,
-           count(%[2]s) AS plumb_at_present,
-           list_sort(list(struct_pack(t := %[2]s, v := %[3]s))) AS plumb_sorted
-    FROM %[9]s
-    GROUP BY %[1]s
-), plumb_groups AS (
-    SELECT %[1]s, plumb_rows, plumb_counted, plumb_at_present,
-           [p.t FOR p IN plumb_sorted] AS plumb_at,
-           [p.v FOR p IN plumb_sorted] AS plumb_raw
-    FROM plumb_pairs
-), %[10]s AS (
-    SELECT %[1]s, plumb_rows, plumb_at, plumb_raw,
-           CASE
-               WHEN plumb_rows <> plumb_counted THEN %[4]s
-               WHEN plumb_at_present < plumb_rows THEN %[8]s
-               WHEN plumb_repeats(plumb_at) > 0 THEN
-                   error(%[5]s || 'column ' || %[6]s || ' repeats a value in group ' || %[7]s || ' (' || plumb_repeats(plumb_at) || ' duplicates); each group needs one row per time point')
-               ELSE plumb_raw::DOUBLE[]
-           END AS plumb_value
-    FROM plumb_groups
-)`, by, at, value, q.unsteadyError(), prefix, quoteLiteral(quoteIdent(q.at)), label, q.nullAtError(), input, name)
+	// time, and faster on one ordered by time (DEVELOPERS.md).
+	return renderStage("gather.sql", struct {
+		Points                                                              bool
+		By, At, Value, Input, Name, Unsteady, NullAt, Prefix, AtText, Label string
+	}{
+		Points: q.points, By: q.byList(""), At: quoteIdent(q.at), Value: quoteIdent(q.value),
+		Input: input, Name: name, Unsteady: q.unsteadyError(), NullAt: q.nullAtError(),
+		Prefix: quoteLiteral(q.function + ": "), AtText: quoteLiteral(quoteIdent(q.at)), Label: q.groupLabel(),
+	})
 }
 
 // unsteadyError is the SQL expression that fails when a group has another
@@ -154,28 +131,4 @@ func (q seriesQuery) unsteadyError() string {
 func (q seriesQuery) nullAtError() string {
 	return fmt.Sprintf(`error(%s || 'column ' || %s || ' is NULL in ' || (plumb_rows - plumb_at_present) || ' rows of group ' || %s)`,
 		quoteLiteral(q.function+": "), quoteLiteral(quoteIdent(q.at)), q.groupLabel())
-}
-
-// pointsCTEs is seriesCTEs for a query with points set.
-func (q seriesQuery) pointsCTEs(input, name string) string {
-	at := quoteIdent(q.at)
-	return fmt.Sprintf(`plumb_groups AS (
-    SELECT %[1]s,
-           count(*) AS plumb_rows,
-           max(plumb_counted) AS plumb_counted,
-           count(%[2]s) AS plumb_at_present,
-           min(%[2]s) AS plumb_first_at,
-           max(%[2]s) AS plumb_last_at,
-           list(struct_pack(t := %[2]s, v := %[3]s::DOUBLE)) AS plumb_points
-    FROM %[5]s
-    GROUP BY %[1]s
-), %[6]s AS (
-    SELECT %[1]s, plumb_rows, plumb_first_at, plumb_last_at,
-           CASE
-               WHEN plumb_rows <> plumb_counted THEN %[7]s
-               WHEN plumb_at_present < plumb_rows THEN %[4]s
-               ELSE plumb_points
-           END AS plumb_points
-    FROM plumb_groups
-)`, q.byList(""), at, quoteIdent(q.value), q.nullAtError(), input, name, q.unsteadyError())
 }

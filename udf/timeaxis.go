@@ -2,23 +2,24 @@ package udf
 
 import (
 	"database/sql/driver"
-	"errors"
 	"fmt"
 	"math"
 	"time"
 
 	"github.com/duckdb/duckdb-go/v2"
+
+	"github.com/plumb-sql/plumb/udf/internal/vectors"
 )
 
 // errNullTime is the error for a NULL in the at column: a time point
 // that is not known cannot be placed on the series' axis.
-var errNullTime = errors.New("the at column holds a NULL; filter those rows out or fill them in")
+var errNullTime = vectors.ErrNullTime
 
 // times reads a list of at values (DATE, TIMESTAMP or an integer type) as
 // int64 positions: microseconds since 1970 for dates and timestamps, the
 // numbers themselves otherwise.
 func times(v driver.Value) ([]int64, error) {
-	if ts, ok := v.([]int64); ok { // read unboxed by listColumn
+	if ts, ok := v.([]int64); ok { // read unboxed by vectors.List
 		return ts, nil
 	}
 	list, ok := v.([]any)

@@ -2,17 +2,24 @@ package udf
 
 import (
 	"database/sql/driver"
+	_ "embed"
 	"fmt"
 
 	"github.com/duckdb/duckdb-go/v2"
 
 	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/defaults"
 )
+
+// The maths: stats.ADF, stats.KPSS, stats.PhillipsPerron and stats.DFGLS (stats/adf.go, stats/kpss.go, stats/pp.go, stats/dfgls.go; p-values in stats/mackinnon.go, stats/kpss_limit.go, stats/dfgls_table.go).
+
+//go:embed sql/unit_root.sql
+var unitRootMacros string
 
 // unitRootFunctions wraps stats.ADF, stats.KPSS, stats.PhillipsPerron and
 // stats.DFGLS:
 //
-//	unit_root(series, method := 'adf', deterministic := 'level', lags := NULL, lag_rule := 'aic')
+//	unit_root(series, method, deterministic, lags, lag_rule) (defaults in udf/sql/unit_root.sql)
 //
 // method is adf, kpss, pp or dfgls; deterministic none, level or
 // level_and_slope; lags is the maximum (or, with lag_rule 'given', the
@@ -25,26 +32,12 @@ import (
 // the cut-offs at 1%, 5% and 10%), then how it was computed (lags,
 // observations, status).
 func unitRootFunctions(t *types) []*function {
-	result := t.structOf(
-		field{"method", t.varchar()},
-		field{"deterministic", t.varchar()},
-		field{"null_hypothesis", t.varchar()},
-		field{"statistic", t.double()},
-		field{"p_value", t.double()},
-		field{"p_value_bound", t.varchar()},
-		field{"cutoff_01", t.double()},
-		field{"cutoff_05", t.double()},
-		field{"cutoff_10", t.double()},
-		field{"lags", t.bigint()},
-		field{"observations", t.bigint()},
-		field{"status", t.varchar()},
-	)
 	return []*function{{
 		name:     "plumb_unit_root",
 		parallel: true,
 		reuse:    true,
 		params:   []duckdb.TypeInfo{t.doubles(), t.varchar(), t.varchar(), t.bigint(), t.varchar()},
-		result:   result,
+		result:   unitRootLayout.info(t),
 		nullable: true,
 		eval: func(args []driver.Value) (any, error) {
 			if args[0] == nil {
@@ -54,7 +47,7 @@ func unitRootFunctions(t *types) []*function {
 			if err != nil {
 				return nil, err
 			}
-			method, deterministic, rule := "adf", string(stats.DeterministicLevel), string(stats.LagAIC)
+			method, deterministic, rule := defaults.UnitRootMethod, defaults.Deterministic, defaults.LagRule
 			for i, dst := range map[int]*string{1: &method, 2: &deterministic, 4: &rule} {
 				if args[i] != nil {
 					if *dst, err = text(args[i], "option"); err != nil {
@@ -77,7 +70,7 @@ func unitRootFunctions(t *types) []*function {
 			if err != nil {
 				return nil, err
 			}
-			return unitRootStruct(r), nil
+			return unitRootLayout.record(&r), nil
 		},
 	}}
 }
@@ -97,43 +90,33 @@ func unitRoot(x []float64, method string, d stats.Deterministic, lags *int, rule
 	return stats.UnitRootResult{}, fmt.Errorf("unknown method %q: use adf, kpss, pp or dfgls", method)
 }
 
-// unitRootStruct lays a result out as the SQL STRUCT; a failed test has
-// NULL numbers and says why in status.
-func unitRootStruct(r stats.UnitRootResult) map[string]any {
-	ok := r.Status == stats.StatusOK
-	num := func(v float64) any {
-		if !ok {
-			return nil
-		}
-		return orNull(v)
-	}
-	count := func(v int) any {
-		if !ok {
-			return nil
-		}
-		return int64(v)
-	}
-	var bound any
-	if ok {
-		bound = string(r.PValueBound)
-	}
-	return map[string]any{
-		"method":          r.Method,
-		"deterministic":   string(r.Deterministic),
-		"null_hypothesis": string(r.NullHypothesis),
-		"statistic":       num(r.Statistic),
-		"p_value":         num(r.PValue),
-		"p_value_bound":   bound,
-		"cutoff_01":       num(r.CriticalValues[0]),
-		"cutoff_05":       num(r.CriticalValues[1]),
-		"cutoff_10":       num(r.CriticalValues[2]),
-		"lags":            count(r.Lags),
-		"observations":    count(r.Observations),
-		"status":          string(r.Status),
-	}
-}
+type unitRootResult = stats.UnitRootResult
 
-const unitRootMacros = `
-CREATE OR REPLACE TEMP MACRO unit_root(series, method := 'adf', deterministic := 'level', lags := NULL, lag_rule := 'aic') AS
-    plumb_unit_root(series::DOUBLE[], method, deterministic, lags::BIGINT, lag_rule);
-`
+// unitRootLayout is unit_root's STRUCT, in the order a reader asks: what
+// was tested, the evidence, how it was computed. A failed test has NULL
+// numbers and says why in status.
+var unitRootLayout = func() *layout[unitRootResult] {
+	ok := func(r *unitRootResult) bool { return r.Status == stats.StatusOK }
+	n := func(name string, f func(*unitRootResult) float64) column[unitRootResult] {
+		return num(name, func(r *unitRootResult) any { return value(f(r), ok(r)) })
+	}
+	return newLayout(
+		varchar("method", func(r *unitRootResult) any { return r.Method }),
+		varchar("deterministic", func(r *unitRootResult) any { return string(r.Deterministic) }),
+		varchar("null_hypothesis", func(r *unitRootResult) any { return string(r.NullHypothesis) }),
+		n("statistic", func(r *unitRootResult) float64 { return r.Statistic }),
+		n("p_value", func(r *unitRootResult) float64 { return r.PValue }),
+		varchar("p_value_bound", func(r *unitRootResult) any {
+			if ok(r) {
+				return string(r.PValueBound)
+			}
+			return nil
+		}),
+		n("cutoff_01", func(r *unitRootResult) float64 { return r.CriticalValues[0] }),
+		n("cutoff_05", func(r *unitRootResult) float64 { return r.CriticalValues[1] }),
+		n("cutoff_10", func(r *unitRootResult) float64 { return r.CriticalValues[2] }),
+		integer64("lags", func(r *unitRootResult) any { return count(r.Lags, ok(r)) }),
+		integer64("observations", func(r *unitRootResult) any { return count(r.Observations, ok(r)) }),
+		varchar("status", func(r *unitRootResult) any { return string(r.Status) }),
+	)
+}()

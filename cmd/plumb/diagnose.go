@@ -14,6 +14,7 @@ import (
 
 	"github.com/plumb-sql/plumb/cmd/internal/diagnosis"
 	"github.com/plumb-sql/plumb/cmd/internal/output"
+	"github.com/plumb-sql/plumb/stats/defaults"
 	"github.com/plumb-sql/plumb/udf"
 )
 
@@ -33,9 +34,9 @@ func (f *seriesFlags) register(cmd *cobra.Command) {
 	fl.StringVar(&f.by, "by", "", "group `COLUMNS`, comma-separated (required)")
 	fl.StringVar(&f.spec.At, "at", "", "time `COLUMN`: DATE, TIMESTAMP or integer (required)")
 	fl.StringVar(&f.spec.Value, "value", "", "value `COLUMN` (required)")
-	fl.IntVar(&f.spec.Period, "period", 0, "seasonal period, at least 2 (left out: detected among 7, 12, 24, 52, 365)")
-	fl.Float64Var(&f.spec.Alpha, "alpha", 0.05, "level of the verdict's tests")
-	fl.StringVar(&f.spec.Fill, "fill", "none", "gaps and missing values: none, linear or previous")
+	fl.IntVar(&f.spec.Period, "period", 0, "seasonal period, at least 2 (left out: detected among "+defaults.PeriodList()+")")
+	fl.Float64Var(&f.spec.Alpha, "alpha", defaults.Alpha, "level of the verdict's tests")
+	fl.StringVar(&f.spec.Fill, "fill", defaults.Fill, "gaps and missing values: none, linear or previous")
 	fl.StringVar(&f.dbPath, "db", "", "DuckDB database `FILE` holding the source table (default: in memory)")
 	fl.StringVar(&f.memoryLimit, "memory-limit", "", "DuckDB's memory_limit, such as 4GB (default: DuckDB's, 80% of the machine's memory); the groups are taken in batches that fit")
 	fl.BoolVar(&f.quiet, "quiet", false, "no progress display")

@@ -10,6 +10,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/plumb-sql/plumb/cmd/internal/output"
+	"github.com/plumb-sql/plumb/stats/defaults"
 	"github.com/plumb-sql/plumb/udf"
 )
 
@@ -73,10 +74,10 @@ coverage.`,
 	}
 	flags.register(cmd)
 	fl := cmd.Flags()
-	fl.IntVar(&horizon, "horizon", 14, "steps to forecast")
-	fl.Float64Var(&coverage, "coverage", 0.95, "coverage of the central prediction interval, between 0 and 1")
-	fl.IntVar(&holdout, "holdout", 0, "hold out the last `K` values of each group and forecast them (0: none)")
-	fl.StringVar(&point, "point", "median", "the point forecast in original units after a Box-Cox transform: median or mean")
+	fl.IntVar(&horizon, "horizon", defaults.Horizon, "steps to forecast")
+	fl.Float64Var(&coverage, "coverage", defaults.Coverage, "coverage of the central prediction interval, between 0 and 1")
+	fl.IntVar(&holdout, "holdout", defaults.Holdout, "hold out the last `K` values of each group and forecast them (0: none)")
+	fl.StringVar(&point, "point", defaults.Point, "the point forecast in original units after a Box-Cox transform: median or mean")
 	fl.IntVar(&top, "top", 20, "print this many rows")
 	fl.StringVarP(&out, "out", "o", "", "write every row to `FILE` (.parquet, .csv or .json)")
 	return cmd

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"fmt"
 	"log/slog"
 	"os"
@@ -9,12 +10,13 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"github.com/plumb-sql/plumb/cmd/internal/explorer"
 	"github.com/plumb-sql/plumb/cmd/internal/pgserver"
 )
 
 func newServeCommand() *cobra.Command {
 	cfg := pgserver.Config{Addr: "127.0.0.1:5433", Grace: 10 * time.Second}
-	var usersFile, logFormat string
+	var usersFile, logFormat, httpAddr string
 	cmd := &cobra.Command{
 		Use:   "serve",
 		Short: "Serve plumb's SQL to PostgreSQL clients (psql, drivers, BI tools)",
@@ -34,6 +36,11 @@ PLUMB_USERS variable ("user:password" lines or comma-separated), never from
 the command line; --auth trust is allowed only on a loopback address. A line
 "read user:password" makes a user that only queries; "write" (the default)
 may also change the database and write files under --data.
+--http ADDR also serves the explorer page there (loopback only unless TLS is
+given): pick a source under --data or a table, diagnose it once, then filter,
+sort and page through every group and open any group's pictures and tests.
+It logs in the same users, and each login has its own DuckDB connection.
+
 SIGINT or SIGTERM stops accepting, lets running statements finish for
 --grace, cancels (rolls back) what still runs, and closes the database.`,
 		Example: `  PLUMB_USERS='ana:s3cret' plumb serve --data ./plumb-demo --listen 127.0.0.1:5433
@@ -62,7 +69,12 @@ SIGINT or SIGTERM stops accepting, lets running statements finish for
 					return err
 				}
 			}
-			return pgserver.Run(cmd.Context(), cfg, log, nil)
+			if httpAddr == "" {
+				return pgserver.Run(cmd.Context(), cfg, log, nil)
+			}
+			return pgserver.RunWith(cmd.Context(), cfg, log, nil, func(ctx context.Context, srv *pgserver.Server) error {
+				return explorer.ServeBeside(ctx, srv, httpAddr, cfg, log)
+			})
 		},
 	}
 	f := cmd.Flags()
@@ -80,6 +92,7 @@ SIGINT or SIGTERM stops accepting, lets running statements finish for
 	f.IntVar(&cfg.MaxConns, "max-connections", 64, "most connections at once, logged in or not")
 	f.StringVar(&cfg.MemoryLimit, "memory-limit", "", "DuckDB memory limit, e.g. 4GB")
 	f.DurationVar(&cfg.Grace, "grace", cfg.Grace, "how long running statements may finish at shutdown")
+	f.StringVar(&httpAddr, "http", "", "also serve the explorer page on `host:port` (e.g. 127.0.0.1:8080)")
 	f.StringVar(&logFormat, "log-format", "text", "log lines as text or json")
 	return cmd
 }

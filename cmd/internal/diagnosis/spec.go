@@ -10,6 +10,7 @@ import (
 	"fmt"
 	"strings"
 
+	"github.com/plumb-sql/plumb/stats/defaults"
 	"github.com/plumb-sql/plumb/udf"
 )
 
@@ -20,8 +21,8 @@ type Spec struct {
 	At     string   // time column
 	Value  string   // value column
 	Period int      // 0: detect
-	Alpha  float64  // 0: 0.05
-	Fill   string   // "": none
+	Alpha  float64  // 0: defaults.Alpha
+	Fill   string   // "": defaults.Fill
 	// Shards, when above zero, diagnoses only the groups of shard Shard
 	// (0 <= Shard < Shards) and returns them unranked, for combine_diagnoses.
 	Shard, Shards int
@@ -52,11 +53,11 @@ func (s Spec) Args() string {
 	}
 	alpha := s.Alpha
 	if alpha == 0 {
-		alpha = 0.05
+		alpha = defaults.Alpha
 	}
 	fill := s.Fill
 	if fill == "" {
-		fill = "none"
+		fill = defaults.Fill
 	}
 	return fmt.Sprintf("%s, by := [%s], at := %s, value := %s, period := %s, alpha := %v, fill := %s",
 		udf.QuoteLiteral(s.Source), strings.Join(by, ", "), udf.QuoteLiteral(s.At), udf.QuoteLiteral(s.Value),

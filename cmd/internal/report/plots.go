@@ -52,6 +52,16 @@ func newPlot(title string, x axis, yLabel string) *plot.Plot {
 // seriesSVG draws the series with its rolling mean and a band of ±2 rolling
 // standard deviations.
 func seriesSVG(x axis, y, mean, sd []float64, yLabel string, width int) (string, error) {
+	p, err := seriesPlot(x, y, mean, sd, yLabel, width)
+	if err != nil {
+		return "", err
+	}
+	return render(p)
+}
+
+// seriesPlot is seriesSVG's picture before it is drawn, for callers that
+// mark more on it.
+func seriesPlot(x axis, y, mean, sd []float64, yLabel string, width int) (*plot.Plot, error) {
 	p := newPlot(fmt.Sprintf("%s with rolling mean ± 2 SD (window %d)", yLabel, width), x, yLabel)
 	var upper, lower, mid plotter.XYs
 	for i := range y {
@@ -64,18 +74,18 @@ func seriesSVG(x axis, y, mean, sd []float64, yLabel string, width int) (string,
 	}
 	if len(mid) > 1 {
 		if err := addBand(p, upper, lower); err != nil {
-			return "", err
+			return nil, err
 		}
 	}
 	if err := addSeries(p, points(x.x, y)); err != nil {
-		return "", err
+		return nil, err
 	}
 	if len(mid) > 1 {
 		if err := addHighlight(p, mid, "rolling mean"); err != nil {
-			return "", err
+			return nil, err
 		}
 	}
-	return render(p)
+	return p, nil
 }
 
 // addBand fills the area between upper and lower (each in x order).

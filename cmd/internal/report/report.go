@@ -17,6 +17,7 @@ import (
 
 	"github.com/plumb-sql/plumb/cmd/internal/diagnosis"
 	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/defaults"
 	"github.com/plumb-sql/plumb/udf"
 )
 
@@ -230,7 +231,7 @@ func drawPanel(p *Panel, spec diagnosis.Spec, atList, valueList any, period sql.
 			y[i] = math.NaN()
 		}
 	}
-	width := 30
+	width := defaults.RollingWidth
 	if period.Valid && period.Int64 > 1 {
 		width = int(max(period.Int64, 7))
 	}
@@ -302,7 +303,7 @@ func forecastPicture(spec diagnosis.Spec, x axis, y []float64, v stats.Stationar
 	missing := `<p class="missing">no forecast: %s</p>`
 	h := max(1, min(60, len(y)/10))
 	rec := v.Recipe()
-	f, err := stats.ForecastByRecipe(v.Judged(), rec, stats.RecipeForecastOptions{Horizon: h, Coverage: 0.95, AR: stats.AROptions{Period: rec.Period}})
+	f, err := stats.ForecastByRecipe(v.Judged(), rec, stats.RecipeForecastOptions{Horizon: h, Coverage: defaults.Coverage, AR: stats.AROptions{Period: rec.Period}})
 	if err != nil {
 		return "", err
 	}

@@ -2,6 +2,7 @@ package udf
 
 import (
 	"database/sql/driver"
+	_ "embed"
 	"encoding/binary"
 	"fmt"
 	"hash/fnv"
@@ -10,6 +11,11 @@ import (
 
 	"github.com/duckdb/duckdb-go/v2"
 )
+
+// The maths: none beyond diagnose's: the shard hash (shardOf) and rankedSQL (diagnose.go).
+
+//go:embed sql/combine_diagnoses.sql
+var combineDiagnosesMacros string
 
 // Shards cut the groups of a source into n parts that separate processes or
 // machines can diagnose on their own: diagnose(..., shard := k, shards := n)
@@ -59,11 +65,11 @@ func fmix64(h uint64) uint64 {
 	return h
 }
 
-// shardFunctions provides
+// combineDiagnosesFunctions provides
 //
 //	plumb_shard(key VARCHAR[], shards BIGINT) -> BIGINT, a group key's shard;
 //	combine_diagnoses(source), the table macro over plumb_combine_sql.
-func shardFunctions(t *types) []*function {
+func combineDiagnosesFunctions(t *types) []*function {
 	return []*function{{
 		name:     "plumb_shard",
 		params:   []duckdb.TypeInfo{t.list(t.varchar()), t.bigint()},
@@ -208,8 +214,3 @@ func combineSQL(from string) string {
     WHERE plumb_ok
 )`, from, groups, strings.Join(drop, ", ")) + rankedSQL(groups)
 }
-
-const shardMacros = `
-CREATE OR REPLACE TEMP MACRO combine_diagnoses(source) AS TABLE
-    FROM query(plumb_combine_sql(source));
-`

@@ -1,11 +1,43 @@
-package udf
+package vectors
 
 import (
 	"math"
 	"unsafe"
 
+	"github.com/duckdb/duckdb-go/v2"
 	"github.com/duckdb/duckdb-go/v2/mapping"
 )
+
+// Floats is a LIST(DOUBLE) result with NaN standing for NULL, alone or as
+// a member of a STRUCT result.
+type Floats []float64
+
+// Record is one STRUCT value: Values[i] is the field Names[i]. Write stores
+// it by position; Map gives it as duckdb-go's setter takes it.
+type Record struct {
+	Names  []string
+	Values []any
+}
+
+// Map is the record as a map from field name to value.
+func (r Record) Map() map[string]any {
+	m := make(map[string]any, len(r.Names))
+	for i, n := range r.Names {
+		m[n] = r.Values[i]
+	}
+	return m
+}
+
+// Write writes a chunk's results into its result vector and reports
+// whether it did; rows to skip (a NULL argument of a function without
+// special NULL handling) are written NULL. When a result has a Go type or
+// the vector a DuckDB type this package does not write, nothing is written
+// and it returns false: the caller writes the chunk through duckdb-go's
+// setter (MoveTo, SetResult).
+func Write(state *duckdb.ChunkIteratorState, results []any, skip []bool) bool {
+	out, ok := resultVector(state)
+	return ok && writeResults(out, results, skip)
+}
 
 // Writing a chunk's results straight into DuckDB's result vector.
 //
@@ -13,10 +45,11 @@ import (
 // returning a thousand values per group paid for a thousand boxes. When the
 // result type is made of the kinds below, executeDirect writes the whole
 // chunk here instead: DOUBLE, BIGINT, BOOLEAN and VARCHAR values, a
-// LIST(DOUBLE) given as a doubleList (NaN for NULL; every NaN or ±Inf
-// DOUBLE is written as NULL), a LIST(VARCHAR) given
-// as a []any of strings, and a STRUCT of those given as a map[string]any. Every result is checked first; if one has
-// another Go type, nothing is written and the chunk goes through
+// LIST(DOUBLE) given as Floats (NaN for NULL; every NaN or ±Inf DOUBLE is
+// written as NULL), a LIST(VARCHAR) given as a []any of strings, and a
+// STRUCT of those given as a Record or a map[string]any. Every result is
+// checked first; if one has another Go type, nothing is written and the
+// chunk goes through
 // duckdb-go's setter as before.
 
 // columnWriter writes one column (or a struct member) of a chunk.
@@ -49,7 +82,7 @@ func newColumnWriter(vec mapping.Vector, lt mapping.LogicalType) (columnWriter, 
 		defer mapping.DestroyLogicalType(&ct)
 		switch mapping.GetTypeId(ct) {
 		case mapping.TypeDouble:
-			return &doubleListWriter{listRows: listRows{vec: vec}}, true
+			return &floatsWriter{listRows: listRows{vec: vec}}, true
 		case mapping.TypeVarchar:
 			return &textListWriter{listRows: listRows{vec: vec}}, true
 		}
@@ -203,31 +236,31 @@ func (w *listRows) null(row int) {
 	w.valid.set(uint64(row), false)
 }
 
-// doubleListWriter writes a LIST(DOUBLE) given as a doubleList.
-type doubleListWriter struct {
+// floatsWriter writes a LIST(DOUBLE) given as Floats.
+type floatsWriter struct {
 	listRows
 	data    []float64
 	element validity
 }
 
-func (w *doubleListWriter) accepts(v any) bool {
-	_, ok := v.(doubleList)
+func (w *floatsWriter) accepts(v any) bool {
+	_, ok := v.(Floats)
 	return ok || v == nil
 }
-func (w *doubleListWriter) count(v any) {
-	if l, ok := v.(doubleList); ok {
+func (w *floatsWriter) count(v any) {
+	if l, ok := v.(Floats); ok {
 		w.total += uint64(len(l))
 	}
 }
-func (w *doubleListWriter) begin(rows int) {
+func (w *floatsWriter) begin(rows int) {
 	child := w.reserve(rows)
 	if size := w.at + w.total; size > 0 {
 		w.data = unsafe.Slice((*float64)(mapping.VectorGetData(child)), size)
 	}
 	w.element = writableValidity(child)
 }
-func (w *doubleListWriter) write(row int, v any) {
-	l, ok := v.(doubleList)
+func (w *floatsWriter) write(row int, v any) {
+	l, ok := v.(Floats)
 	if !ok {
 		w.null(row)
 		return
@@ -284,36 +317,76 @@ func (w *textListWriter) write(row int, v any) {
 	}
 }
 
-// structWriter writes a map[string]any member by member; a NULL struct has
-// NULL members too, as duckdb-go writes it.
+// structWriter writes a STRUCT given as a record (by position) or as a
+// map[string]any (by name), member by member; a NULL struct has NULL
+// members too, as duckdb-go writes it.
 type structWriter struct {
 	vec    mapping.Vector
 	names  []string
 	fields []columnWriter
 	valid  validity
+	// layout is the last record's names found equal to names, so that a
+	// chunk of records of one layout compares the names once.
+	layout *string
 }
 
-func (w *structWriter) accepts(v any) bool {
-	if v == nil {
-		return true
-	}
-	m, ok := v.(map[string]any)
-	if !ok {
+// fits reports whether a record's fields are the vector's, in order.
+func (w *structWriter) fits(r Record) bool {
+	if len(r.Names) != len(w.names) || len(r.Values) != len(w.names) {
 		return false
 	}
-	for i, name := range w.names {
-		x, ok := m[name]
-		if !ok || !w.fields[i].accepts(x) {
+	if len(r.Names) == 0 || &r.Names[0] == w.layout {
+		return true
+	}
+	for i, n := range r.Names {
+		if n != w.names[i] {
 			return false
 		}
 	}
+	w.layout = &r.Names[0]
 	return true
 }
-func (w *structWriter) count(v any) {
-	if m, ok := v.(map[string]any); ok {
-		for i, name := range w.names {
-			w.fields[i].count(m[name])
+
+func (w *structWriter) accepts(v any) bool {
+	switch x := v.(type) {
+	case nil:
+		return true
+	case Record:
+		if !w.fits(x) {
+			return false
 		}
+		for i, f := range w.fields {
+			if !f.accepts(x.Values[i]) {
+				return false
+			}
+		}
+		return true
+	case map[string]any:
+		for i, name := range w.names {
+			m, ok := x[name]
+			if !ok || !w.fields[i].accepts(m) {
+				return false
+			}
+		}
+		return true
+	}
+	return false
+}
+
+// member returns field i of v, a record or a map accepted before.
+func (w *structWriter) member(v any, i int) any {
+	if r, ok := v.(Record); ok {
+		return r.Values[i]
+	}
+	return v.(map[string]any)[w.names[i]]
+}
+
+func (w *structWriter) count(v any) {
+	if v == nil {
+		return
+	}
+	for i, f := range w.fields {
+		f.count(w.member(v, i))
 	}
 }
 func (w *structWriter) begin(rows int) {
@@ -323,13 +396,12 @@ func (w *structWriter) begin(rows int) {
 	}
 }
 func (w *structWriter) write(row int, v any) {
-	m, ok := v.(map[string]any)
-	if !ok {
+	if v == nil {
 		w.null(row)
 		return
 	}
-	for i, name := range w.names {
-		w.fields[i].write(row, m[name])
+	for i, f := range w.fields {
+		f.write(row, w.member(v, i))
 	}
 	w.valid.set(uint64(row), true)
 }

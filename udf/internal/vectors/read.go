@@ -1,7 +1,21 @@
-package udf
+// Package vectors is plumb's one reach past duckdb-go's public API: it
+// reads the list arguments of a chunk straight from DuckDB's vectors and
+// writes a chunk's results straight into the result vector, without
+// duckdb-go's per-element boxing.
+//
+// Two calls make the API: ReadLists (one reader per list column of a
+// chunk) and Write (a chunk's results). Where duckdb-go's internals are not
+// as this package expects, Available is false, and Write reports false;
+// udf then reads and writes through duckdb-go's own iterator and setter,
+// its single fallback path. TestReadEqualsIterator and TestWriteEqualsSetter
+// check the behaviour: every type plumb reads and writes, NULLs and empty
+// lists included, gives the same rows on both paths. reflect and the unexported fields are used
+// here only.
+package vectors
 
 import (
 	"database/sql/driver"
+	"errors"
 	"math"
 	"reflect"
 	"unsafe"
@@ -27,8 +41,50 @@ import (
 // duckdb-go renames or retypes either, chunkAccess.ok is false and every
 // function runs on the boxed iterator instead, which gives the same values
 // (udf tests run both paths). Results are written the same way through a
-// third field, the result vector's C handle (resultwriter.go).
+// third field, the result vector's C handle (write.go).
 var chunkAccess = findChunkAccess()
+
+// Available reports whether list arguments can be read directly
+// (ReadLists) and the iterator placed on a row (MoveTo).
+func Available() bool { return chunkAccess.ok }
+
+// ResultsAvailable reports whether results can be written directly
+// (Write).
+func ResultsAvailable() bool { return chunkAccess.ok && chunkAccess.resultOK }
+
+// ErrNullTime is the error for a NULL in a list of times: a time point
+// without a time cannot be placed.
+var ErrNullTime = errors.New("the at column holds a NULL; filter those rows out or fill them in")
+
+// Points is a list of (time, value) pairs read directly: At in
+// microseconds since 1970 for dates and timestamps, the integer itself
+// otherwise; Values with NULL as NaN.
+type Points struct {
+	At     []int64
+	Values []float64
+}
+
+// Buffers are one worker's reusable slices for a list column, for a
+// function whose result never holds on to its arguments.
+type Buffers struct {
+	floats []float64
+	times  []int64
+}
+
+// ReadLists returns a reader for every column of a chunk of n rows: nil
+// for a column that is not a list of a type read directly (the caller reads
+// that column through duckdb-go's getter). It returns nil when direct
+// reading is not available.
+func ReadLists(c *duckdb.DataChunk, n int) []*List {
+	if !chunkAccess.ok {
+		return nil
+	}
+	lists := make([]*List, c.ColumnCount())
+	for col := range lists {
+		lists[col] = newList(c, col, n)
+	}
+	return lists
+}
 
 type chunkLayout struct {
 	ok bool
@@ -83,8 +139,9 @@ func rawChunk(c *duckdb.DataChunk) mapping.DataChunk {
 	return *(*mapping.DataChunk)(unsafe.Add(unsafe.Pointer(c), chunkAccess.chunkHandle))
 }
 
-// moveTo places the iterator on row, so that SetResult writes that row.
-func moveTo(state *duckdb.ChunkIteratorState, row int) {
+// MoveTo places the iterator on row, so that duckdb-go's SetResult writes
+// that row (the way back for a chunk whose results Write did not take).
+func MoveTo(state *duckdb.ChunkIteratorState, row int) {
 	*(*mapping.IdxT)(unsafe.Add(unsafe.Pointer(state), chunkAccess.rowIndex)) = mapping.IdxT(row)
 }
 
@@ -92,12 +149,12 @@ func moveTo(state *duckdb.ChunkIteratorState, row int) {
 // the list's child vector.
 type listEntry struct{ offset, length uint64 }
 
-// listColumn reads one LIST column of a chunk without boxing: DOUBLE
-// elements become a []float64 (NULL elements NaN, as floats does); DATE,
-// TIMESTAMP and integer elements a []int64 (microseconds since 1970 for
-// dates and timestamps, as times does); STRUCT elements of a time and a
-// DOUBLE (the points diagnose aggregates) become points.
-type listColumn struct {
+// List reads one LIST column of a chunk without boxing: DOUBLE elements
+// become a []float64 (NULL elements NaN); DATE, TIMESTAMP and integer
+// elements a []int64 (microseconds since 1970 for dates and timestamps);
+// STRUCT elements of a time and a DOUBLE (the points diagnose aggregates)
+// become Points.
+type List struct {
 	entries []listEntry
 	rows    unsafe.Pointer // validity of the lists themselves; nil: all valid
 	// elements reads a plain list's child vector, or a list of pairs' time
@@ -113,14 +170,13 @@ type childVector struct {
 	microsPer int64 // for dates and timestamps: microseconds per stored unit
 }
 
-// newListColumn returns a reader for column col of a chunk of n rows, or
-// nil when the column is not a list of a type listColumn reads (the caller
-// then reads that column through duckdb-go's boxed getter).
+// newList returns a reader for column col of a chunk of n rows, or nil
+// when the column is not a list of a type List reads.
 //
 // DuckDB flattens the arguments of a C API scalar function before calling
 // it, so row i's list entry is entries[i] even for a constant argument
 // (a test passes a literal list over several thousand rows).
-func newListColumn(c *duckdb.DataChunk, col, n int) *listColumn {
+func newList(c *duckdb.DataChunk, col, n int) *List {
 	vec := mapping.DataChunkGetVector(rawChunk(c), mapping.IdxT(col))
 	lt := mapping.VectorGetColumnType(vec)
 	defer mapping.DestroyLogicalType(&lt)
@@ -130,7 +186,7 @@ func newListColumn(c *duckdb.DataChunk, col, n int) *listColumn {
 	ct := mapping.ListTypeChildType(lt)
 	defer mapping.DestroyLogicalType(&ct)
 	child := mapping.ListVectorGetChild(vec)
-	r := &listColumn{rows: mapping.VectorGetValidity(vec)}
+	r := &List{rows: mapping.VectorGetValidity(vec)}
 	switch mapping.GetTypeId(ct) {
 	case mapping.TypeStruct:
 		if mapping.StructTypeChildCount(ct) != 2 {
@@ -185,26 +241,21 @@ func valid(mask unsafe.Pointer, i uint64) bool {
 	return word&(1<<(i%64)) != 0
 }
 
-// listBuffers are one worker's reusable slices for a list column, for a
-// function whose result never holds on to its arguments (function.reuse).
-type listBuffers struct {
-	floats []float64
-	times  []int64
-}
-
-// length is the number of elements of row's list (0 for NULL).
-func (r *listColumn) length(row int) uint64 {
+// Length is the number of elements of row's list (0 for NULL), read
+// without building the list, so a caller can refuse a list before it is
+// copied.
+func (r *List) Length(row int) uint64 {
 	if !valid(r.rows, uint64(row)) {
 		return 0
 	}
 	return r.entries[row].length
 }
 
-// value returns row's list, or nil for a NULL list. It only reads DuckDB's
+// Value returns row's list, or nil for a NULL list. It only reads DuckDB's
 // memory, so workers may call it concurrently while the chunk is alive.
 // With b, the list is written into b's slices (grown as needed) instead of
 // new ones.
-func (r *listColumn) value(row int, b *listBuffers) (driver.Value, error) {
+func (r *List) Value(row int, b *Buffers) (driver.Value, error) {
 	if !valid(r.rows, uint64(row)) {
 		return nil, nil
 	}
@@ -225,7 +276,7 @@ func (r *listColumn) value(row int, b *listBuffers) (driver.Value, error) {
 		if err != nil {
 			return nil, err
 		}
-		return points{at: at, values: r.values.floats(e, fdst)}, nil
+		return Points{At: at, Values: r.values.floats(e, fdst)}, nil
 	}
 	if r.elements.kind == mapping.TypeDouble {
 		return r.elements.floats(e, fdst), nil
@@ -256,7 +307,7 @@ func (c *childVector) times(e listEntry, out []int64) ([]int64, error) {
 	if c.valid != nil {
 		for i := uint64(0); i < e.length; i++ {
 			if !valid(c.valid, e.offset+i) {
-				return nil, errNullTime
+				return nil, ErrNullTime
 			}
 		}
 	}

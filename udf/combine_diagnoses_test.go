@@ -13,7 +13,7 @@ import (
 
 // TestShardOfReference: shardOf gives the shards that
 // testdata/reference/shard_keys.py computes from the definition in
-// shard.go's doc comment, with plain Python 3 and no code of ours.
+// combine_diagnoses.go's doc comment, with plain Python 3 and no code of ours.
 func TestShardOfReference(t *testing.T) {
 	f, err := os.Open("../testdata/reference/shard_keys.csv")
 	if err != nil {

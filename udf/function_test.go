@@ -6,16 +6,18 @@ import (
 	"fmt"
 	"strings"
 	"testing"
+
+	"github.com/plumb-sql/plumb/udf/internal/vectors"
 )
 
 // TestChunkAccessLayout fails when an upgrade of duckdb-go moves the
-// fields chunkaccess.go reads, so that the fallback never goes unnoticed.
+// fields package vectors reads, so that the fallback never goes unnoticed.
 func TestChunkAccessLayout(t *testing.T) {
-	if !chunkAccess.ok {
-		t.Fatal("duckdb-go's DataChunk or ChunkIteratorState changed: list arguments are boxed again (see chunkaccess.go)")
+	if !vectors.Available() {
+		t.Fatal("duckdb-go's DataChunk or ChunkIteratorState changed: list arguments are boxed again (see udf/internal/vectors)")
 	}
-	if !chunkAccess.resultOK {
-		t.Fatal("duckdb-go's Vector changed: list results are boxed again (see chunkaccess.go)")
+	if !vectors.ResultsAvailable() {
+		t.Fatal("duckdb-go's Vector changed: list results are boxed again (see udf/internal/vectors)")
 	}
 }
 
