@@ -158,14 +158,26 @@ func stability(x []float64, opts StabilityOptions, full bool) (StabilityResult, 
 // segmentBounds returns k+1 boundaries cutting T observations into k
 // consecutive segments of equal length (a multiple of period when period >
 // 1), the oldest segment taking the remainder; nil when segments would be
-// shorter than 5.
+// shorter than 5. With a period, the length is the multiple of it nearest
+// T/k, at least 5; when that leaves fewer than two segments, it is the most
+// whole periods that still leave two; and when not even two segments of
+// whole periods (at least 5 values each) fit, the period is set aside and
+// the series is cut as without one. So the length the check needs grows
+// with the series, never the other way (a seasonally differenced series one
+// to two periods long is still checked).
 func segmentBounds(T, k, period int) []int {
 	if k == 0 {
 		k = min(10, max(2, T/25))
 	}
 	length := T / k
-	if period > 1 {
+	if period > 1 && T/2/period*period >= 5 {
 		length = max(period, int(math.Round(float64(length)/float64(period)))*period)
+		for length < 5 {
+			length += period
+		}
+		if T/length < 2 {
+			length = T / 2 / period * period
+		}
 		k = T / length
 	}
 	if k < 2 || length < 5 {

@@ -9,7 +9,9 @@ import (
 
 // StationarityOptions configure Stationarity.
 type StationarityOptions struct {
-	// Period is the seasonal period; 0 means detect it (see Seasonality).
+	// Period is the seasonal period; 0 means detect it (see Seasonality)
+	// and 1 declares the series non-seasonal: no period is detected,
+	// seasonality is not judged and the status stays ok.
 	Period     int
 	Candidates []int
 	// Alpha is the level for the whole verdict; 0 means defaults.Alpha.
@@ -218,8 +220,8 @@ func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, er
 	if !(alpha > 0 && alpha < 1) {
 		return StationarityResult{}, errorf("stationarity: alpha must be between 0 and 1, got %v", opts.Alpha)
 	}
-	if opts.Period < 0 || opts.Period == 1 {
-		return StationarityResult{}, errorf("seasonality: the period must be 0 (detect) or at least 2, got %d", opts.Period)
+	if opts.Period < 0 {
+		return StationarityResult{}, errorf("seasonality: the period must be 0 (detect), 1 (none) or at least 2, got %d", opts.Period)
 	}
 	r := emptyVerdict()
 	unjudged := func(s Status) (StationarityResult, error) {
@@ -242,7 +244,9 @@ func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, er
 	}
 	r.Demand = Demand(x)
 	period, detected := opts.Period, false
-	if period == 0 {
+	if period == 1 { // declared non-seasonal
+		period = 0
+	} else if period == 0 {
 		candidates := opts.Candidates
 		if candidates == nil {
 			candidates = DefaultPeriods
@@ -338,7 +342,10 @@ func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, er
 	}
 	r.Reason = reason(&r)
 	r.Status = StatusOK
-	if r.Seasonality.Status == StatusSeasonUnknown {
+	switch {
+	case r.Seasonality.Status == StatusSeasonUnknown && opts.Period == 1:
+		r.Reason += " The series was declared non-seasonal (period 1), so seasonality was not judged."
+	case r.Seasonality.Status == StatusSeasonUnknown:
 		r.Status = StatusSeasonUnknown
 		r.Reason += " No seasonal period was given or found, so seasonality was not judged."
 	}

@@ -12,12 +12,36 @@ import (
 // outside its documented range is refused with one message wherever it was
 // given, never replaced by a default.
 
-// CheckPeriod accepts a seasonal period of at least 2, or nil: no period
-// given, so that it is detected (SQL's NULL, a flag left out).
-func CheckPeriod(p *int) error { return checkPeriod(p, "to detect it") }
+// CheckPeriod checks the verdict's period (stationarity, diagnose,
+// stationarize, forecast and their commands): at least 2, 1 to declare the
+// series non-seasonal, or nil: no period given, so that it is detected
+// (SQL's NULL, a flag left out).
+func CheckPeriod(p *int) error {
+	if p != nil && *p < 1 {
+		return fmt.Errorf("period must be at least 2, 1 (not seasonal), or left out (NULL) to detect it; got %d", *p)
+	}
+	return nil
+}
 
-// checkPeriod is CheckPeriod for a function where a missing period means
-// what null says ("to detect it", "for none").
+// verdictPeriodArg reads the verdict's period argument with CheckPeriod: 0
+// when NULL.
+func verdictPeriodArg(v driver.Value) (int, error) {
+	p, err := optionalInt(v, "period")
+	if err != nil {
+		return 0, err
+	}
+	if err := CheckPeriod(p); err != nil {
+		return 0, err
+	}
+	if p == nil {
+		return 0, nil
+	}
+	return *p, nil
+}
+
+// checkPeriod accepts a seasonal period of at least 2, or nil, for a
+// function where a missing period means what null says ("to detect it",
+// "for none").
 func checkPeriod(p *int, null string) error {
 	if p != nil && *p < 2 {
 		return fmt.Errorf("period must be at least 2, or left out (NULL) %s; got %d", null, *p)

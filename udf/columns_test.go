@@ -69,10 +69,10 @@ func TestColumnsCheckedEverywhere(t *testing.T) {
 	// A bad option of a table function reads in the commands' words,
 	// without duckdb-go's prefix for a Go function's error.
 	for _, q := range []string{`FROM diagnose('s', by := 'g', at := 't', value := 'v', alpha := 0)`,
-		`FROM forecast('s', by := 'g', at := 't', value := 'v', period := 1)`} {
+		`FROM forecast('s', by := 'g', at := 't', value := 'v', period := 0)`} {
 		if msg := queryError(t, db, q); strings.Contains(msg, "API error") || strings.Contains(msg, "_sql") ||
 			!(strings.Contains(msg, "Invalid Input Error: alpha must be between 0 and 1 (exclusive), got 0") ||
-				strings.Contains(msg, "Invalid Input Error: period must be at least 2, or left out (NULL) to detect it; got 1")) {
+				strings.Contains(msg, "Invalid Input Error: period must be at least 2, 1 (not seasonal), or left out (NULL) to detect it; got 0")) {
 			t.Errorf("%s: error %q", q, msg)
 		}
 	}

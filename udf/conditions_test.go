@@ -114,8 +114,8 @@ func TestConditionsSQL(t *testing.T) {
 	for _, test := range []struct{ query, want string }{
 		{"SELECT stationarity([1, 2, 3], alpha := 1.5)", "alpha must be between 0 and 1"},
 		{"SELECT stationarity([1, 2, 3], alpha := 0)", "alpha must be between 0 and 1 (exclusive), got 0"},
-		{"SELECT stationarity([1, 2, 3], period := 1)", "period must be at least 2, or left out (NULL) to detect it; got 1"},
-		{"SELECT stationarity([1, 2, 3], period := 0)", "period must be at least 2, or left out (NULL) to detect it; got 0"},
+		{"SELECT stationarity([1, 2, 3], period := -1)", "period must be at least 2, 1 (not seasonal), or left out (NULL) to detect it; got -1"},
+		{"SELECT stationarity([1, 2, 3], period := 0)", "period must be at least 2, 1 (not seasonal), or left out (NULL) to detect it; got 0"},
 		{"SELECT seasonality([1, 2, 3], period := 0)", "period must be at least 2, or left out (NULL) to detect it; got 0"},
 		{"SELECT box_cox_lambda([1, 2, 3], period := 0)", "period must be at least 2, or left out (NULL) for none; got 0"},
 		{"SELECT white_noise([1, 2, 3], lags := 0)", "lags must be at least 1, got 0"},

@@ -34,11 +34,19 @@ var forecastMacros string
 //	    column gives in original units after a Box-Cox transform: median
 //	    (the transform of the forecast on its scale) or mean.
 //	forecast_models(same arguments)
-//	    one row per group: the recipe and the autoregression behind the
-//	    forecasts (order, constant, coefficients, residual variance, the
-//	    Ljung-Box p-value of its residuals), and with holdout := k the mean
+//	    one row per group: the recipe and the model behind the forecasts,
+//	    chosen by AICc among ARMA models fitted by exact likelihood and the
+//	    least-squares autoregression (stats.ChooseARMA): its orders
+//	    (ar_order, ma_order, seasonal_ar_order, seasonal_ma_order at
+//	    seasonal_period), constant, coefficients, residual variance, observations
+//	    (values of the stationary series), log_likelihood, aic, aicc, how it
+//	    was fitted (model_fit: exact_likelihood or least_squares) and the
+//	    Ljung-Box p-value of its residuals; with holdout := k the mean
 //	    absolute scaled error and the share of held-out values inside the
-//	    intervals.
+//	    intervals. mase is scaled by the in-sample naive error at the lag of
+//	    the period passed (period := 1: lag 1; a period ≥ 2: that lag, even
+//	    when the verdict found no seasonality), and at the detected period
+//	    of a seasonal series when period is NULL (lag 1 otherwise).
 func forecastFunctions(t *types) []*function {
 	d := t.double()
 	funcs := []*function{{
@@ -268,16 +276,29 @@ func forecastGroup(at []int64, x []float64, o forecastOptions) (any, error) {
 		return forecastLayout.record(&out), nil
 	}
 	out.forecast, out.lower, out.upper = doubleList(f.Mean), doubleList(f.Lower), doubleList(f.Upper)
-	m := f.Model
-	out.arOrder, out.arConstant, out.arCoefficients = int64(m.Order), orNull(m.Constant), doubleList(m.Coefficients)
+	m := f.Chosen
+	out.arOrder, out.arConstant, out.arCoefficients = int64(m.Order.AR), orNull(m.Constant), doubleList(m.AR)
 	out.residualVariance, out.observations, out.aic = orNull(m.Variance), int64(m.Observations), orNull(m.AIC)
+	out.maOrder, out.seasonalAROrder, out.seasonalMAOrder = int64(m.Order.MA), int64(m.Order.SeasonalAR), int64(m.Order.SeasonalMA)
+	if m.Order.SeasonalAR+m.Order.SeasonalMA > 0 {
+		out.seasonalPeriod = int64(m.Order.Period)
+	}
+	out.maCoefficients, out.seasonalARCoefficients, out.seasonalMACoefficients = doubleList(m.MA), doubleList(m.SeasonalAR), doubleList(m.SeasonalMA)
+	out.logLikelihood, out.aicc = orNull(m.LogLikelihood), orNull(m.AICc)
+	out.modelFit = "exact_likelihood"
+	if m.LeastSquares {
+		out.modelFit = "least_squares"
+	}
 	if f.WhiteNoise.Status == stats.StatusOK {
 		out.ljungBox = orNull(f.WhiteNoise.PValue)
 	}
 	if o.holdout > 0 {
 		actual := []float64(out.actual.(doubleList))
 		lag := 1
-		if v.Seasonal && rec.Period > 1 {
+		switch {
+		case o.verdict.Period >= 2: // the period the user passed
+			lag = o.verdict.Period
+		case o.verdict.Period == 0 && v.Seasonal && rec.Period > 1:
 			lag = rec.Period
 		}
 		if e, err := stats.MeanAbsoluteScaledError(actual, f.Mean, train, lag); err == nil && e.Status == stats.StatusOK {
@@ -298,6 +319,10 @@ type forecastRow struct {
 	seasonalDifferences, differences, arOrder, arConstant               any
 	arCoefficients, residualVariance, observations, aic, ljungBox, mase any
 	intervalCoverage                                                    any
+	// the rest of the chosen model (stats.ChooseARMA)
+	maOrder, seasonalAROrder, seasonalMAOrder, seasonalPeriod                any
+	maCoefficients, seasonalARCoefficients, seasonalMACoefficients, modelFit any
+	logLikelihood, aicc                                                      any
 }
 
 // forecastLayout is plumb_forecast's STRUCT, which forecastSQL unpacks.
@@ -324,6 +349,16 @@ var forecastLayout = newLayout(
 	num("ljung_box_p_value", func(r *forecastRow) any { return r.ljungBox }),
 	num("mase", func(r *forecastRow) any { return r.mase }),
 	num("interval_coverage", func(r *forecastRow) any { return r.intervalCoverage }),
+	integer64("ma_order", func(r *forecastRow) any { return r.maOrder }),
+	integer64("seasonal_ar_order", func(r *forecastRow) any { return r.seasonalAROrder }),
+	integer64("seasonal_ma_order", func(r *forecastRow) any { return r.seasonalMAOrder }),
+	integer64("seasonal_period", func(r *forecastRow) any { return r.seasonalPeriod }),
+	doubles("ma_coefficients", func(r *forecastRow) any { return r.maCoefficients }),
+	doubles("seasonal_ar_coefficients", func(r *forecastRow) any { return r.seasonalARCoefficients }),
+	doubles("seasonal_ma_coefficients", func(r *forecastRow) any { return r.seasonalMACoefficients }),
+	num("log_likelihood", func(r *forecastRow) any { return r.logLikelihood }),
+	num("aicc", func(r *forecastRow) any { return r.aicc }),
+	varchar("model_fit", func(r *forecastRow) any { return r.modelFit }),
 )
 
 // timeAt is the time of position i of the judged series (on the regular
@@ -353,7 +388,12 @@ func forecastSQL(q seriesQuery, literals []string, models bool) string {
                    plumb_f.differences AS differences, plumb_f.ar_order AS ar_order, plumb_f.ar_constant AS ar_constant,
                    plumb_f.ar_coefficients AS ar_coefficients, plumb_f.residual_variance AS residual_variance,
                    plumb_f.observations AS observations, plumb_f.aic AS aic, plumb_f.ljung_box_p_value AS ljung_box_p_value,
-                   plumb_f.mase AS mase, plumb_f.interval_coverage AS interval_coverage
+                   plumb_f.mase AS mase, plumb_f.interval_coverage AS interval_coverage,
+                   plumb_f.ma_order AS ma_order, plumb_f.seasonal_ar_order AS seasonal_ar_order,
+                   plumb_f.seasonal_ma_order AS seasonal_ma_order, plumb_f.seasonal_period AS seasonal_period,
+                   plumb_f.ma_coefficients AS ma_coefficients, plumb_f.seasonal_ar_coefficients AS seasonal_ar_coefficients,
+                   plumb_f.seasonal_ma_coefficients AS seasonal_ma_coefficients, plumb_f.log_likelihood AS log_likelihood,
+                   plumb_f.aicc AS aicc, plumb_f.model_fit AS model_fit
             FROM (SELECT %[1]s, plumb_forecast(plumb_points, %[2]s) AS plumb_f FROM plumb_series)`,
 			by, strings.Join(literals, ", "), status)
 		return q.batchedCTEs(perGroup, gatherBytesPerRow) + fmt.Sprintf("\nFROM plumb_done\nORDER BY %s", by)

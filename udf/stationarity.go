@@ -46,7 +46,7 @@ func stationarityFunctions(t *types) []*function {
 // stationarityOptions checks (period, alpha), the options every function
 // that judges a series takes.
 func stationarityOptions(period, alpha driver.Value) (stats.StationarityOptions, error) {
-	p, err := periodArg(period)
+	p, err := verdictPeriodArg(period)
 	if err != nil {
 		return stats.StationarityOptions{}, err
 	}

@@ -103,9 +103,8 @@ func TestCommandOptionChecks(t *testing.T) {
 	}{
 		{[]string{"--alpha", "0"}, "alpha must be between 0 and 1 (exclusive), got 0"},
 		{[]string{"--alpha", "1.5"}, "alpha must be between 0 and 1 (exclusive), got 1.5"},
-		{[]string{"--period", "-3"}, "period must be at least 2, or left out (NULL) to detect it; got -3"},
-		{[]string{"--period", "0"}, "period must be at least 2, or left out (NULL) to detect it; got 0"},
-		{[]string{"--period", "1"}, "period must be at least 2, or left out (NULL) to detect it; got 1"},
+		{[]string{"--period", "-3"}, "period must be at least 2, 1 (not seasonal), or left out (NULL) to detect it; got -3"},
+		{[]string{"--period", "0"}, "period must be at least 2, 1 (not seasonal), or left out (NULL) to detect it; got 0"},
 	} {
 		for _, command := range []string{"diagnose", "forecast"} {
 			args := append([]string{command, source, "--by", "shop,product", "--at", "day", "--value", "units", "--quiet"}, test.flags...)
