@@ -73,12 +73,11 @@ func (e *Explorer) handleListDownload(format string) runHandler {
 			e.fail(w, r, http.StatusBadRequest, err)
 			return
 		}
-		ctx, cancel := context.WithTimeout(r.Context(), e.cfg.QueryTimeout)
-		defer cancel()
-		if err := s.acquire(ctx); err != nil {
-			e.fail(w, r, http.StatusServiceUnavailable, fmt.Errorf("this session is busy (a diagnose is running): %w", err))
+		ctx, cancel, ok := e.useSession(w, r, s)
+		if !ok {
 			return
 		}
+		defer cancel()
 		defer s.release()
 		query, args, cols, err := downloadSQL(ctx, s.conn, run, q)
 		if err != nil {
@@ -192,12 +191,11 @@ func (e *Explorer) handleGroupDownload(w http.ResponseWriter, r *http.Request, s
 		e.fail(w, r, http.StatusNotFound, err)
 		return
 	}
-	ctx, cancel := context.WithTimeout(r.Context(), e.cfg.QueryTimeout)
-	defer cancel()
-	if err := s.acquire(ctx); err != nil {
-		e.fail(w, r, http.StatusServiceUnavailable, fmt.Errorf("this session is busy (a diagnose is running): %w", err))
+	ctx, cancel, ok := e.useSession(w, r, s)
+	if !ok {
 		return
 	}
+	defer cancel()
 	row, err := readGroupRow(ctx, s.conn, run, info, id)
 	var g *groupSeries
 	if err == nil {

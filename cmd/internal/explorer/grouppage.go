@@ -134,12 +134,11 @@ func (e *Explorer) handleGroup(w http.ResponseWriter, r *http.Request, s *sessio
 		e.fail(w, r, http.StatusNotFound, err)
 		return
 	}
-	ctx, cancel := context.WithTimeout(r.Context(), e.cfg.QueryTimeout)
-	defer cancel()
-	if err := s.acquire(ctx); err != nil {
-		e.fail(w, r, http.StatusServiceUnavailable, fmt.Errorf("this session is busy (a diagnose is running): %w", err))
+	ctx, cancel, ok := e.useSession(w, r, s)
+	if !ok {
 		return
 	}
+	defer cancel()
 	d, err := e.groupPage(ctx, s.conn, run, info, q, id)
 	s.release()
 	if err != nil {

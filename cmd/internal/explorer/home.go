@@ -40,12 +40,11 @@ func (e *Explorer) handleHome(w http.ResponseWriter, r *http.Request) {
 			return
 		}
 	}
-	ctx, cancel := context.WithTimeout(r.Context(), e.cfg.QueryTimeout)
-	defer cancel()
-	if err := s.acquire(ctx); err != nil {
-		e.fail(w, r, http.StatusServiceUnavailable, fmt.Errorf("this session is busy (a diagnose is running): %w", err))
+	ctx, cancel, ok := e.useSession(w, r, s)
+	if !ok {
 		return
 	}
+	defer cancel()
 	defer s.release()
 	var d homeData
 	var err error
@@ -144,12 +143,11 @@ func (e *Explorer) handleStartRun(w http.ResponseWriter, r *http.Request) {
 			return
 		}
 	}
-	ctx, cancel := context.WithTimeout(r.Context(), e.cfg.QueryTimeout)
-	defer cancel()
-	if err := s.acquire(ctx); err != nil {
-		e.fail(w, r, http.StatusServiceUnavailable, fmt.Errorf("this session is busy (a diagnose is running): %w", err))
+	ctx, cancel, ok := e.useSession(w, r, s)
+	if !ok {
 		return
 	}
+	defer cancel()
 	src, spec, saved, err := e.checkRunForm(ctx, s, f)
 	s.release()
 	if err != nil {

@@ -119,12 +119,11 @@ func (e *Explorer) handleList(w http.ResponseWriter, r *http.Request, s *session
 		e.fail(w, r, http.StatusBadRequest, err)
 		return
 	}
-	ctx, cancel := context.WithTimeout(r.Context(), e.cfg.QueryTimeout)
-	defer cancel()
-	if err := s.acquire(ctx); err != nil {
-		e.fail(w, r, http.StatusServiceUnavailable, fmt.Errorf("this session is busy (a diagnose is running): %w", err))
+	ctx, cancel, ok := e.useSession(w, r, s)
+	if !ok {
 		return
 	}
+	defer cancel()
 	start := time.Now()
 	p, err := readPage(ctx, s.conn, run, q)
 	s.release()

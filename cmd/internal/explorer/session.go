@@ -8,6 +8,7 @@ import (
 	"database/sql/driver"
 	"encoding/base64"
 	"errors"
+	"fmt"
 	"net/http"
 	"sync"
 	"time"
@@ -43,6 +44,20 @@ func (s *session) acquire(ctx context.Context) error {
 }
 
 func (s *session) release() { <-s.use }
+
+// useSession bounds a request's work by the query timeout and waits for
+// s's connection. With ok false the request has been answered (503) and
+// there is nothing to release; otherwise the caller releases s when done
+// with the connection and calls cancel when done with ctx.
+func (e *Explorer) useSession(w http.ResponseWriter, r *http.Request, s *session) (ctx context.Context, cancel context.CancelFunc, ok bool) {
+	ctx, cancel = context.WithTimeout(r.Context(), e.cfg.QueryTimeout)
+	if err := s.acquire(ctx); err != nil {
+		cancel()
+		e.fail(w, r, http.StatusServiceUnavailable, fmt.Errorf("this session is busy (a diagnose is running): %w", err))
+		return nil, nil, false
+	}
+	return ctx, cancel, true
+}
 
 func (s *session) touch() {
 	s.mu.Lock()

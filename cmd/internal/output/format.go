@@ -46,7 +46,7 @@ func Read(rows *sql.Rows) (*Result, error) {
 		return nil, err
 	}
 	r := &Result{Columns: cols}
-	order, err := structOrderOf(rows)
+	order, err := StructOrderOf(rows)
 	if err != nil {
 		return nil, err
 	}
@@ -67,8 +67,9 @@ func Read(rows *sql.Rows) (*Result, error) {
 	return r, rows.Err()
 }
 
-// structOrderOf is StructOrder for the columns of rows.
-func structOrderOf(rows *sql.Rows) (func([]any), error) {
+// StructOrderOf is StructOrder for the columns of rows; the server uses it
+// too, so STRUCTs reach its clients with their fields in declared order.
+func StructOrderOf(rows *sql.Rows) (func([]any), error) {
 	types, err := rows.ColumnTypes()
 	if err != nil {
 		return nil, err

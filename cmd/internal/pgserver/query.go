@@ -11,6 +11,7 @@ import (
 	"github.com/duckdb/duckdb-go/v2"
 	"github.com/jackc/pgx/v5/pgproto3"
 
+	"github.com/plumb-sql/plumb/cmd/internal/output"
 	"github.com/plumb-sql/plumb/cmd/internal/statements"
 )
 
@@ -180,7 +181,7 @@ func (sess *session) sendRows(rows *sql.Rows, cols []column, formats []int16, li
 // connection every 256 rows so that a large result does not pile up in
 // memory (and a vanished client is noticed).
 func (sess *session) eachRow(rows *sql.Rows, n int, limit int64, send func([]any)) (int64, error) {
-	order, err := structOrder(rows)
+	order, err := output.StructOrderOf(rows)
 	if err != nil {
 		return 0, err
 	}

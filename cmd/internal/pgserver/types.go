@@ -1,7 +1,6 @@
 package pgserver
 
 import (
-	"database/sql"
 	"encoding/binary"
 	"encoding/json"
 	"fmt"
@@ -234,20 +233,6 @@ func arrayText(list []any, elem uint32) string {
 	}
 	b.WriteByte('}')
 	return b.String()
-}
-
-// structOrder is output.StructOrder for the columns of rows: STRUCTs
-// reach the client with their fields in declared order.
-func structOrder(rows *sql.Rows) (func([]any), error) {
-	types, err := rows.ColumnTypes()
-	if err != nil {
-		return nil, err
-	}
-	names := make([]string, len(types))
-	for i, t := range types {
-		names[i] = t.DatabaseTypeName()
-	}
-	return output.StructOrder(names), nil
 }
 
 // jsonText renders lists, structs and maps as JSON.
