@@ -17,6 +17,11 @@ func Difference(x []float64, lag, times int) ([]float64, error) {
 	if times < 1 {
 		return nil, fmt.Errorf("stats: difference times must be at least 1, got %d", times)
 	}
+	// lag or times beyond the series leaves nothing; checked first, so that
+	// lag·times cannot overflow.
+	if lag >= len(x) || times >= len(x) {
+		return []float64{}, nil
+	}
 	n := len(x) - lag*times
 	if n <= 0 {
 		return []float64{}, nil

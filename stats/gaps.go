@@ -30,7 +30,19 @@ type Regular struct {
 	Gaps, Missing int
 	// Irregular counts steps that are not a whole multiple of Step.
 	Irregular int
+	// TooSparse says that a fill was asked for but not done: the grid
+	// would hold more than MaxFillFactor points per observation. Values is
+	// then x itself, unfilled, and the series should not be judged
+	// (StatusTooSparse).
+	TooSparse bool
 }
+
+// MaxFillFactor bounds a fill: the regular grid may hold at most this many
+// points per observation, so at most nine in ten values are invented. A
+// wider span (four observations a billion steps apart) is refused before
+// the grid is allocated: what would be judged is the fill, not the data,
+// and its size is set by the times, not by what the input holds.
+const MaxFillFactor = 10
 
 // Regularize puts the observations x at strictly increasing times at on
 // the grid of their usual step, filling missing points and missing values
@@ -103,7 +115,15 @@ func Regularize(at []int64, x []float64, method FillMethod) (Regular, error) {
 	}
 	// Place each observation on the grid (rounding irregular times to the
 	// nearest point, keeping the first of any that land on one), then fill.
-	n := int((at[len(at)-1]-at[0])/r.Step) + 1
+	// The span is checked before anything is allocated (a negative span is
+	// an overflow of extreme times).
+	span := at[len(at)-1] - at[0]
+	if span < 0 || span/r.Step >= int64(MaxFillFactor*len(at)) {
+		r.TooSparse = true
+		r.Values = x
+		return r, nil
+	}
+	n := int(span/r.Step) + 1
 	grid := make([]float64, n)
 	for i := range grid {
 		grid[i] = math.NaN()

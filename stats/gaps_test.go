@@ -41,3 +41,29 @@ func TestRegularize(t *testing.T) {
 		t.Error("unknown method gave no error")
 	}
 }
+
+// TestRegularizeRefusesASparseFill: a fill whose grid would hold more than
+// MaxFillFactor points per observation is refused before the grid is
+// allocated (four points a billion steps apart once asked for 8 GB), and
+// extreme times whose span overflows are refused too; the values come back
+// unfilled.
+func TestRegularizeRefusesASparseFill(t *testing.T) {
+	for _, at := range [][]int64{
+		{0, 1, 2, 1_000_000_000},
+		{0, 1, 2, 40},           // 41 grid points for 4 observations: more than 10 per observation
+		{-6e18, -5e18, 0, 5e18}, // every step fits in int64, the span does not
+	} {
+		x := []float64{1, 2, 3, 4}
+		for _, method := range []FillMethod{FillLinear, FillPrevious} {
+			r, err := Regularize(at, x, method)
+			if err != nil || !r.TooSparse || len(r.Values) != len(x) {
+				t.Errorf("at %v, %s: TooSparse %v, %d values, %v", at, method, r.TooSparse, len(r.Values), err)
+			}
+		}
+	}
+	// 39 grid points for 4 observations stay within the bound and are filled.
+	r, err := Regularize([]int64{0, 1, 2, 38}, []float64{1, 2, 3, 4}, FillPrevious)
+	if err != nil || r.TooSparse || len(r.Values) != 39 {
+		t.Errorf("a fill within the bound: TooSparse %v, %d values, %v", r.TooSparse, len(r.Values), err)
+	}
+}

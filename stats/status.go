@@ -32,6 +32,11 @@ const (
 	// because no period was given or found, or the series is shorter than
 	// two periods.
 	StatusSeasonUnknown Status = "season_unknown"
+	// StatusTooSparse means a fill was asked for, but the series' time
+	// points span more than MaxFillFactor grid steps per observation, so
+	// filling would invent most of the series (and the grid could exhaust
+	// memory): the series is not judged.
+	StatusTooSparse Status = "too_sparse"
 )
 
 // CheckFinite reports StatusNonFinite if x holds NaN or ±Inf (SQL NULLs

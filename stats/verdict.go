@@ -352,6 +352,15 @@ func Stationarity(x []float64, opts StationarityOptions) (StationarityResult, er
 	return r, nil
 }
 
+// UnjudgedVerdict is the verdict of a series left unjudged with status s
+// (for a caller that decides so before Stationarity, such as a fill that
+// Regularize refuses): every number NaN, the status's reason.
+func UnjudgedVerdict(s Status) StationarityResult {
+	r := emptyVerdict()
+	r.Status, r.Reason = s, StatusReason(s)
+	return r
+}
+
 // emptyVerdict is a result with every number NaN.
 func emptyVerdict() StationarityResult {
 	n := math.NaN()

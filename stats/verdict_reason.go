@@ -141,6 +141,8 @@ func StatusReason(s Status) string {
 		return "The test regressions fit exactly (extreme magnitudes or a degenerate pattern): not judged."
 	case StatusNonPositive:
 		return "A transform that needs positive values met a zero or negative one."
+	case StatusTooSparse:
+		return "Too sparse to fill: its time points span more than ten steps of its usual step per observation, so filling would invent most of the series; not judged."
 	}
 	return ""
 }

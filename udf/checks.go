@@ -20,6 +20,20 @@ func CheckPeriod(p *int) error {
 	if p != nil && *p < 1 {
 		return fmt.Errorf("period must be at least 2, 1 (not seasonal), or left out (NULL) to detect it; got %d", *p)
 	}
+	return checkAtMost(p, "period")
+}
+
+// maxSpan bounds a period, lag or difference count: no series plumb reads is
+// longer (a DuckDB list of 2^31 doubles is 16 GiB), and beyond it the
+// arithmetic of segment bounds and lags (2·period, lag·times) could
+// overflow.
+const maxSpan = 1<<31 - 1
+
+// checkAtMost refuses a value of name above maxSpan.
+func checkAtMost(p *int, name string) error {
+	if p != nil && *p > maxSpan {
+		return fmt.Errorf("%s must be at most %d (longer than any series), got %d", name, maxSpan, *p)
+	}
 	return nil
 }
 
@@ -46,7 +60,7 @@ func checkPeriod(p *int, null string) error {
 	if p != nil && *p < 2 {
 		return fmt.Errorf("period must be at least 2, or left out (NULL) %s; got %d", null, *p)
 	}
-	return nil
+	return checkAtMost(p, "period")
 }
 
 // CheckAlpha accepts a test level strictly between 0 and 1.

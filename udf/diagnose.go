@@ -120,6 +120,11 @@ func diagnoseGroup(at []int64, x []float64, order []int, opts stats.Stationarity
 	if err != nil {
 		return nil, err
 	}
+	if reg.TooSparse {
+		v := stats.UnjudgedVerdict(stats.StatusTooSparse)
+		d := diagnosed{verdict: v, regular: reg, status: string(v.Status), shiftPoint: -1}
+		return diagnoseLayout.record(&d), nil
+	}
 	v, err := stats.Stationarity(reg.Values, opts)
 	if err != nil {
 		return nil, err

@@ -44,6 +44,9 @@ func differencedFunctions(t *types) []*function {
 			if lag < 1 || times < 1 {
 				return nil, fmt.Errorf("lag and times must be at least 1, got lag := %d, times := %d", lag, times)
 			}
+			if lag > maxSpan || times > maxSpan || lag*times > maxSpan {
+				return nil, fmt.Errorf("lag × times must be at most %d (longer than any series), got lag := %d, times := %d", maxSpan, lag, times)
+			}
 			return differencedSQL(q, lag, times), nil
 		},
 	}}

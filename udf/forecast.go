@@ -243,6 +243,11 @@ func forecastGroup(at []int64, x []float64, o forecastOptions) (any, error) {
 		}
 		out.actual = actual
 	}
+	if reg.TooSparse {
+		out.status = string(stats.StatusTooSparse)
+		out.reason = stats.StatusReason(stats.StatusTooSparse)
+		return forecastLayout.record(&out), nil
+	}
 	if n < 2 {
 		out.status = string(stats.StatusTooShort)
 		out.reason = stats.StatusReason(stats.StatusTooShort)
