@@ -14,6 +14,16 @@ few units in the last place apart. This script accepts a number within
 every other field, every row and every column to be identical. That still
 catches any change of method, option, package version or data, which moves
 values far more. Exit status 1 lists the first differences.
+
+arma_statsmodels.csv is the exception: its parameters are where an
+iterative optimiser stopped (Nelder-Mead, then L-BFGS, both at their
+iteration limits on a likelihood that no longer changed), so a different
+floating-point path stops elsewhere on the flat top. Measured on this
+project's machine, a fresh run against the committed file: log L equal to
+8e-15 relative, the parameters and forecasts that follow from them up to
+3.8e-7 of max(1, |value|) apart (an intercept). That file is compared to
+1e-6 of max(1, |value|); plumb's own check against it
+(stats TestFitARMAAgainstReference) is looser still, 1e-5.
 """
 import csv
 import math
@@ -22,8 +32,11 @@ import sys
 
 REL, ABS = 1e-7, 1e-12
 
+# files of optimiser output: (relative, absolute) tolerance
+LOOSE = {"arma_statsmodels.csv": (1e-6, 1e-6)}
 
-def close(a, b):
+
+def close(a, b, rel=REL, tol=ABS):
     try:
         x, y = float(a), float(b)
     except ValueError:
@@ -32,7 +45,7 @@ def close(a, b):
         return math.isnan(x) and math.isnan(y)
     if math.isinf(x) or math.isinf(y):
         return x == y
-    return abs(x - y) <= max(ABS, REL * max(abs(x), abs(y)))
+    return abs(x - y) <= max(tol, rel * max(abs(x), abs(y)))
 
 
 def main(committed, fresh):
@@ -52,7 +65,8 @@ def main(committed, fresh):
             bad.append(f"{name}: {len(a)} rows committed, {len(b)} fresh")
             continue
         for i, (ra, rb) in enumerate(zip(a, b)):
-            if len(ra) != len(rb) or not all(close(x, y) for x, y in zip(ra, rb)):
+            rel, tol = LOOSE.get(name, (REL, ABS))
+            if len(ra) != len(rb) or not all(close(x, y, rel, tol) for x, y in zip(ra, rb)):
                 bad.append(f"{name} row {i + 1}:\n  committed {ra}\n  fresh     {rb}")
                 break
     for line in bad[:20]:
