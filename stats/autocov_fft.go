@@ -63,3 +63,12 @@ func fftPool(size int) *sync.Pool {
 	p, _ := ffts.LoadOrStore(size, &sync.Pool{New: func() any { return fourier.NewFFT(size) }})
 	return p.(*sync.Pool)
 }
+
+// autocovariance returns γ_j = (1/n) Σ_{t>j} e_t·e_{t-j}, the biased sample
+// autocovariance of a mean-zero series at lag j.
+func autocovariance(e []float64, j int) float64 {
+	if j >= len(e) {
+		return 0
+	}
+	return dot(e[j:], e[:len(e)-j]) / float64(len(e))
+}

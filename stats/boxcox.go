@@ -141,24 +141,6 @@ func LambdaOfChanges(x []float64, period int) (float64, Status) {
 	return guerrero(d, x, lost, m)
 }
 
-// meanSD returns the mean and the sample standard deviation (n-1 divisor).
-func meanSD(x []float64) (float64, float64) {
-	n := float64(len(x))
-	mean := 0.0
-	for _, v := range x {
-		mean += v
-	}
-	mean /= n
-	ss := 0.0
-	for _, v := range x {
-		ss += (v - mean) * (v - mean)
-	}
-	if len(x) < 2 {
-		return mean, math.NaN()
-	}
-	return mean, math.Sqrt(ss / (n - 1))
-}
-
 // minimizeOnInterval finds the minimiser of f on [a, b]: a grid of 31
 // points brackets the global minimum, then golden-section search refines it
 // to 1e-10.

@@ -18,21 +18,6 @@ type coverageCase struct {
 	logs     bool // the recipe takes logarithms (Box-Cox λ = 0)
 }
 
-// ar1 returns n values of w_t = c + φ·w_{t-1} + σ·e_t after a burn-in of
-// 200 steps from the process mean.
-func ar1(rng *rand.Rand, n int, c, phi, sigma float64) []float64 {
-	w := make([]float64, n)
-	prev := c / (1 - phi)
-	for t := -200; t < n; t++ {
-		v := c + phi*prev + sigma*rng.NormFloat64()
-		if t >= 0 {
-			w[t] = v
-		}
-		prev = v
-	}
-	return w
-}
-
 // integrate returns z with z_t = z_{t-lag} + w_t, started from start
 // (lag values).
 func integrate(w, start []float64) []float64 {

@@ -2,15 +2,6 @@ package stats
 
 import "math"
 
-// autocovariance returns γ_j = (1/n) Σ_{t>j} e_t·e_{t-j}, the biased sample
-// autocovariance of a mean-zero series at lag j.
-func autocovariance(e []float64, j int) float64 {
-	if j >= len(e) {
-		return 0
-	}
-	return dot(e[j:], e[:len(e)-j]) / float64(len(e))
-}
-
 // LongRunVariance returns the Bartlett-kernel (Newey & West 1987) estimate of
 // the long-run variance of the mean-zero series e with bandwidth l:
 //

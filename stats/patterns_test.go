@@ -62,19 +62,6 @@ func plantPanel(k pattern, n, T int, seed uint64) []plantedSeries {
 	return out
 }
 
-// ar1Noise returns n values of a zero-mean AR(1) with coefficient phi and
-// marginal standard deviation sd, started in its stationary distribution.
-func ar1Noise(rng *rand.Rand, n int, phi, sd float64) []float64 {
-	out := make([]float64, n)
-	innov := sd * math.Sqrt(1-phi*phi)
-	prev := sd * rng.NormFloat64()
-	for i := range out {
-		prev = phi*prev + innov*rng.NormFloat64()
-		out[i] = prev
-	}
-	return out
-}
-
 func plant(rng *rand.Rand, k pattern, T int) plantedSeries {
 	s := plantedSeries{kind: k, period: 7}
 	x := make([]float64, T)

@@ -110,9 +110,18 @@ func poissonQuantile(mu, q float64) int {
 
 // meanSE returns the mean of v and its standard error.
 func meanSE(v []float64) (float64, float64) {
-	m, sd := meanSD(v)
+	n := float64(len(v))
+	m := 0.0
+	for _, x := range v {
+		m += x
+	}
+	m /= n
 	if len(v) < 2 {
 		return m, math.NaN()
 	}
-	return m, sd / math.Sqrt(float64(len(v)))
+	ss := 0.0
+	for _, x := range v {
+		ss += (x - m) * (x - m)
+	}
+	return m, math.Sqrt(ss/(n-1)) / math.Sqrt(n)
 }

@@ -24,3 +24,49 @@ func testSeries(rng *rand.Rand, n, kind int) []float64 {
 	}
 	return x
 }
+
+func randomWalk(n int, seed uint64) []float64 {
+	rng := rand.New(rand.NewPCG(seed, 1))
+	x := make([]float64, n)
+	w := 0.0
+	for i := range x {
+		w += rng.NormFloat64()
+		x[i] = w
+	}
+	return x
+}
+
+func abs(a int) int {
+	if a < 0 {
+		return -a
+	}
+	return a
+}
+
+// ar1Noise returns n values of a zero-mean AR(1) with coefficient phi and
+// marginal standard deviation sd, started in its stationary distribution.
+func ar1Noise(rng *rand.Rand, n int, phi, sd float64) []float64 {
+	out := make([]float64, n)
+	innov := sd * math.Sqrt(1-phi*phi)
+	prev := sd * rng.NormFloat64()
+	for i := range out {
+		prev = phi*prev + innov*rng.NormFloat64()
+		out[i] = prev
+	}
+	return out
+}
+
+// ar1 returns n values of w_t = c + φ·w_{t-1} + σ·e_t after a burn-in of
+// 200 steps from the process mean.
+func ar1(rng *rand.Rand, n int, c, phi, sigma float64) []float64 {
+	w := make([]float64, n)
+	prev := c / (1 - phi)
+	for t := -200; t < n; t++ {
+		v := c + phi*prev + sigma*rng.NormFloat64()
+		if t >= 0 {
+			w[t] = v
+		}
+		prev = v
+	}
+	return w
+}

@@ -506,15 +506,6 @@ func leftViolations(j judgement, alpha float64) ([]Violation, error) {
 	return out, nil
 }
 
-// minimum returns the smallest value of x.
-func minimum(x []float64) float64 {
-	m := math.Inf(1)
-	for _, v := range x {
-		m = math.Min(m, v)
-	}
-	return m
-}
-
 // needsDifference decides one step of the differencing sequence from the
 // KPSS p-value (null: stationary) and the ADF p-value (null: unit root) at
 // level alpha:

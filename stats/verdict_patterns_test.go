@@ -156,10 +156,3 @@ func TestVerdictPatterns(t *testing.T) {
 		t.Errorf("only %d of %d recipes cure their series", pooledPassed, pooledRecipes)
 	}
 }
-
-func abs(a int) int {
-	if a < 0 {
-		return -a
-	}
-	return a
-}
