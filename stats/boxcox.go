@@ -1,6 +1,9 @@
 package stats
 
-import "math"
+import (
+	"github.com/plumb-sql/plumb/stats/internal/numeric"
+	"math"
+)
 
 // BoxCox returns the Box & Cox (1964) transform of x:
 //
@@ -94,8 +97,8 @@ func guerrero(spread, level []float64, lost, m int) (float64, Status) {
 	sd := make([]float64, k)
 	for i := 0; i < k; i++ {
 		a, b := start+i*m, start+(i+1)*m
-		_, sd[i] = meanSD(spread[a:b])
-		mu[i], _ = meanSD(level[a+lost : b+lost])
+		_, sd[i] = numeric.MeanSD(spread[a:b])
+		mu[i], _ = numeric.MeanSD(level[a+lost : b+lost])
 	}
 	// r_i(λ) = s_i·exp((λ-1)·log μ_i); the logarithms are taken once.
 	logMu := make([]float64, k)
@@ -107,7 +110,7 @@ func guerrero(spread, level []float64, lost, m int) (float64, Status) {
 		for i := range r {
 			r[i] = sd[i] * math.Exp((lambda-1)*logMu[i])
 		}
-		mean, s := meanSD(r)
+		mean, s := numeric.MeanSD(r)
 		return s / mean
 	}
 	return minimizeOnInterval(cv, -1, 2), StatusOK
@@ -127,7 +130,7 @@ func LambdaOfChanges(x []float64, period int) (float64, Status) {
 	if s := checkFinite(x); s != StatusOK {
 		return math.NaN(), s
 	}
-	if minimum(x) <= 0 {
+	if numeric.Minimum(x) <= 0 {
 		return math.NaN(), StatusNonPositive
 	}
 	d, _ := Difference(x, 1, 1)

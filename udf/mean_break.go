@@ -7,6 +7,7 @@ import (
 	"github.com/duckdb/duckdb-go/v2"
 
 	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/unitroot"
 )
 
 // mean_break(series) -> STRUCT: the sup-Wald test for one break in the mean
@@ -28,13 +29,13 @@ func meanBreakFunctions(t *types) []*function {
 		result:   meanBreakLayout.info(t),
 		nullable: true,
 		eval: withSeries(func(x []float64, args []driver.Value) (any, error) {
-			r := stats.MeanBreak(x)
+			r := unitroot.MeanBreak(x)
 			return meanBreakLayout.record(&r), nil
 		}),
 	}}
 }
 
-type meanBreakResult = stats.MeanBreakResult
+type meanBreakResult = unitroot.MeanBreakResult
 
 // meanBreakLayout is mean_break's STRUCT: NULL numbers unless the status
 // is ok.

@@ -7,6 +7,7 @@ import (
 	"github.com/duckdb/duckdb-go/v2"
 
 	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/verdict"
 )
 
 // The maths: stats.Outliers (stats/outliers.go).
@@ -35,7 +36,7 @@ func outlierPositionsFunctions(t *types) []*function {
 			if stats.CheckFinite(x) != stats.StatusOK {
 				return nil, nil
 			}
-			o := stats.Outliers(x, stats.OutlierOptions{Period: period})
+			o := verdict.Outliers(x, verdict.OutlierOptions{Period: period})
 			out := make([]any, len(o.Positions))
 			for i, p := range o.Positions {
 				out[i] = int64(p + 1)

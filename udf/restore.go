@@ -10,7 +10,7 @@ import (
 
 	"github.com/duckdb/duckdb-go/v2"
 
-	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/verdict"
 )
 
 // restore(source, recipes, by, at, value, anchor) (udf/sql/restore.sql): source holds
@@ -93,8 +93,8 @@ func unflatten(flat []float64, lags []int) ([][]float64, error) {
 // recipeFromColumns rebuilds a stats.Recipe from its stored columns, in
 // plumb_restore's argument order from box_cox_lambda (args[0]) to n
 // (args[11]).
-func recipeFromColumns(args []driver.Value) (stats.Recipe, error) {
-	r := stats.Recipe{}
+func recipeFromColumns(args []driver.Value) (verdict.Recipe, error) {
+	r := verdict.Recipe{}
 	var err error
 	if args[0] != nil {
 		r.BoxCox, r.Lambda = true, args[0].(float64)

@@ -7,6 +7,7 @@ import (
 	"github.com/duckdb/duckdb-go/v2"
 
 	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/verdict"
 )
 
 // seasonality(series, period := NULL) -> STRUCT: the period (given or
@@ -31,7 +32,7 @@ func seasonalityFunctions(t *types) []*function {
 			if err != nil {
 				return nil, err
 			}
-			r, err := stats.Seasonality(x, stats.SeasonalityOptions{Period: period})
+			r, err := verdict.Seasonality(x, verdict.SeasonalityOptions{Period: period})
 			if err != nil {
 				return nil, err
 			}
@@ -40,7 +41,7 @@ func seasonalityFunctions(t *types) []*function {
 	}}
 }
 
-type seasonalityResult = stats.SeasonalityResult
+type seasonalityResult = verdict.SeasonalityResult
 
 // seasonalityLayout is seasonality's STRUCT: the strengths are NULL unless
 // the status is ok, the OCSB fields unless the OCSB test ran.

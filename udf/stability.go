@@ -7,6 +7,7 @@ import (
 	"github.com/duckdb/duckdb-go/v2"
 
 	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/verdict"
 )
 
 // stability(series, segments := NULL) -> STRUCT: the series' mean and
@@ -30,7 +31,7 @@ func stabilityFunctions(t *types) []*function {
 			if err != nil {
 				return nil, err
 			}
-			r, err := stats.Stability(x, stats.StabilityOptions{Segments: segments})
+			r, err := verdict.Stability(x, verdict.StabilityOptions{Segments: segments})
 			if err != nil {
 				return nil, err
 			}
@@ -39,7 +40,7 @@ func stabilityFunctions(t *types) []*function {
 	}}
 }
 
-type stabilityResult = stats.StabilityResult
+type stabilityResult = verdict.StabilityResult
 
 // stabilityLayout is stability's STRUCT; every number is NULL unless the
 // status is ok.

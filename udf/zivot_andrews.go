@@ -9,6 +9,7 @@ import (
 
 	"github.com/plumb-sql/plumb/stats"
 	"github.com/plumb-sql/plumb/stats/defaults"
+	"github.com/plumb-sql/plumb/stats/unitroot"
 )
 
 // The maths: stats.ZivotAndrews (stats/zivot_andrews*.go).
@@ -34,14 +35,14 @@ func zivotAndrewsFunctions(t *types) []*function {
 		result:   zivotAndrewsLayout.info(t),
 		nullable: true,
 		eval: withSeries(func(x []float64, args []driver.Value) (any, error) {
-			o := stats.ZivotAndrewsOptions{Break: stats.BreakKind(defaults.BreakKind), LagRule: stats.LagRule(defaults.LagRule)}
+			o := unitroot.ZivotAndrewsOptions{Break: unitroot.BreakKind(defaults.BreakKind), LagRule: unitroot.LagRule(defaults.LagRule)}
 			var err error
 			if args[1] != nil {
 				s, err := text(args[1], "kind")
 				if err != nil {
 					return nil, err
 				}
-				o.Break = stats.BreakKind(s)
+				o.Break = unitroot.BreakKind(s)
 			}
 			if o.MaxLag, err = optionalInt(args[2], "lags"); err != nil {
 				return nil, err
@@ -54,12 +55,12 @@ func zivotAndrewsFunctions(t *types) []*function {
 				if err != nil {
 					return nil, err
 				}
-				o.LagRule = stats.LagRule(s)
+				o.LagRule = unitroot.LagRule(s)
 			}
 			if o.Trim, err = trimmingArg(args[4]); err != nil {
 				return nil, err
 			}
-			r, err := stats.ZivotAndrews(x, o)
+			r, err := unitroot.ZivotAndrews(x, o)
 			if err != nil {
 				return nil, err
 			}
@@ -68,7 +69,7 @@ func zivotAndrewsFunctions(t *types) []*function {
 	}}
 }
 
-type zivotAndrewsResult = stats.ZivotAndrewsResult
+type zivotAndrewsResult = unitroot.ZivotAndrewsResult
 
 // zivotAndrewsLayout is zivot_andrews' STRUCT, ordered as unit_root's:
 // what was tested, the evidence, how it was computed. NULL numbers unless
