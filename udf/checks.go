@@ -112,7 +112,7 @@ func whiteNoiseArgs(lagsArg, fittedArg driver.Value) (int, int, error) {
 
 // trimmingArg reads zivot_andrews' trimming: NULL is the default,
 // anything else must lie in the range plumb's p-value table covers
-// (stats.CheckBreakTrim).
+// (unitroot.CheckBreakTrim).
 func trimmingArg(v driver.Value) (float64, error) {
 	if v == nil {
 		return unitroot.DefaultBreakTrim, nil

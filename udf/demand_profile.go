@@ -13,7 +13,7 @@ import (
 // demand_profile(series) -> STRUCT(zero_share, average_interval,
 // size_variation, demand_class); a series with a missing value gives NULL.
 //
-// The maths: stats.Demand (stats/demand.go).
+// The maths: verdict.Demand (stats/verdict/demand.go).
 
 //go:embed sql/demand_profile.sql
 var demandProfileMacros string

@@ -14,7 +14,7 @@ import (
 	"github.com/plumb-sql/plumb/stats/verdict"
 )
 
-// The maths: stats.Regularize and stats.Stationarity (stats/gaps.go, stats/verdict*.go), stats.BenjaminiHochberg (stats/fdr.go); the SQL in diagnoseSQL, batches.go and series.go.
+// The maths: stats.Regularize and verdict.Stationarity (stats/gaps.go, stats/verdict/verdict*.go), stats.BenjaminiHochberg (stats/fdr.go); the SQL in diagnoseSQL, batches.go and series.go.
 
 //go:embed sql/diagnose.sql
 var diagnoseMacros string
@@ -26,7 +26,7 @@ var diagnoseMacros string
 //
 // which returns one row per group: the group columns; n, first_at, last_at,
 // gaps (time points missing from the group's usual step), missing (NULL
-// values), status; the verdict of stats.Stationarity with the tests behind
+// values), status; the verdict of verdict.Stationarity with the tests behind
 // it; the Ljung-Box p-value of the series after its recommended transform;
 // Benjamini-Hochberg q-values across all groups for each test's p-value;
 // and rank, 1 for the group furthest from stationary.

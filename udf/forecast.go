@@ -16,13 +16,13 @@ import (
 	"github.com/plumb-sql/plumb/stats/verdict"
 )
 
-// The maths: stats.ForecastByRecipe (stats/forecast_recipe.go, stats/forecast.go, stats/ar.go, stats/accuracy.go).
+// The maths: forecast.ForecastByRecipe (stats/forecast/forecast_recipe.go, stats/forecast/forecast.go, stats/forecast/ar.go, stats/forecast/accuracy.go).
 
 //go:embed sql/forecast.sql
 var forecastMacros string
 
 // forecastFunctions provides two table functions that forecast every group
-// through its own recipe (stats.ForecastByRecipe):
+// through its own recipe (forecast.ForecastByRecipe):
 //
 //	forecast(source, by, at, value, horizon, coverage, period, alpha, fill, holdout, point)
 //	    (the defaults in udf/sql/forecast.sql, from package defaults)
@@ -38,7 +38,7 @@ var forecastMacros string
 //	forecast_models(same arguments)
 //	    one row per group: the recipe and the model behind the forecasts,
 //	    chosen by AICc among ARMA models fitted by exact likelihood and the
-//	    least-squares autoregression (stats.ChooseARMA): its orders
+//	    least-squares autoregression (forecast.ChooseARMA): its orders
 //	    (ar_order, ma_order, seasonal_ar_order, seasonal_ma_order at
 //	    seasonal_period), constant, coefficients, residual variance, observations
 //	    (values of the stationary series), log_likelihood, aic, aicc, how it
@@ -326,7 +326,7 @@ type forecastRow struct {
 	seasonalDifferences, differences, arOrder, arConstant               any
 	arCoefficients, residualVariance, observations, aic, ljungBox, mase any
 	intervalCoverage                                                    any
-	// the rest of the chosen model (stats.ChooseARMA)
+	// the rest of the chosen model (forecast.ChooseARMA)
 	maOrder, seasonalAROrder, seasonalMAOrder, seasonalPeriod                any
 	maCoefficients, seasonalARCoefficients, seasonalMACoefficients, modelFit any
 	logLikelihood, aicc                                                      any

@@ -31,7 +31,7 @@ func armaDatasets(t *testing.T, db *sql.DB) map[string][]float64 {
 }
 
 // TestForecastModelsARMA: forecast_models reports the model
-// stats.ForecastByRecipe chose (orders, coefficients, likelihood, how it
+// forecast.ForecastByRecipe chose (orders, coefficients, likelihood, how it
 // was fitted), with period := 1 declaring a series non-seasonal, and mase
 // scaled at the lag of the period passed.
 func TestForecastModelsARMA(t *testing.T) {

@@ -10,7 +10,7 @@ import (
 	"github.com/plumb-sql/plumb/stats/verdict"
 )
 
-// TestForecastSQL: forecast's rows equal stats.ForecastByRecipe on the same
+// TestForecastSQL: forecast's rows equal forecast.ForecastByRecipe on the same
 // series (the verdict's recipe, fitted on the series it judged), continue
 // each group's own time axis in the at column's type, and forecast_models
 // reports the model behind them.

@@ -14,8 +14,8 @@ import (
 // of a stationary series, its date (break_at, the 1-based position of the
 // first value after it) and size.
 //
-// The maths: stats.MeanBreak (stats/meanbreak.go, stats/meanbreak_table.go,
-// stats/segment_wald.go).
+// The maths: unitroot.MeanBreak (stats/unitroot/meanbreak.go, stats/unitroot/meanbreak_table.go,
+// stats/unitroot/longrun_prewhite.go).
 
 //go:embed sql/mean_break.sql
 var meanBreakMacros string

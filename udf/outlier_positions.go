@@ -10,12 +10,12 @@ import (
 	"github.com/plumb-sql/plumb/stats/verdict"
 )
 
-// The maths: stats.Outliers (stats/outliers.go).
+// The maths: verdict.Outliers (stats/verdict/outliers.go).
 
 //go:embed sql/outlier_positions.sql
 var outlierPositionsMacros string
 
-// outlierPositionsFunctions wraps stats.Outliers:
+// outlierPositionsFunctions wraps verdict.Outliers:
 //
 //	outlier_positions(series, period := NULL) -> BIGINT[], the 1-based
 //	    positions of the isolated outliers the verdict sets aside

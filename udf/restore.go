@@ -21,7 +21,7 @@ import (
 // first). Returns the group columns, at and value in original units (NULL
 // for a group with no recipe).
 //
-// The maths: stats.Recipe's Restore and RestoreForecast (stats/recipe.go).
+// The maths: verdict.Recipe's Restore and RestoreForecast (stats/verdict/recipe.go).
 
 //go:embed sql/restore.sql
 var restoreMacros string
@@ -90,7 +90,7 @@ func unflatten(flat []float64, lags []int) ([][]float64, error) {
 	return out, nil
 }
 
-// recipeFromColumns rebuilds a stats.Recipe from its stored columns, in
+// recipeFromColumns rebuilds a verdict.Recipe from its stored columns, in
 // plumb_restore's argument order from box_cox_lambda (args[0]) to n
 // (args[11]).
 func recipeFromColumns(args []driver.Value) (verdict.Recipe, error) {
@@ -153,7 +153,7 @@ func recipeFromColumns(args []driver.Value) (verdict.Recipe, error) {
 	return r, nil
 }
 
-// restoreGroup rebuilds a stats.Recipe from its stored columns and restores
+// restoreGroup rebuilds a verdict.Recipe from its stored columns and restores
 // one group's values.
 func restoreGroup(args []driver.Value) (any, error) {
 	y, err := floats(args[0])

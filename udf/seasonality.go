@@ -13,8 +13,8 @@ import (
 // seasonality(series, period := NULL) -> STRUCT: the period (given or
 // detected), the STL strengths and the OCSB seasonal unit-root test.
 //
-// The maths: stats.Seasonality (stats/seasonality.go, stats/stl.go,
-// stats/ocsb.go).
+// The maths: verdict.Seasonality (stats/verdict/seasonality.go, stats/verdict/stl.go,
+// stats/unitroot/ocsb.go).
 
 //go:embed sql/seasonality.sql
 var seasonalityMacros string

@@ -13,7 +13,7 @@ import (
 // stability(series, segments := NULL) -> STRUCT: the series' mean and
 // spread compared across segments, with the trend and ARCH tests.
 //
-// The maths: stats.Stability (stats/stability.go).
+// The maths: verdict.Stability (stats/verdict/stability.go).
 
 //go:embed sql/stability.sql
 var stabilityMacros string

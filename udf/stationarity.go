@@ -16,8 +16,8 @@ import (
 // verdict on one series, the three conditions, their causes, the recipe
 // that cures them and whether it does, a reason and a score.
 //
-// The maths: stats.Stationarity (stats/verdict.go, stats/verdict_judge.go,
-// stats/verdict_reason.go, stats/recipe.go).
+// The maths: verdict.Stationarity (stats/verdict/verdict.go, stats/verdict/verdict_judge.go,
+// stats/verdict/verdict_reason.go, stats/verdict/recipe.go).
 
 //go:embed sql/stationarity.sql
 var stationarityMacros string

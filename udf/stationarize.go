@@ -12,7 +12,7 @@ import (
 	"github.com/plumb-sql/plumb/stats/verdict"
 )
 
-// The maths: stats.Stationarity and stats.Recipe (stats/verdict.go, stats/recipe.go).
+// The maths: verdict.Stationarity and verdict.Recipe (stats/verdict/verdict.go, stats/verdict/recipe.go).
 
 //go:embed sql/stationarize.sql
 var stationarizeMacros string
@@ -26,7 +26,7 @@ var stationarizeMacros string
 //	    first D·period + d rows have none (NULL).
 //	stationarize_recipes(source, by, at, value, period, alpha)
 //	    one row per group: the group columns, n, last_at, step, status, and
-//	    the recipe (see stats.Recipe): box_cox_lambda (NULL for none),
+//	    the recipe (see verdict.Recipe): box_cox_lambda (NULL for none),
 //	    period, seasonal_means (NULL for none), seasonal_differences,
 //	    trend_intercept and trend_slope (NULL for none), shift_position,
 //	    shift_at and shift_size (NULL for none), differences, and the

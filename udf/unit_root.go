@@ -12,13 +12,13 @@ import (
 	"github.com/plumb-sql/plumb/stats/unitroot"
 )
 
-// The maths: stats.ADF, stats.KPSS, stats.PhillipsPerron and stats.DFGLS (stats/adf.go, stats/kpss.go, stats/pp.go, stats/dfgls.go; p-values in stats/mackinnon.go, stats/kpss_limit.go, stats/dfgls_table.go).
+// The maths: unitroot.ADF, unitroot.KPSS, unitroot.PhillipsPerron and unitroot.DFGLS (stats/unitroot/adf.go, stats/unitroot/kpss.go, stats/unitroot/pp.go, stats/unitroot/dfgls.go; p-values in stats/unitroot/mackinnon.go, stats/unitroot/kpss_limit.go, stats/unitroot/dfgls_table.go).
 
 //go:embed sql/unit_root.sql
 var unitRootMacros string
 
-// unitRootFunctions wraps stats.ADF, stats.KPSS, stats.PhillipsPerron and
-// stats.DFGLS:
+// unitRootFunctions wraps unitroot.ADF, unitroot.KPSS, unitroot.PhillipsPerron and
+// unitroot.DFGLS:
 //
 //	unit_root(series, method, deterministic, lags, lag_rule) (defaults in udf/sql/unit_root.sql)
 //

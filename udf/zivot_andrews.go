@@ -12,7 +12,7 @@ import (
 	"github.com/plumb-sql/plumb/stats/unitroot"
 )
 
-// The maths: stats.ZivotAndrews (stats/zivot_andrews*.go).
+// The maths: unitroot.ZivotAndrews (stats/unitroot/zivot_andrews*.go).
 
 //go:embed sql/zivot_andrews.sql
 var zivotAndrewsMacros string
@@ -20,7 +20,7 @@ var zivotAndrewsMacros string
 // zivotAndrewsFunctions wraps the Zivot-Andrews test:
 //
 //	zivot_andrews(series, kind, lags, lag_rule, trimming) -> STRUCT (defaults in udf/sql/zivot_andrews.sql)
-//	    stats.ZivotAndrews: a unit root against a trend-stationary series
+//	    unitroot.ZivotAndrews: a unit root against a trend-stationary series
 //	    whose level, slope or both (kind: level, slope, level_and_slope)
 //	    break once; break_at is the 1-based position of the first
 //	    observation after the break. Fields as unit_root's: what was tested,

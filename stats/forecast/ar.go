@@ -15,7 +15,7 @@ import (
 // (the conditional maximum-likelihood estimate; Box, Jenkins & Reinsel,
 // Time Series Analysis, §7.1). With these conventions it equals
 // python3-statsmodels 0.13.5's AutoReg(w, lags=p, trend="c")
-// (stats/forecast_reference_test.go).
+// (stats/forecast/forecast_reference_test.go).
 type ARModel struct {
 	// Order is p, the number of lagged values.
 	Order int

@@ -20,7 +20,7 @@ import (
 // recipe, model, forecast). They are long (about ten minutes on two
 // cores) and run only with the long tests (stats/longtests):
 //
-//	PLUMB_LONG_TESTS=1 go test ./stats -run 'TestARMAPanel' -v -timeout 1h
+//	PLUMB_LONG_TESTS=1 go test ./stats/forecast -run 'TestARMAPanel' -v -timeout 1h
 //
 // The README's tables come from that run; the tests check nothing beyond
 // that every series gets a forecast, so that a change in the numbers is

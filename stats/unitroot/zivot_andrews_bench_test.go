@@ -12,7 +12,7 @@ import (
 // the mode the verdict uses, and python3-statsmodels' own) and with 12
 // fixed lags (no search, a wider scan: each row costs (lags+4)²/2).
 //
-//	flock /work/bench.lock go test ./stats -run XXX -bench ZivotAndrews
+//	flock /work/bench.lock go test ./stats/unitroot -run XXX -bench ZivotAndrews
 func BenchmarkZivotAndrews(b *testing.B) {
 	twelve := 12
 	for _, T := range []int{730, 1000} {

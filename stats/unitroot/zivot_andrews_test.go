@@ -290,7 +290,7 @@ func TestZivotAndrewsTableMatchesPaper(t *testing.T) {
 // an ok result has a finite statistic, a p-value in [0.001, 0.999] and a
 // break date inside the series.
 //
-//	go test ./stats -run XXX -fuzz FuzzZivotAndrews -fuzztime 60s
+//	go test ./stats/unitroot -run XXX -fuzz FuzzZivotAndrews -fuzztime 60s
 func FuzzZivotAndrews(f *testing.F) {
 	f.Add([]byte{1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12, 13, 14, 15, 16, 17, 18, 19, 20, 21, 22, 23, 24, 25, 26, 27, 28, 29, 30, 31, 32, 33, 34, 35, 36, 37, 38, 39, 40})
 	f.Add([]byte{0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 1, 0, 1, 0, 1, 0, 1, 0, 1, 0, 1})

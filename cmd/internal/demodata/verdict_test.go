@@ -9,7 +9,7 @@ import (
 	"github.com/plumb-sql/plumb/stats/verdict"
 )
 
-// TestVerdictFindsPlantedBehaviour runs stats.Stationarity on every series
+// TestVerdictFindsPlantedBehaviour runs verdict.Stationarity on every series
 // of the demo for seeds 1-3 (378 series, 63 of each planted kind) and
 // prints the confusion table of planted kind against verdict and cause. The
 // targets, at α = 0.05: random walks get a unit root and d ≥ 1 in at least
@@ -24,7 +24,7 @@ import (
 // judged stationary.
 //
 // It runs with the period given (7 for shops, 24 for containers) and with
-// the period detected among stats.DefaultPeriods.
+// the period detected among verdict.DefaultPeriods.
 func TestVerdictFindsPlantedBehaviour(t *testing.T) {
 	for _, detect := range []bool{false, true} {
 		t.Run(fmt.Sprintf("detect=%v", detect), func(t *testing.T) { verdictConfusion(t, detect) })

@@ -16,7 +16,7 @@ import (
 )
 
 // groupSeries is one group's values and what its verdict does with them.
-// The verdict is recomputed in Go (stats.Stationarity with diagnose's
+// The verdict is recomputed in Go (verdict.Stationarity with diagnose's
 // period and level, as the report does), which gives the recipe, the
 // outliers' positions, the transformed series and the forecasts.
 type groupSeries struct {
@@ -124,7 +124,7 @@ func xText(a report.Axis, x float64) string {
 }
 
 // recipeSteps says the recipe's steps in words, in the order applied
-// (stats.Recipe).
+// (verdict.Recipe).
 func recipeSteps(rec verdict.Recipe, x report.Axis) []string {
 	var out []string
 	if rec.BoxCox {

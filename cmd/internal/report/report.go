@@ -216,7 +216,7 @@ func panels(ctx context.Context, conn *sql.Conn, table string, spec diagnosis.Sp
 }
 
 // drawPanel makes the three pictures of one group. The transformed series
-// is the group's own recipe (stats.Stationarity with diagnose's period and
+// is the group's own recipe (verdict.Stationarity with diagnose's period and
 // level) applied to its values; a group with missing values, which diagnose
 // may have filled, gets none.
 func drawPanel(p *Panel, spec diagnosis.Spec, atList, valueList any, period sql.NullInt64) error {

@@ -15,9 +15,9 @@ import (
 // (pvalue_calibration_test.go, segment_wald_test.go, dfgls_test.go). Their
 // sizes depend on the run:
 //
-//	go test ./stats -run 'Uniform|MixedPanels|Grid' -v              # CI size
-//	go test ./stats -run 'Uniform|MixedPanels|Grid' -short -v       # quick
-//	PLUMB_FULL_SIMULATIONS=1 go test ./stats -run 'Uniform|MixedPanels|Grid' -v -timeout 1h
+//	go test ./stats/verdict ./stats/unitroot -run 'Uniform|MixedPanels|Grid' -v          # CI size
+//	go test ./stats/verdict ./stats/unitroot -run 'Uniform|MixedPanels|Grid' -short -v   # quick
+//	PLUMB_FULL_SIMULATIONS=1 go test ./stats/verdict ./stats/unitroot -run 'Uniform|MixedPanels|Grid' -v -timeout 1h
 //
 // The full run is the one the README's tables come from.
 
