@@ -16,7 +16,7 @@ const (
 	StatusConstant Status = "constant"
 	// StatusNonFinite means the series holds NaN or ±Inf (SQL NULLs arrive
 	// as NaN), which no test here accepts; for the verdict also values so
-	// large that the sum of their squares overflows (tooLarge), or a number
+	// large that the sum of their squares overflows (numeric.TooLarge), or a number
 	// it needs that could not be computed: such numbers are a status, never
 	// a verdict.
 	StatusNonFinite Status = "non_finite"

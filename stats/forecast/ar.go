@@ -88,7 +88,7 @@ func DefaultMaxAROrder(n, period int) int {
 //
 // The search factors the cross-product matrix of the widest design once
 // (Cholesky); every nested model's residual sum of squares follows from that
-// one factor (see nestedLS). The cross products are built from lagged dot
+// one factor (see numeric.NestedLS). The cross products are built from lagged dot
 // products, since every column is a shift of w.
 func FitAR(w []float64, opts AROptions) (ARModel, error) {
 	rule, err := opts.Rule.Normalize()
@@ -323,7 +323,7 @@ func (d *arDesign) fit(p int) ARModel {
 }
 
 // solveNormal solves the normal equations of order p through a Cholesky
-// factor of the column-scaled cross products (nestedLS.factorCross, which
+// factor of the column-scaled cross products (numeric.NestedLS.FactorCross, which
 // leaves the factor L in mat): Lᵀβ = z in scaled coordinates, then each
 // coefficient is rescaled by its column's norm.
 func (d *arDesign) solveNormal(p int) ([]float64, bool) {
@@ -366,7 +366,7 @@ func (d *arDesign) solveNormal(p int) ([]float64, bool) {
 const nearSingularPivot = 1e-4
 
 // columns returns the design [1, w_{t-1}, ..., w_{t-p}] and the response
-// w_t over t = start..n-1, as fresh slices (nestedLS.factor overwrites them).
+// w_t over t = start..n-1, as fresh slices (NestedLS.Factor overwrites them).
 func (d *arDesign) columns(p, start int) ([][]float64, []float64) {
 	w := d.w
 	N := len(w) - start
@@ -382,7 +382,7 @@ func (d *arDesign) columns(p, start int) ([][]float64, []float64) {
 }
 
 // solveQR fits order p by a Householder QR of the design [1, lags] and back
-// substitution: R β = Qᵀy, R's upper part being what nestedLS.factor leaves
+// substitution: R β = Qᵀy, R's upper part being what NestedLS.Factor leaves
 // above the diagonal of each column.
 func (d *arDesign) solveQR(p int) ([]float64, bool) {
 	k := p + 1

@@ -32,7 +32,7 @@ type ADFOptions struct {
 // by least squares and reports the t-statistic of γ. Under the lag rules AIC,
 // BIC and drop_insignificant every k from 0 to MaxLag is fitted on one common sample
 // (t = MaxLag+2..T), all from one factorisation of the widest design (see
-// nestedLS and factorGram), so their criteria are comparable; the chosen k is then re-fitted
+// numeric.NestedLS and its FactorGram), so their criteria are comparable; the chosen k is then re-fitted
 // on its own longest sample unless SameSample is set. AIC is
 // n·log(SSR/n) + 2m and BIC n·log(SSR/n) + m·log(n) for m regressors.
 //

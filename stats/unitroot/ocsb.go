@@ -118,7 +118,7 @@ func ocsbStatistic(y []float64, s, maxLag int) (float64, int, int, bool) {
 	start := s + 1 + maxLag
 	cols, dep := build(start, maxLag, false)
 	// The search only compares nested models: the cross products' Cholesky
-	// factor gives every SSR (factorGram); a nearly dependent design goes
+	// factor gives every SSR (NestedLS.FactorGram); a nearly dependent design goes
 	// to Householder QR (the final fit always does).
 	var ls numeric.NestedLS
 	ls.FactorGram(cols, dep)

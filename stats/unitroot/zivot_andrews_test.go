@@ -10,7 +10,7 @@ import (
 )
 
 // directBreakT fits the Zivot-Andrews regression at one break date by a
-// Householder QR of the explicit design (nestedLS.factor, level last) and
+// Householder QR of the explicit design (NestedLS.Factor, level last) and
 // returns the t-statistic of the lagged level: the slow way breakScan avoids.
 func directBreakT(x []float64, lags int, kind BreakKind, b int) float64 {
 	T := len(x)

@@ -324,7 +324,7 @@ func strength(component, rem []float64) float64 {
 		ss += d * d
 	}
 	_, sr := numeric.MeanSD(rem)
-	// meanSD divides by n - 1; so does this ratio's denominator.
+	// numeric.MeanSD divides by n - 1; so does this ratio's denominator.
 	ss /= float64(len(rem) - 1)
 	if ss == 0 {
 		return 0

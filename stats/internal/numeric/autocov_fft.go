@@ -25,7 +25,7 @@ func Autocovariances(e []float64, maxLag int) []float64 {
 	// Direct sums cost about maxLag·n; two real FFTs about 10·size·log2(size)
 	// (measured on this machine); take the cheaper.
 	if maxLag*n <= 10*size*logSize {
-		// Σ_{t≥j} e_t·e_{t-j}: lagDots gives the terms with t ≥ maxLag for
+		// Σ_{t≥j} e_t·e_{t-j}: LagDots gives the terms with t ≥ maxLag for
 		// every lag at once; the few earlier ones are added directly.
 		LagDots(e[maxLag:], e, out)
 		for j := range out {

@@ -7,7 +7,7 @@ import (
 	"testing"
 )
 
-// TestLagDots checks lagDots against one dot product per lag, for lengths
+// TestLagDots checks LagDots against one dot product per lag, for lengths
 // odd and even and lag counts below, at and above a multiple of four.
 func TestLagDots(t *testing.T) {
 	rng := rand.New(rand.NewPCG(7, 8))
@@ -37,7 +37,7 @@ func TestLagDots(t *testing.T) {
 }
 
 // BenchmarkLagDots: 22 lags of a series of 1,000, as in ADF's lag search,
-// by lagDots and by one dot product per lag.
+// by LagDots and by one dot product per lag.
 func BenchmarkLagDots(b *testing.B) {
 	x := testseries.RandomWalk(1022, 2)
 	a := x[21:]

@@ -43,7 +43,7 @@ func GetZeroed(n int) []float64 {
 func PutScratch(s []float64) {
 	c := cap(s)
 	if c == 0 || c&(c-1) != 0 || bits.Len(uint(c))-1 >= len(scratchClasses) {
-		return // not from getScratch
+		return // not from GetScratch
 	}
 	s = s[:c]
 	scratchClasses[bits.Len(uint(c))-1].Put(&s)
