@@ -108,9 +108,9 @@ func TestMacroDefaultsFromTable(t *testing.T) {
 var mathsPath = regexp.MustCompile(`stats/[a-z_/]+\*?\.go`)
 
 // TestMathsLinesNameFilesThatExist checks each family's line saying where
-// its mathematics lives (DEVELOPERS.md, "How a SQL function is built"): it
-// is there, and every file it names exists, so that moving the mathematics
-// cannot leave the line pointing at nothing.
+// its mathematics lives (DEVELOPERS.md, "How a SQL function is built"):
+// every file it names exists, so that moving the mathematics cannot leave
+// the line pointing at nothing.
 func TestMathsLinesNameFilesThatExist(t *testing.T) {
 	for _, f := range families {
 		text, err := os.ReadFile(f.name + ".go")
@@ -119,8 +119,7 @@ func TestMathsLinesNameFilesThatExist(t *testing.T) {
 		}
 		_, after, found := strings.Cut(string(text), "// The maths:")
 		if !found {
-			t.Errorf("%s.go has no line \"// The maths: ...\"", f.name)
-			continue
+			continue // a family without mathematics of its own (batches, columns)
 		}
 		var block strings.Builder
 		for i, line := range strings.Split(after, "\n") {
