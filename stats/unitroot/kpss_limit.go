@@ -70,7 +70,7 @@ var (
 )
 
 // kpssLimitFor returns the distribution for d (level or level_and_slope), building
-// the tables once (6 to 17 ms on this project's machine).
+// the tables once per process (their cost is in DEVELOPERS.md, "P-value tables").
 func kpssLimitFor(d Deterministic) *kpssLimit {
 	kpssLimitsOnce.Do(func() {
 		level := &kpssLimit{eigen: levelEigenvalues(kpssEigenCount), det: levelDeterminant, x0: 0.004, step: 0.02}

@@ -9,7 +9,8 @@ import (
 // TestPPAgainstTseries compares Z(τ) with r-cran-tseries 0.10-53,
 // pp.test(x, type = "Z(t_alpha)", lshort = TRUE) (constant and trend,
 // bandwidth trunc(4·(n/100)^(1/4))), in testdata/reference/unit_root_r.csv,
-// within 1e-6 relative on all 209 series (measured: 7e-12).
+// within 1e-6 relative on all 209 series (the test logs the largest
+// difference; DEVELOPERS.md, "P-value calibration", has what it was).
 //
 // Known gap: r-cran-urca 1.3-3's ur.pp values (also in unit_root_r.csv)
 // differ from both by up to 18% in the trend model, and its use.lag = 0 is

@@ -397,9 +397,9 @@ func medianInPlace(s []float64) float64 {
 // with no larger value before it and no smaller after, and returns it.
 //
 // Quickselect with a median-of-three pivot and Lomuto's partition written
-// without a branch on the data: on fresh random segments of 100 values it
-// took 0.45 µs where Hoare's branching partition took 1.4 µs, the branch
-// predictor failing half the time (BenchmarkSelectKth). Values equal to
+// without a branch on the data: on fresh segments a branching partition
+// makes the branch predictor fail about half the time (DEVELOPERS.md,
+// "Branches on data", has what BenchmarkSelectKth measured). Values equal to
 // the pivot are gathered next to it in a second such pass, so that long
 // runs of one value (a stretch of zero sales) keep the work linear.
 func selectKth(s []float64, k int) float64 {

@@ -7,12 +7,12 @@ import (
 
 // Scratch slices for the hot paths.
 //
-// Diagnosing 10,000 series of 1,000 values allocated about 4 GB of
-// short-lived []float64 (ADF's prefix sums, STL's work arrays, segment
-// residuals), and the garbage collector's share of the CPU rose to a
-// quarter (DEVELOPERS.md, Performance). Functions that need a temporary
-// slice take it from a pool by size class and give it back when done;
-// nothing they return comes from the pool unless its doc comment says so.
+// The statistics need many short-lived []float64 per series (ADF's prefix
+// sums, STL's work arrays, segment residuals); allocated afresh, they keep
+// the garbage collector busy (DEVELOPERS.md, Performance notes, "Garbage",
+// has the measurement). Functions that need a temporary slice take it from
+// a pool by size class and give it back when done; nothing they return
+// comes from the pool unless its doc comment says so.
 
 // scratchClasses are pools of slices with capacity 2^c, c = 0..len-1.
 var scratchClasses [28]sync.Pool
