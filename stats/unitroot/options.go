@@ -79,6 +79,8 @@ const (
 	LagGiven LagRule = "given"
 )
 
+// Normalize returns the rule r names, LagAIC for the zero value, or an
+// error for a name that is not a lag rule.
 func (r LagRule) Normalize() (LagRule, error) {
 	switch r {
 	case "":

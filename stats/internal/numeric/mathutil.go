@@ -5,6 +5,7 @@ import (
 	"math"
 )
 
+// Sqrt is math.Sqrt and NaN math.NaN, short for the formulas that use them.
 func Sqrt(x float64) float64 { return math.Sqrt(x) }
 func NaN() float64           { return math.NaN() }
 
@@ -38,8 +39,11 @@ func ScaledInto(dst, x []float64) []float64 {
 	return dst
 }
 
+// ErrSingular reports a regression design that is numerically singular.
 var ErrSingular = Errorf("singular design")
 
+// Errorf is fmt.Errorf with the prefix "stats: " that every error of the
+// statistics packages carries.
 func Errorf(format string, args ...any) error { return fmt.Errorf("stats: "+format, args...) }
 
 // MeanSD returns the mean and the sample standard deviation (n-1 divisor).

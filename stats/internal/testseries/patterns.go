@@ -28,6 +28,7 @@ const (
 	PatTwoPeriods   Pattern = "hourly_24_168"
 )
 
+// AllPatterns lists every planted pattern.
 var AllPatterns = []Pattern{PatStationary, PatLevelShift, PatTrend, PatRandomWalk, PatLogWalk,
 	PatGrowingNoise, PatIntermittent, PatOutliers, PatFixedWeekly, patDrifting, PatTwoPeriods}
 

@@ -49,6 +49,7 @@ func ReadCSV(t testing.TB, name string) []map[string]string {
 	return out
 }
 
+// Num parses a reference file's number; "NA" and an empty field read as 0.
 func Num(t testing.TB, s string) float64 {
 	t.Helper()
 	if s == "NA" || s == "" {

@@ -25,6 +25,7 @@ func Series(rng *rand.Rand, n, kind int) []float64 {
 	return x
 }
 
+// RandomWalk returns the partial sums of n standard normal steps, seeded.
 func RandomWalk(n int, seed uint64) []float64 {
 	rng := rand.New(rand.NewPCG(seed, 1))
 	x := make([]float64, n)
@@ -36,6 +37,7 @@ func RandomWalk(n int, seed uint64) []float64 {
 	return x
 }
 
+// Abs is the absolute value of an integer.
 func Abs(a int) int {
 	if a < 0 {
 		return -a
