@@ -1,8 +1,9 @@
 package stats
 
 import (
-	"github.com/plumb-sql/plumb/stats/internal/numeric"
 	"math"
+
+	"github.com/plumb-sql/plumb/stats/internal/numeric"
 )
 
 // BoxCox returns the Box & Cox (1964) transform of x:

@@ -1,11 +1,12 @@
 package stats
 
 import (
-	"github.com/plumb-sql/plumb/stats/internal/testseries"
 	"math"
 	"math/rand/v2"
 	"slices"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats/internal/testseries"
 )
 
 func TestDifference(t *testing.T) {

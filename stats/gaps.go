@@ -1,9 +1,10 @@
 package stats
 
 import (
-	"github.com/plumb-sql/plumb/stats/internal/numeric"
 	"math"
 	"sort"
+
+	"github.com/plumb-sql/plumb/stats/internal/numeric"
 )
 
 // FillMethod says how missing time points and missing values are filled.

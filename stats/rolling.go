@@ -1,8 +1,9 @@
 package stats
 
 import (
-	"github.com/plumb-sql/plumb/stats/internal/numeric"
 	"math"
+
+	"github.com/plumb-sql/plumb/stats/internal/numeric"
 )
 
 // RollingResult holds trailing-window statistics, one value per observation;

@@ -1,9 +1,10 @@
 package forecast
 
 import (
+	"math"
+
 	"github.com/plumb-sql/plumb/stats"
 	"github.com/plumb-sql/plumb/stats/internal/numeric"
-	"math"
 )
 
 // ScaledError is the mean absolute scaled error of forecasts of a held-out

@@ -1,9 +1,10 @@
 package forecast
 
 import (
-	"github.com/plumb-sql/plumb/stats"
 	"math"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats"
 )
 
 func TestMeanAbsoluteScaledError(t *testing.T) {

@@ -1,10 +1,11 @@
 package forecast
 
 import (
+	"math"
+
 	"github.com/plumb-sql/plumb/stats"
 	"github.com/plumb-sql/plumb/stats/internal/numeric"
 	"github.com/plumb-sql/plumb/stats/unitroot"
-	"math"
 )
 
 // ARModel is an autoregressive model with a constant,

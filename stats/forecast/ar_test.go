@@ -1,11 +1,12 @@
 package forecast
 
 import (
-	"github.com/plumb-sql/plumb/stats"
-	"github.com/plumb-sql/plumb/stats/internal/testseries"
 	"math"
 	"math/rand/v2"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/internal/testseries"
 )
 
 func TestDefaultMaxAROrder(t *testing.T) {

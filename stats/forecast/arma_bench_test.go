@@ -1,9 +1,10 @@
 package forecast
 
 import (
-	"github.com/plumb-sql/plumb/stats/internal/testseries"
 	"math/rand/v2"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats/internal/testseries"
 )
 
 // BenchmarkChooseARMA: the model search on one seeded AR(1) series

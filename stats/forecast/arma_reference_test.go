@@ -1,10 +1,11 @@
 package forecast
 
 import (
-	"github.com/plumb-sql/plumb/stats"
-	"github.com/plumb-sql/plumb/stats/internal/testseries"
 	"math"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/internal/testseries"
 )
 
 // armaCase is one case of testdata/reference/arma_statsmodels.py

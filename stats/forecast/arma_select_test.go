@@ -1,10 +1,11 @@
 package forecast
 
 import (
-	"github.com/plumb-sql/plumb/stats"
 	"math"
 	"math/rand/v2"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats"
 )
 
 // maSeries returns n values of w_t = e_t + θ·e_{t-1}, seeded.

@@ -1,8 +1,9 @@
 package forecast
 
 import (
-	"github.com/plumb-sql/plumb/stats/internal/numeric"
 	"math"
+
+	"github.com/plumb-sql/plumb/stats/internal/numeric"
 )
 
 // armaStateSpace is the state-space form of a zero-mean ARMA(p, q) process

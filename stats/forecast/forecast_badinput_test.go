@@ -1,12 +1,13 @@
 package forecast
 
 import (
-	"github.com/plumb-sql/plumb/stats"
-	"github.com/plumb-sql/plumb/stats/internal/testseries"
-	"github.com/plumb-sql/plumb/stats/unitroot"
 	"math"
 	"math/rand/v2"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/internal/testseries"
+	"github.com/plumb-sql/plumb/stats/unitroot"
 )
 
 // TestForecastRejectsBadOptions: options that no series could make right

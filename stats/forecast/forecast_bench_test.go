@@ -1,10 +1,11 @@
 package forecast
 
 import (
-	"github.com/plumb-sql/plumb/stats"
-	"github.com/plumb-sql/plumb/stats/internal/testseries"
 	"math/rand/v2"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/internal/testseries"
 )
 
 // BenchmarkForecast: the order search (AIC up to the default maximum,

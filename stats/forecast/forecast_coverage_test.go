@@ -2,13 +2,14 @@ package forecast
 
 import (
 	"fmt"
-	"github.com/plumb-sql/plumb/stats"
-	"github.com/plumb-sql/plumb/stats/internal/numeric"
-	"github.com/plumb-sql/plumb/stats/internal/testseries"
 	"math"
 	"math/rand/v2"
 	"strings"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/internal/numeric"
+	"github.com/plumb-sql/plumb/stats/internal/testseries"
 )
 
 // coverageCase simulates series whose stationary part is an AR(1) and

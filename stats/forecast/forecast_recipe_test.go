@@ -2,13 +2,14 @@ package forecast
 
 import (
 	"fmt"
-	"github.com/plumb-sql/plumb/stats"
-	"github.com/plumb-sql/plumb/stats/internal/testseries"
-	"github.com/plumb-sql/plumb/stats/verdict"
 	"math"
 	"math/rand/v2"
 	"strings"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/internal/testseries"
+	"github.com/plumb-sql/plumb/stats/verdict"
 )
 
 // TestForecastByVerdictCoverage: the whole chain a user runs (the

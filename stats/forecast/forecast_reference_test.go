@@ -1,14 +1,15 @@
 package forecast
 
 import (
-	"github.com/plumb-sql/plumb/stats"
-	"github.com/plumb-sql/plumb/stats/internal/testseries"
-	"github.com/plumb-sql/plumb/stats/unitroot"
 	"math"
 	"sort"
 	"strconv"
 	"strings"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/internal/testseries"
+	"github.com/plumb-sql/plumb/stats/unitroot"
 )
 
 // forecastCase is one case of testdata/reference/forecast_statsmodels.py:

@@ -1,10 +1,11 @@
 package forecast
 
 import (
-	"github.com/plumb-sql/plumb/stats"
 	"math"
 	"math/rand/v2"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats"
 )
 
 func TestPsiWeights(t *testing.T) {

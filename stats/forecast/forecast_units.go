@@ -1,8 +1,9 @@
 package forecast
 
 import (
-	"github.com/plumb-sql/plumb/stats/internal/numeric"
 	"math"
+
+	"github.com/plumb-sql/plumb/stats/internal/numeric"
 )
 
 // BackTransform says how forecasts on the scale of z return to original

@@ -1,9 +1,10 @@
 package unitroot
 
 import (
+	"math"
+
 	"github.com/plumb-sql/plumb/stats"
 	"github.com/plumb-sql/plumb/stats/internal/numeric"
-	"math"
 )
 
 // ADFOptions configure the Augmented Dickey-Fuller test. The zero value

@@ -1,10 +1,11 @@
 package unitroot
 
 import (
-	"github.com/plumb-sql/plumb/stats"
-	"github.com/plumb-sql/plumb/stats/internal/testseries"
 	"math"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/internal/testseries"
 )
 
 // TestADFAgainstStatsmodels compares every ADF row of

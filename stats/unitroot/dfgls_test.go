@@ -1,11 +1,12 @@
 package unitroot
 
 import (
-	"github.com/plumb-sql/plumb/stats"
-	"github.com/plumb-sql/plumb/stats/internal/testseries"
 	"math"
 	"math/rand/v2"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/internal/testseries"
 )
 
 // TestDFGLSAgainstUrca compares the DF-GLS statistic with r-cran-urca 1.3-3,

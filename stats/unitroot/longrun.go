@@ -1,8 +1,9 @@
 package unitroot
 
 import (
-	"github.com/plumb-sql/plumb/stats/internal/numeric"
 	"math"
+
+	"github.com/plumb-sql/plumb/stats/internal/numeric"
 )
 
 // LongRunVariance returns the Bartlett-kernel (Newey & West 1987) estimate of

@@ -1,8 +1,9 @@
 package unitroot
 
 import (
-	"github.com/plumb-sql/plumb/stats/internal/numeric"
 	"math"
+
+	"github.com/plumb-sql/plumb/stats/internal/numeric"
 )
 
 // PrewhitenedLongRunVariance estimates the long-run variance of the

@@ -1,9 +1,10 @@
 package unitroot
 
 import (
-	"github.com/plumb-sql/plumb/stats/internal/testseries"
 	"math"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats/internal/testseries"
 )
 
 func TestMacKinnonAsymptoticCritical(t *testing.T) {

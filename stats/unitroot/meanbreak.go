@@ -1,11 +1,12 @@
 package unitroot
 
 import (
-	"github.com/plumb-sql/plumb/stats"
-	"github.com/plumb-sql/plumb/stats/internal/numeric"
 	"math"
 	"math/rand/v2"
 	"sort"
+
+	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/internal/numeric"
 )
 
 // MeanBreakTrim is the share of the series kept out of the search for a

@@ -1,11 +1,12 @@
 package unitroot
 
 import (
-	"github.com/plumb-sql/plumb/stats"
-	"github.com/plumb-sql/plumb/stats/internal/numeric"
 	"math"
 	"math/rand/v2"
 	"sort"
+
+	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/internal/numeric"
 )
 
 // OCSBResult is the outcome of the seasonal unit-root test.

@@ -1,10 +1,11 @@
 package unitroot
 
 import (
-	"github.com/plumb-sql/plumb/stats"
 	"math"
 	"math/rand/v2"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats"
 )
 
 // TestOCSBSizeAndPower: under the null (ΔΔ_12 y = white noise, T = 240) the

@@ -2,6 +2,7 @@ package unitroot
 
 import (
 	"fmt"
+
 	"github.com/plumb-sql/plumb/stats"
 	"github.com/plumb-sql/plumb/stats/internal/numeric"
 )

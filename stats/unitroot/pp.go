@@ -1,9 +1,10 @@
 package unitroot
 
 import (
+	"math"
+
 	"github.com/plumb-sql/plumb/stats"
 	"github.com/plumb-sql/plumb/stats/internal/numeric"
-	"math"
 )
 
 // PPOptions configure the Phillips-Perron test. The zero value fits a

@@ -1,10 +1,11 @@
 package unitroot
 
 import (
-	"github.com/plumb-sql/plumb/stats"
 	"math"
 	"math/rand/v2"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats"
 )
 
 // allUnitRootTests runs every unit-root and stationarity test on x with

@@ -1,8 +1,9 @@
 package unitroot
 
 import (
-	"github.com/plumb-sql/plumb/stats/internal/testseries"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats/internal/testseries"
 )
 
 // BenchmarkADF: AIC lag choice at T = 1000 with the default maximum lag

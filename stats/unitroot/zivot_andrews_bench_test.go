@@ -2,8 +2,9 @@ package unitroot
 
 import (
 	"fmt"
-	"github.com/plumb-sql/plumb/stats/internal/testseries"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats/internal/testseries"
 )
 
 // BenchmarkZivotAndrews: one random walk of T = 730 or 1,000, each break

@@ -1,12 +1,13 @@
 package unitroot
 
 import (
-	"github.com/plumb-sql/plumb/stats"
-	"github.com/plumb-sql/plumb/stats/internal/numeric"
-	"github.com/plumb-sql/plumb/stats/internal/testseries"
 	"math"
 	"math/rand/v2"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/internal/numeric"
+	"github.com/plumb-sql/plumb/stats/internal/testseries"
 )
 
 // directBreakT fits the Zivot-Andrews regression at one break date by a

@@ -1,9 +1,10 @@
 package verdict
 
 import (
-	"github.com/plumb-sql/plumb/stats/internal/numeric"
 	"math"
 	"sort"
+
+	"github.com/plumb-sql/plumb/stats/internal/numeric"
 )
 
 // OutlierOptions configure Outliers; the zero value takes the defaults.

@@ -2,11 +2,12 @@ package verdict
 
 import (
 	"fmt"
-	"github.com/plumb-sql/plumb/stats/internal/testseries"
 	"math"
 	"math/rand/v2"
 	"sort"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats/internal/testseries"
 )
 
 // TestOutliersFindsPlanted: on 200 planted series each (patterns_test.go,

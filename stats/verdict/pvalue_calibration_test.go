@@ -2,12 +2,13 @@ package verdict
 
 import (
 	"fmt"
-	"github.com/plumb-sql/plumb/stats"
-	"github.com/plumb-sql/plumb/stats/internal/testseries"
-	"github.com/plumb-sql/plumb/stats/unitroot"
 	"math"
 	"math/rand/v2"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/internal/testseries"
+	"github.com/plumb-sql/plumb/stats/unitroot"
 )
 
 // TestPValueUniformity measures, for the KPSS test (level, automatic

@@ -1,9 +1,10 @@
 package verdict
 
 import (
+	"math"
+
 	"github.com/plumb-sql/plumb/stats"
 	"github.com/plumb-sql/plumb/stats/internal/numeric"
-	"math"
 )
 
 // Recipe is a transform that makes a series stationary, with what is needed

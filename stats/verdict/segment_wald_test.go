@@ -2,10 +2,11 @@ package verdict
 
 import (
 	"fmt"
-	"github.com/plumb-sql/plumb/stats/internal/testseries"
 	"math"
 	"math/rand/v2"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats/internal/testseries"
 )
 
 // TestSpreadCentringInflation measures κ, the inflation of the spread

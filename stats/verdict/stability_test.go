@@ -2,13 +2,14 @@ package verdict
 
 import (
 	"fmt"
-	"github.com/plumb-sql/plumb/stats"
-	"github.com/plumb-sql/plumb/stats/internal/testseries"
 	"math"
 	"math/rand/v2"
 	"sort"
 	"sync"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/internal/testseries"
 )
 
 // TestMannKendallMatchesPairCount checks the O(n log n) count against the

@@ -1,9 +1,10 @@
 package verdict
 
 import (
+	"math"
+
 	"github.com/plumb-sql/plumb/stats"
 	"github.com/plumb-sql/plumb/stats/internal/numeric"
-	"math"
 )
 
 // STLOptions configure the STL decomposition. Windows must be odd; zero

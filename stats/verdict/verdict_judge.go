@@ -1,10 +1,11 @@
 package verdict
 
 import (
+	"math"
+
 	"github.com/plumb-sql/plumb/stats"
 	"github.com/plumb-sql/plumb/stats/internal/numeric"
 	"github.com/plumb-sql/plumb/stats/unitroot"
-	"math"
 )
 
 // judgeOptions configure one judgement.

@@ -2,11 +2,12 @@ package verdict
 
 import (
 	"fmt"
-	"github.com/plumb-sql/plumb/stats"
-	"github.com/plumb-sql/plumb/stats/internal/testseries"
 	"math"
 	"strings"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/internal/testseries"
 )
 
 // TestVerdictPatterns judges 200 seeded series of each planted pattern

@@ -2,9 +2,10 @@ package verdict
 
 import (
 	"fmt"
-	"github.com/plumb-sql/plumb/stats"
 	"math"
 	"strings"
+
+	"github.com/plumb-sql/plumb/stats"
 )
 
 // reason explains a verdict in plain sentences built from its causes, in

@@ -1,11 +1,12 @@
 package verdict
 
 import (
-	"github.com/plumb-sql/plumb/stats/internal/testseries"
 	"math"
 	"sort"
 	"strings"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats/internal/testseries"
 )
 
 // TestVerdictAirPassengers: R's AirPassengers (r-base-core 4.2.2's

@@ -1,10 +1,11 @@
 package numeric
 
 import (
-	"github.com/plumb-sql/plumb/stats/internal/testseries"
 	"math"
 	"math/rand/v2"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats/internal/testseries"
 )
 
 // TestLagDots checks LagDots against one dot product per lag, for lengths
