@@ -1,5 +1,7 @@
 package stats
 
+import "github.com/plumb-sql/plumb/stats/internal/numeric"
+
 // Autocorrelation returns the sample autocorrelations ρ_1..ρ_maxLag of x:
 //
 //	ρ_k = Σ_{t=k..n-1} (x_t - x̄)(x_{t-k} - x̄) / Σ_t (x_t - x̄)²,
@@ -12,12 +14,12 @@ func Autocorrelation(x []float64, maxLag int) []float64 {
 		return nil
 	}
 	d, c0 := centered(x)
-	defer putScratch(d)
+	defer numeric.PutScratch(d)
 	if c0 == 0 {
 		return nil
 	}
 	maxLag = min(maxLag, n-1)
-	g := autocovariances(d, maxLag) // Σ_{t≥k} d_t·d_{t-k} / n
+	g := numeric.Autocovariances(d, maxLag) // Σ_{t≥k} d_t·d_{t-k} / n
 	out := make([]float64, maxLag)
 	for k := 1; k <= maxLag; k++ {
 		out[k-1] = g[k] * float64(n) / c0
@@ -25,22 +27,22 @@ func Autocorrelation(x []float64, maxLag int) []float64 {
 	return out
 }
 
-// autocorrelationAt returns the sample autocorrelations of x at the given
+// AutocorrelationAt returns the sample autocorrelations of x at the given
 // lags only (each below len(x)), as Autocorrelation defines them; nil for a
 // constant or too short series.
-func autocorrelationAt(x []float64, lags []int) []float64 {
+func AutocorrelationAt(x []float64, lags []int) []float64 {
 	n := len(x)
 	if n < 2 || len(lags) == 0 {
 		return nil
 	}
 	d, c0 := centered(x)
-	defer putScratch(d)
+	defer numeric.PutScratch(d)
 	if c0 == 0 {
 		return nil
 	}
 	out := make([]float64, len(lags))
 	for i, k := range lags {
-		out[i] = dot(d[k:], d[:n-k]) / c0
+		out[i] = numeric.Dot(d[k:], d[:n-k]) / c0
 	}
 	return out
 }
@@ -48,10 +50,10 @@ func autocorrelationAt(x []float64, lags []int) []float64 {
 // centered returns x minus its mean, in a scratch slice the caller puts
 // back, and the sum of its squares.
 func centered(x []float64) ([]float64, float64) {
-	mean := sum(x) / float64(len(x))
-	d := getScratch(len(x))
+	mean := numeric.Sum(x) / float64(len(x))
+	d := numeric.GetScratch(len(x))
 	for i, v := range x {
 		d[i] = v - mean
 	}
-	return d, dot(d, d)
+	return d, numeric.Dot(d, d)
 }

@@ -1,6 +1,10 @@
 package stats
 
-import "math"
+import (
+	"math"
+
+	"github.com/plumb-sql/plumb/stats/internal/numeric"
+)
 
 // BoxCox returns the Box & Cox (1964) transform of x:
 //
@@ -94,8 +98,8 @@ func guerrero(spread, level []float64, lost, m int) (float64, Status) {
 	sd := make([]float64, k)
 	for i := 0; i < k; i++ {
 		a, b := start+i*m, start+(i+1)*m
-		_, sd[i] = meanSD(spread[a:b])
-		mu[i], _ = meanSD(level[a+lost : b+lost])
+		_, sd[i] = numeric.MeanSD(spread[a:b])
+		mu[i], _ = numeric.MeanSD(level[a+lost : b+lost])
 	}
 	// r_i(λ) = s_i·exp((λ-1)·log μ_i); the logarithms are taken once.
 	logMu := make([]float64, k)
@@ -107,7 +111,7 @@ func guerrero(spread, level []float64, lost, m int) (float64, Status) {
 		for i := range r {
 			r[i] = sd[i] * math.Exp((lambda-1)*logMu[i])
 		}
-		mean, s := meanSD(r)
+		mean, s := numeric.MeanSD(r)
 		return s / mean
 	}
 	return minimizeOnInterval(cv, -1, 2), StatusOK
@@ -127,7 +131,7 @@ func LambdaOfChanges(x []float64, period int) (float64, Status) {
 	if s := checkFinite(x); s != StatusOK {
 		return math.NaN(), s
 	}
-	if minimum(x) <= 0 {
+	if numeric.Minimum(x) <= 0 {
 		return math.NaN(), StatusNonPositive
 	}
 	d, _ := Difference(x, 1, 1)
@@ -139,24 +143,6 @@ func LambdaOfChanges(x []float64, period int) (float64, Status) {
 		m = max(m, period)
 	}
 	return guerrero(d, x, lost, m)
-}
-
-// meanSD returns the mean and the sample standard deviation (n-1 divisor).
-func meanSD(x []float64) (float64, float64) {
-	n := float64(len(x))
-	mean := 0.0
-	for _, v := range x {
-		mean += v
-	}
-	mean /= n
-	ss := 0.0
-	for _, v := range x {
-		ss += (v - mean) * (v - mean)
-	}
-	if len(x) < 2 {
-		return mean, math.NaN()
-	}
-	return mean, math.Sqrt(ss / (n - 1))
 }
 
 // minimizeOnInterval finds the minimiser of f on [a, b]: a grid of 31

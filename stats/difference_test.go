@@ -5,6 +5,8 @@ import (
 	"math/rand/v2"
 	"slices"
 	"testing"
+
+	"github.com/plumb-sql/plumb/stats/internal/testseries"
 )
 
 func TestDifference(t *testing.T) {
@@ -91,19 +93,19 @@ func TestUndifferenceInvertsDifference(t *testing.T) {
 // (both sides subtract the same 17-digit numbers in the same order, so the
 // results should agree to the last bit or two).
 func TestDifferenceAgainstR(t *testing.T) {
-	_, series := referenceSeries(t)
+	_, series := testseries.ReferenceSeries(t)
 	type key struct {
 		name       string
 		lag, times int
 	}
 	want := map[key][]float64{}
 	var order []key
-	for _, row := range readCSV(t, "difference_r.csv") {
-		k := key{row["series"], int(num(t, row["lag"])), int(num(t, row["times"]))}
+	for _, row := range testseries.ReadCSV(t, "difference_r.csv") {
+		k := key{row["series"], int(testseries.Num(t, row["lag"])), int(testseries.Num(t, row["times"]))}
 		if _, ok := want[k]; !ok {
 			order = append(order, k)
 		}
-		want[k] = append(want[k], num(t, row["value"]))
+		want[k] = append(want[k], testseries.Num(t, row["value"]))
 	}
 	if len(order) < 8 {
 		t.Fatalf("difference_r.csv holds %d cases, want 8", len(order))

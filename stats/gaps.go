@@ -3,6 +3,8 @@ package stats
 import (
 	"math"
 	"sort"
+
+	"github.com/plumb-sql/plumb/stats/internal/numeric"
 )
 
 // FillMethod says how missing time points and missing values are filled.
@@ -52,10 +54,10 @@ func Regularize(at []int64, x []float64, method FillMethod) (Regular, error) {
 	switch method {
 	case "", FillNone, FillLinear, FillPrevious:
 	default:
-		return Regular{}, errorf("unknown fill method %q: use none, linear or previous", string(method))
+		return Regular{}, numeric.Errorf("unknown fill method %q: use none, linear or previous", string(method))
 	}
 	if len(at) != len(x) {
-		return Regular{}, errorf("regularize: %d times for %d values", len(at), len(x))
+		return Regular{}, numeric.Errorf("regularize: %d times for %d values", len(at), len(x))
 	}
 	r := Regular{}
 	for _, v := range x {
@@ -86,7 +88,7 @@ func Regularize(at []int64, x []float64, method FillMethod) (Regular, error) {
 	for i := 1; i < len(at); i++ {
 		d := at[i] - at[i-1]
 		if d <= 0 {
-			return Regular{}, errorf("regularize: times must increase")
+			return Regular{}, numeric.Errorf("regularize: times must increase")
 		}
 		counts[d]++
 	}

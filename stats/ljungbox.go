@@ -1,6 +1,9 @@
 package stats
 
-import "gonum.org/v1/gonum/stat/distuv"
+import (
+	"github.com/plumb-sql/plumb/stats/internal/numeric"
+	"gonum.org/v1/gonum/stat/distuv"
+)
 
 // WhiteNoiseResult is the outcome of the Ljung-Box test.
 type WhiteNoiseResult struct {
@@ -27,10 +30,10 @@ type WhiteNoiseResult struct {
 // series, to see whether structure remains for a model to capture.
 func LjungBox(x []float64, h, fitted int) (WhiteNoiseResult, error) {
 	if h < 0 || fitted < 0 {
-		return WhiteNoiseResult{}, errorf("ljung-box: lags and fitted parameters must not be negative, got %d and %d", h, fitted)
+		return WhiteNoiseResult{}, numeric.Errorf("ljung-box: lags and fitted parameters must not be negative, got %d and %d", h, fitted)
 	}
 	if h > 0 && fitted >= h {
-		return WhiteNoiseResult{}, errorf("ljung-box: fitted parameters (%d) must be fewer than the lags (%d)", fitted, h)
+		return WhiteNoiseResult{}, numeric.Errorf("ljung-box: fitted parameters (%d) must be fewer than the lags (%d)", fitted, h)
 	}
 	n := len(x)
 	r := WhiteNoiseResult{Observations: n}
@@ -39,7 +42,7 @@ func LjungBox(x []float64, h, fitted int) (WhiteNoiseResult, error) {
 	}
 	r.Lags, r.DF = h, h-fitted
 	fail := func(s Status) (WhiteNoiseResult, error) {
-		r.Statistic, r.PValue, r.Status = nan(), nan(), s
+		r.Statistic, r.PValue, r.Status = numeric.NaN(), numeric.NaN(), s
 		return r, nil
 	}
 	if s := checkFinite(x); s != StatusOK {
@@ -48,13 +51,13 @@ func LjungBox(x []float64, h, fitted int) (WhiteNoiseResult, error) {
 	if h < 1 || n <= h+1 || r.DF < 1 {
 		return fail(StatusTooShort)
 	}
-	if isConstant(x) {
+	if numeric.IsConstant(x) {
 		return fail(StatusConstant)
 	}
-	if tooLarge(x) {
+	if numeric.TooLarge(x) {
 		// The autocorrelations are scale-free; scaled to a largest
 		// magnitude of 1 their sums of squares cannot overflow.
-		x = scaledInto(make([]float64, n), x)
+		x = numeric.ScaledInto(make([]float64, n), x)
 	}
 	rho := Autocorrelation(x, h)
 	q := 0.0

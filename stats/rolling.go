@@ -1,6 +1,10 @@
 package stats
 
-import "math"
+import (
+	"math"
+
+	"github.com/plumb-sql/plumb/stats/internal/numeric"
+)
 
 // RollingResult holds trailing-window statistics, one value per observation;
 // the first width-1 values are NaN (the window is not yet full).
@@ -21,22 +25,22 @@ type RollingResult struct {
 // that contain them NaN. It is an error for width to be below 2.
 func Rolling(x []float64, width int) (RollingResult, error) {
 	if width < 2 {
-		return RollingResult{}, errorf("rolling: the width must be at least 2, got %d", width)
+		return RollingResult{}, numeric.Errorf("rolling: the width must be at least 2, got %d", width)
 	}
 	n := len(x)
 	r := RollingResult{
 		Mean: make([]float64, n), SD: make([]float64, n),
 		MeanRatio: make([]float64, n), SDRatio: make([]float64, n), MeanDeviation: make([]float64, n),
 	}
-	gMean, gSD := meanSD(x)
+	gMean, gSD := numeric.MeanSD(x)
 	for i := 0; i < n; i++ {
 		if i+1 < width {
-			r.Mean[i], r.SD[i], r.MeanRatio[i], r.SDRatio[i], r.MeanDeviation[i] = nan(), nan(), nan(), nan(), nan()
+			r.Mean[i], r.SD[i], r.MeanRatio[i], r.SDRatio[i], r.MeanDeviation[i] = numeric.NaN(), numeric.NaN(), numeric.NaN(), numeric.NaN(), numeric.NaN()
 			continue
 		}
 		// Two-pass per window keeps it exact; width·n work is cheap next to
 		// the tests.
-		m, s := meanSD(x[i+1-width : i+1])
+		m, s := numeric.MeanSD(x[i+1-width : i+1])
 		r.Mean[i], r.SD[i] = m, s
 		r.MeanRatio[i] = m / gMean
 		if gMean == 0 {

@@ -1,7 +1,5 @@
 package stats
 
-import "math"
-
 // Status says whether a result can be used, and if not, why not.
 // It is carried by every result so that one bad series never fails a query
 // over thousands of them.
@@ -18,7 +16,7 @@ const (
 	StatusConstant Status = "constant"
 	// StatusNonFinite means the series holds NaN or ±Inf (SQL NULLs arrive
 	// as NaN), which no test here accepts; for the verdict also values so
-	// large that the sum of their squares overflows (tooLarge), or a number
+	// large that the sum of their squares overflows (numeric.TooLarge), or a number
 	// it needs that could not be computed: such numbers are a status, never
 	// a verdict.
 	StatusNonFinite Status = "non_finite"
@@ -51,37 +49,4 @@ func checkFinite(x []float64) Status {
 		}
 	}
 	return StatusOK
-}
-
-// maxSumOfSquares bounds Σ x_t² for a series the verdict judges. The
-// unit-root tests scale the series first and so accept any finite values,
-// but the verdict also works in original units (segment shares, the
-// outlier fit, a trend or shift removed, Ljung-Box on the output, the
-// recipe's forecasts), from sums of squares and cross products of the
-// series or of its differences (a cross product is at most the sum of
-// squares, by Cauchy-Schwarz); past this bound they overflow to ±Inf or
-// NaN and would give a silently wrong verdict. A sixteenth of the largest
-// double leaves room for two differences, whose values are at most four
-// times as large (IEEE 754 double precision, common practice).
-const maxSumOfSquares = math.MaxFloat64 / 16
-
-// tooLarge reports whether x, free of NaN and ±Inf, has values so large
-// that the sum of their squares exceeds maxSumOfSquares (for 1,000 values
-// of one size, beyond about 4e151).
-func tooLarge(x []float64) bool {
-	ss := 0.0
-	for _, v := range x {
-		ss += v * v
-	}
-	return !(ss <= maxSumOfSquares)
-}
-
-// isConstant reports whether every value of x equals the first.
-func isConstant(x []float64) bool {
-	for _, v := range x[1:] {
-		if v != x[0] {
-			return false
-		}
-	}
-	return true
 }

@@ -4,8 +4,8 @@ import (
 	"database/sql/driver"
 	"fmt"
 
-	"github.com/plumb-sql/plumb/stats"
 	"github.com/plumb-sql/plumb/stats/defaults"
+	"github.com/plumb-sql/plumb/stats/unitroot"
 )
 
 // The checks of option values that SQL and the commands share: a value
@@ -112,14 +112,14 @@ func whiteNoiseArgs(lagsArg, fittedArg driver.Value) (int, int, error) {
 
 // trimmingArg reads zivot_andrews' trimming: NULL is the default,
 // anything else must lie in the range plumb's p-value table covers
-// (stats.CheckBreakTrim).
+// (unitroot.CheckBreakTrim).
 func trimmingArg(v driver.Value) (float64, error) {
 	if v == nil {
-		return stats.DefaultBreakTrim, nil
+		return unitroot.DefaultBreakTrim, nil
 	}
-	trim, err := floatOr(v, "trimming", stats.DefaultBreakTrim)
+	trim, err := floatOr(v, "trimming", unitroot.DefaultBreakTrim)
 	if err != nil {
 		return 0, err
 	}
-	return trim, stats.CheckBreakTrim(trim)
+	return trim, unitroot.CheckBreakTrim(trim)
 }

@@ -5,7 +5,7 @@ import (
 	"fmt"
 	"math"
 
-	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/verdict"
 	"github.com/plumb-sql/plumb/udf/internal/vectors"
 )
 
@@ -106,7 +106,7 @@ func orNull(v float64) any {
 }
 
 // textList is a LIST(VARCHAR) value of violations.
-func textList(v []stats.Violation) []any {
+func textList(v []verdict.Violation) []any {
 	out := make([]any, len(v))
 	for i, x := range v {
 		out[i] = string(x)

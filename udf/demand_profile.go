@@ -7,12 +7,13 @@ import (
 	"github.com/duckdb/duckdb-go/v2"
 
 	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/verdict"
 )
 
 // demand_profile(series) -> STRUCT(zero_share, average_interval,
 // size_variation, demand_class); a series with a missing value gives NULL.
 //
-// The maths: stats.Demand (stats/demand.go).
+// The maths: verdict.Demand (stats/verdict/demand.go).
 
 //go:embed sql/demand_profile.sql
 var demandProfileMacros string
@@ -28,13 +29,13 @@ func demandProfileFunctions(t *types) []*function {
 			if stats.CheckFinite(x) != stats.StatusOK {
 				return nil, nil
 			}
-			p := stats.Demand(x)
+			p := verdict.Demand(x)
 			return demandProfileLayout.record(&p), nil
 		}),
 	}}
 }
 
-type demandProfile = stats.DemandProfile
+type demandProfile = verdict.DemandProfile
 
 // demandProfileLayout is demand_profile's STRUCT.
 var demandProfileLayout = newLayout(

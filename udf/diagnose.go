@@ -11,9 +11,10 @@ import (
 	"github.com/duckdb/duckdb-go/v2"
 
 	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/verdict"
 )
 
-// The maths: stats.Regularize and stats.Stationarity (stats/gaps.go, stats/verdict*.go), stats.BenjaminiHochberg (stats/fdr.go); the SQL in diagnoseSQL, batches.go and series.go.
+// The maths: stats.Regularize and verdict.Stationarity (stats/gaps.go, stats/verdict/verdict*.go), stats.BenjaminiHochberg (stats/fdr.go); the SQL in diagnoseSQL, batches.go and series.go.
 
 //go:embed sql/diagnose.sql
 var diagnoseMacros string
@@ -25,7 +26,7 @@ var diagnoseMacros string
 //
 // which returns one row per group: the group columns; n, first_at, last_at,
 // gaps (time points missing from the group's usual step), missing (NULL
-// values), status; the verdict of stats.Stationarity with the tests behind
+// values), status; the verdict of verdict.Stationarity with the tests behind
 // it; the Ljung-Box p-value of the series after its recommended transform;
 // Benjamini-Hochberg q-values across all groups for each test's p-value;
 // and rank, 1 for the group furthest from stationary.
@@ -105,11 +106,11 @@ func GroupsDone() int64 { return groupsDone.Load() }
 
 // diagnoseGroup judges one group: its points sorted by time, with order
 // saying where each stood in the list as aggregated (nil: in order).
-func diagnoseGroup(at []int64, x []float64, order []int, opts stats.StationarityOptions, fill stats.FillMethod) (any, error) {
+func diagnoseGroup(at []int64, x []float64, order []int, opts verdict.StationarityOptions, fill stats.FillMethod) (any, error) {
 	for i := 1; i < len(at); i++ {
 		if at[i] == at[i-1] {
 			d := diagnosed{
-				verdict:   stats.StationarityResult{Status: duplicateAt, BoxCoxLambda: math.NaN(), ShiftIndex: -1},
+				verdict:   verdict.StationarityResult{Status: duplicateAt, BoxCoxLambda: math.NaN(), ShiftIndex: -1},
 				duplicate: true,
 			}
 			return diagnoseLayout.record(&d), nil
@@ -121,11 +122,11 @@ func diagnoseGroup(at []int64, x []float64, order []int, opts stats.Stationarity
 		return nil, err
 	}
 	if reg.TooSparse {
-		v := stats.UnjudgedVerdict(stats.StatusTooSparse)
+		v := verdict.UnjudgedVerdict(stats.StatusTooSparse)
 		d := diagnosed{verdict: v, regular: reg, status: string(v.Status), shiftPoint: -1}
 		return diagnoseLayout.record(&d), nil
 	}
-	v, err := stats.Stationarity(reg.Values, opts)
+	v, err := verdict.Stationarity(reg.Values, opts)
 	if err != nil {
 		return nil, err
 	}
@@ -155,7 +156,7 @@ func diagnoseGroup(at []int64, x []float64, order []int, opts stats.Stationarity
 
 // diagnosed is one group's judgement as plumb_diagnose returns it.
 type diagnosed struct {
-	verdict stats.StationarityResult
+	verdict verdict.StationarityResult
 	regular stats.Regular
 	// status is the verdict's, or gaps_filled or gaps_ignored.
 	status string

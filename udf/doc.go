@@ -4,7 +4,8 @@
 // Two layers make up every SQL function:
 //
 //   - a Go scalar function named plumb_<name>, registered once per database,
-//     that takes positional arguments and calls package stats;
+//     that takes positional arguments and calls the packages under stats
+//     (unitroot, verdict, forecast, stats itself);
 //   - a TEMP macro named <name>, created on every new connection, that gives
 //     the function its named options and defaults and casts its inputs.
 //
@@ -18,7 +19,7 @@
 //
 // Each SQL function, or family of them, has a file of its name: <name>.go
 // with its registration, argument checks and a line naming where its maths
-// lives in package stats, and sql/<name>.sql with its macros (families in
+// lives under stats (stats/unitroot/adf.go, ...), and sql/<name>.sql with its macros (families in
 // open.go lists them). A STRUCT result is declared once as a layout
 // (layout.go). The reach into duckdb-go's vectors is walled off in
 // internal/vectors.

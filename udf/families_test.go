@@ -102,3 +102,36 @@ func TestMacroDefaultsFromTable(t *testing.T) {
 		t.Errorf("the macros did not render:\n%s", macros)
 	}
 }
+
+// mathsPath is a file of the mathematics named on a family's "The maths:"
+// line, relative to the module's top (stats/verdict/verdict*.go).
+var mathsPath = regexp.MustCompile(`stats/[a-z_/]+\*?\.go`)
+
+// TestMathsLinesNameFilesThatExist checks each family's line saying where
+// its mathematics lives (DEVELOPERS.md, "How a SQL function is built"):
+// every file it names exists, so that moving the mathematics cannot leave
+// the line pointing at nothing.
+func TestMathsLinesNameFilesThatExist(t *testing.T) {
+	for _, f := range families {
+		text, err := os.ReadFile(f.name + ".go")
+		if err != nil {
+			continue // TestEveryFunctionHasItsFile reports it
+		}
+		_, after, found := strings.Cut(string(text), "// The maths:")
+		if !found {
+			continue // a family without mathematics of its own (batches, columns)
+		}
+		var block strings.Builder
+		for i, line := range strings.Split(after, "\n") {
+			if i > 0 && !strings.HasPrefix(line, "//") {
+				break
+			}
+			block.WriteString(line + "\n")
+		}
+		for _, p := range mathsPath.FindAllString(block.String(), -1) {
+			if m, _ := filepath.Glob(filepath.Join("..", p)); len(m) == 0 {
+				t.Errorf("%s.go: its maths line names %s, which does not exist", f.name, p)
+			}
+		}
+	}
+}

@@ -12,15 +12,17 @@ import (
 
 	"github.com/plumb-sql/plumb/stats"
 	"github.com/plumb-sql/plumb/stats/defaults"
+	"github.com/plumb-sql/plumb/stats/forecast"
+	"github.com/plumb-sql/plumb/stats/verdict"
 )
 
-// The maths: stats.ForecastByRecipe (stats/forecast_recipe.go, stats/forecast.go, stats/ar.go, stats/accuracy.go).
+// The maths: forecast.ForecastByRecipe (stats/forecast/forecast_recipe.go, stats/forecast/forecast.go, stats/forecast/ar.go, stats/forecast/accuracy.go).
 
 //go:embed sql/forecast.sql
 var forecastMacros string
 
 // forecastFunctions provides two table functions that forecast every group
-// through its own recipe (stats.ForecastByRecipe):
+// through its own recipe (forecast.ForecastByRecipe):
 //
 //	forecast(source, by, at, value, horizon, coverage, period, alpha, fill, holdout, point)
 //	    (the defaults in udf/sql/forecast.sql, from package defaults)
@@ -36,7 +38,7 @@ var forecastMacros string
 //	forecast_models(same arguments)
 //	    one row per group: the recipe and the model behind the forecasts,
 //	    chosen by AICc among ARMA models fitted by exact likelihood and the
-//	    least-squares autoregression (stats.ChooseARMA): its orders
+//	    least-squares autoregression (forecast.ChooseARMA): its orders
 //	    (ar_order, ma_order, seasonal_ar_order, seasonal_ma_order at
 //	    seasonal_period), constant, coefficients, residual variance, observations
 //	    (values of the stationary series), log_likelihood, aic, aicc, how it
@@ -136,7 +138,7 @@ func forecastFunctions(t *types) []*function {
 
 // forecastOptions are forecast's per-group settings.
 type forecastOptions struct {
-	verdict          stats.StationarityOptions
+	verdict          verdict.StationarityOptions
 	horizon, holdout int
 	coverage         float64
 	fill             stats.FillMethod
@@ -148,10 +150,10 @@ type forecastOptions struct {
 func readForecastOptions(args []driver.Value) (forecastOptions, error) {
 	var o forecastOptions
 	var err error
-	if o.horizon, err = intOr(args[0], "horizon", stats.DefaultHorizon); err != nil {
+	if o.horizon, err = intOr(args[0], "horizon", forecast.DefaultHorizon); err != nil {
 		return o, err
 	}
-	if o.coverage, err = floatOr(args[1], "coverage", stats.DefaultCoverage); err != nil {
+	if o.coverage, err = floatOr(args[1], "coverage", forecast.DefaultCoverage); err != nil {
 		return o, err
 	}
 	if o.verdict, err = stationarityOptions(args[2], args[3]); err != nil {
@@ -179,13 +181,13 @@ func readForecastOptions(args []driver.Value) (forecastOptions, error) {
 	switch {
 	case o.holdout < 0:
 		return o, fmt.Errorf("holdout must be 0 (none) or a positive number of values, got %d", o.holdout)
-	case o.holdout == 0 && (o.horizon < 1 || o.horizon > stats.MaxHorizon):
-		return o, fmt.Errorf("horizon must be between 1 and %d, got %d", stats.MaxHorizon, o.horizon)
+	case o.holdout == 0 && (o.horizon < 1 || o.horizon > forecast.MaxHorizon):
+		return o, fmt.Errorf("horizon must be between 1 and %d, got %d", forecast.MaxHorizon, o.horizon)
 	case !(o.coverage > 0 && o.coverage < 1):
 		return o, fmt.Errorf("coverage must be between 0 and 1, got %v", o.coverage)
 	}
 	if o.holdout > 0 {
-		o.horizon = min(o.holdout, stats.MaxHorizon)
+		o.horizon = min(o.holdout, forecast.MaxHorizon)
 	}
 	return o, nil
 }
@@ -245,16 +247,16 @@ func forecastGroup(at []int64, x []float64, o forecastOptions) (any, error) {
 	}
 	if reg.TooSparse {
 		out.status = string(stats.StatusTooSparse)
-		out.reason = stats.StatusReason(stats.StatusTooSparse)
+		out.reason = verdict.StatusReason(stats.StatusTooSparse)
 		return forecastLayout.record(&out), nil
 	}
 	if n < 2 {
 		out.status = string(stats.StatusTooShort)
-		out.reason = stats.StatusReason(stats.StatusTooShort)
+		out.reason = verdict.StatusReason(stats.StatusTooShort)
 		return forecastLayout.record(&out), nil
 	}
 	train := y[:n]
-	v, err := stats.Stationarity(train, o.verdict)
+	v, err := verdict.Stationarity(train, o.verdict)
 	if err != nil {
 		return nil, err
 	}
@@ -271,8 +273,8 @@ func forecastGroup(at []int64, x []float64, o forecastOptions) (any, error) {
 		out.boxCoxLambda = rec.Lambda
 	}
 	out.seasonalDifferences, out.differences = int64(rec.SeasonalDifferences), int64(rec.Differences)
-	f, err := stats.ForecastByRecipe(v.Judged(), rec, stats.RecipeForecastOptions{
-		Horizon: o.horizon, Coverage: o.coverage, AR: stats.AROptions{Period: rec.Period}, MeanPoint: o.meanPoint})
+	f, err := forecast.ForecastByRecipe(v.Judged(), rec, forecast.RecipeForecastOptions{
+		Horizon: o.horizon, Coverage: o.coverage, AR: forecast.AROptions{Period: rec.Period}, MeanPoint: o.meanPoint})
 	if err != nil {
 		return nil, err
 	}
@@ -306,10 +308,10 @@ func forecastGroup(at []int64, x []float64, o forecastOptions) (any, error) {
 		case o.verdict.Period == 0 && v.Seasonal && rec.Period > 1:
 			lag = rec.Period
 		}
-		if e, err := stats.MeanAbsoluteScaledError(actual, f.Mean, train, lag); err == nil && e.Status == stats.StatusOK {
+		if e, err := forecast.MeanAbsoluteScaledError(actual, f.Mean, train, lag); err == nil && e.Status == stats.StatusOK {
 			out.mase = orNull(e.MASE)
 		}
-		if share, used, err := stats.IntervalCoverage(actual, f.Lower, f.Upper); err == nil && used > 0 {
+		if share, used, err := forecast.IntervalCoverage(actual, f.Lower, f.Upper); err == nil && used > 0 {
 			out.intervalCoverage = share
 		}
 	}
@@ -324,7 +326,7 @@ type forecastRow struct {
 	seasonalDifferences, differences, arOrder, arConstant               any
 	arCoefficients, residualVariance, observations, aic, ljungBox, mase any
 	intervalCoverage                                                    any
-	// the rest of the chosen model (stats.ChooseARMA)
+	// the rest of the chosen model (forecast.ChooseARMA)
 	maOrder, seasonalAROrder, seasonalMAOrder, seasonalPeriod                any
 	maCoefficients, seasonalARCoefficients, seasonalMACoefficients, modelFit any
 	logLikelihood, aicc                                                      any

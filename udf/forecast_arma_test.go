@@ -5,7 +5,8 @@ import (
 	"math"
 	"testing"
 
-	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/forecast"
+	"github.com/plumb-sql/plumb/stats/verdict"
 )
 
 // armaDatasets loads testdata/reference/datasets_arma_r.csv (Debian's
@@ -30,7 +31,7 @@ func armaDatasets(t *testing.T, db *sql.DB) map[string][]float64 {
 }
 
 // TestForecastModelsARMA: forecast_models reports the model
-// stats.ForecastByRecipe chose (orders, coefficients, likelihood, how it
+// forecast.ForecastByRecipe chose (orders, coefficients, likelihood, how it
 // was fitted), with period := 1 declaring a series non-seasonal, and mase
 // scaled at the lag of the period passed.
 func TestForecastModelsARMA(t *testing.T) {
@@ -58,12 +59,12 @@ func TestForecastModelsARMA(t *testing.T) {
 		}
 		x := data[test.dataset]
 		train, held := x[:len(x)-test.holdout], x[len(x)-test.holdout:]
-		v, err := stats.Stationarity(train, stats.StationarityOptions{Period: test.period})
+		v, err := verdict.Stationarity(train, verdict.StationarityOptions{Period: test.period})
 		if err != nil {
 			t.Fatal(err)
 		}
 		rec := v.Recipe()
-		f, err := stats.ForecastByRecipe(v.Judged(), rec, stats.RecipeForecastOptions{Horizon: test.holdout, Coverage: 0.95, AR: stats.AROptions{Period: rec.Period}})
+		f, err := forecast.ForecastByRecipe(v.Judged(), rec, forecast.RecipeForecastOptions{Horizon: test.holdout, Coverage: 0.95, AR: forecast.AROptions{Period: rec.Period}})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -81,7 +82,7 @@ func TestForecastModelsARMA(t *testing.T) {
 			t.Errorf("%s: period := 1 reported period %d", test.dataset, period.Int64)
 		}
 		// mase at the lag of the period passed (lag 1 for period := 1).
-		e, err := stats.MeanAbsoluteScaledError(held, f.Mean, train, test.period)
+		e, err := forecast.MeanAbsoluteScaledError(held, f.Mean, train, test.period)
 		if err != nil || math.Abs(e.MASE-mase) > 1e-9*mase {
 			t.Errorf("%s period %d: mase %v, want %v at lag %d (%v)", test.dataset, test.period, mase, e.MASE, test.period, err)
 		}

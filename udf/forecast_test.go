@@ -6,10 +6,11 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/forecast"
+	"github.com/plumb-sql/plumb/stats/verdict"
 )
 
-// TestForecastSQL: forecast's rows equal stats.ForecastByRecipe on the same
+// TestForecastSQL: forecast's rows equal forecast.ForecastByRecipe on the same
 // series (the verdict's recipe, fitted on the series it judged), continue
 // each group's own time axis in the at column's type, and forecast_models
 // reports the model behind them.
@@ -54,8 +55,8 @@ func TestForecastSQL(t *testing.T) {
 			xs = append(xs, v)
 		}
 		r.Close()
-		v, _ := stats.Stationarity(xs, stats.StationarityOptions{Period: 7})
-		f, err := stats.ForecastByRecipe(v.Judged(), v.Recipe(), stats.RecipeForecastOptions{Horizon: 5, Coverage: 0.95, AR: stats.AROptions{Period: 7}})
+		v, _ := verdict.Stationarity(xs, verdict.StationarityOptions{Period: 7})
+		f, err := forecast.ForecastByRecipe(v.Judged(), v.Recipe(), forecast.RecipeForecastOptions{Horizon: 5, Coverage: 0.95, AR: forecast.AROptions{Period: 7}})
 		if err != nil {
 			t.Fatal(err)
 		}

@@ -7,14 +7,15 @@ import (
 	"github.com/duckdb/duckdb-go/v2"
 
 	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/unitroot"
 )
 
 // mean_break(series) -> STRUCT: the sup-Wald test for one break in the mean
 // of a stationary series, its date (break_at, the 1-based position of the
 // first value after it) and size.
 //
-// The maths: stats.MeanBreak (stats/meanbreak.go, stats/meanbreak_table.go,
-// stats/segment_wald.go).
+// The maths: unitroot.MeanBreak (stats/unitroot/meanbreak.go, stats/unitroot/meanbreak_table.go,
+// stats/unitroot/longrun_prewhite.go).
 
 //go:embed sql/mean_break.sql
 var meanBreakMacros string
@@ -28,13 +29,13 @@ func meanBreakFunctions(t *types) []*function {
 		result:   meanBreakLayout.info(t),
 		nullable: true,
 		eval: withSeries(func(x []float64, args []driver.Value) (any, error) {
-			r := stats.MeanBreak(x)
+			r := unitroot.MeanBreak(x)
 			return meanBreakLayout.record(&r), nil
 		}),
 	}}
 }
 
-type meanBreakResult = stats.MeanBreakResult
+type meanBreakResult = unitroot.MeanBreakResult
 
 // meanBreakLayout is mean_break's STRUCT: NULL numbers unless the status
 // is ok.

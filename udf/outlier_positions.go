@@ -7,14 +7,15 @@ import (
 	"github.com/duckdb/duckdb-go/v2"
 
 	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/verdict"
 )
 
-// The maths: stats.Outliers (stats/outliers.go).
+// The maths: verdict.Outliers (stats/verdict/outliers.go).
 
 //go:embed sql/outlier_positions.sql
 var outlierPositionsMacros string
 
-// outlierPositionsFunctions wraps stats.Outliers:
+// outlierPositionsFunctions wraps verdict.Outliers:
 //
 //	outlier_positions(series, period := NULL) -> BIGINT[], the 1-based
 //	    positions of the isolated outliers the verdict sets aside
@@ -35,7 +36,7 @@ func outlierPositionsFunctions(t *types) []*function {
 			if stats.CheckFinite(x) != stats.StatusOK {
 				return nil, nil
 			}
-			o := stats.Outliers(x, stats.OutlierOptions{Period: period})
+			o := verdict.Outliers(x, verdict.OutlierOptions{Period: period})
 			out := make([]any, len(o.Positions))
 			for i, p := range o.Positions {
 				out[i] = int64(p + 1)

@@ -10,7 +10,7 @@ import (
 
 	"github.com/duckdb/duckdb-go/v2"
 
-	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/verdict"
 )
 
 // restore(source, recipes, by, at, value, anchor) (udf/sql/restore.sql): source holds
@@ -21,7 +21,7 @@ import (
 // first). Returns the group columns, at and value in original units (NULL
 // for a group with no recipe).
 //
-// The maths: stats.Recipe's Restore and RestoreForecast (stats/recipe.go).
+// The maths: verdict.Recipe's Restore and RestoreForecast (stats/verdict/recipe.go).
 
 //go:embed sql/restore.sql
 var restoreMacros string
@@ -90,11 +90,11 @@ func unflatten(flat []float64, lags []int) ([][]float64, error) {
 	return out, nil
 }
 
-// recipeFromColumns rebuilds a stats.Recipe from its stored columns, in
+// recipeFromColumns rebuilds a verdict.Recipe from its stored columns, in
 // plumb_restore's argument order from box_cox_lambda (args[0]) to n
 // (args[11]).
-func recipeFromColumns(args []driver.Value) (stats.Recipe, error) {
-	r := stats.Recipe{}
+func recipeFromColumns(args []driver.Value) (verdict.Recipe, error) {
+	r := verdict.Recipe{}
 	var err error
 	if args[0] != nil {
 		r.BoxCox, r.Lambda = true, args[0].(float64)
@@ -153,7 +153,7 @@ func recipeFromColumns(args []driver.Value) (stats.Recipe, error) {
 	return r, nil
 }
 
-// restoreGroup rebuilds a stats.Recipe from its stored columns and restores
+// restoreGroup rebuilds a verdict.Recipe from its stored columns and restores
 // one group's values.
 func restoreGroup(args []driver.Value) (any, error) {
 	y, err := floats(args[0])

@@ -7,13 +7,14 @@ import (
 	"github.com/duckdb/duckdb-go/v2"
 
 	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/verdict"
 )
 
 // seasonality(series, period := NULL) -> STRUCT: the period (given or
 // detected), the STL strengths and the OCSB seasonal unit-root test.
 //
-// The maths: stats.Seasonality (stats/seasonality.go, stats/stl.go,
-// stats/ocsb.go).
+// The maths: verdict.Seasonality (stats/verdict/seasonality.go, stats/verdict/stl.go,
+// stats/unitroot/ocsb.go).
 
 //go:embed sql/seasonality.sql
 var seasonalityMacros string
@@ -31,7 +32,7 @@ func seasonalityFunctions(t *types) []*function {
 			if err != nil {
 				return nil, err
 			}
-			r, err := stats.Seasonality(x, stats.SeasonalityOptions{Period: period})
+			r, err := verdict.Seasonality(x, verdict.SeasonalityOptions{Period: period})
 			if err != nil {
 				return nil, err
 			}
@@ -40,7 +41,7 @@ func seasonalityFunctions(t *types) []*function {
 	}}
 }
 
-type seasonalityResult = stats.SeasonalityResult
+type seasonalityResult = verdict.SeasonalityResult
 
 // seasonalityLayout is seasonality's STRUCT: the strengths are NULL unless
 // the status is ok, the OCSB fields unless the OCSB test ran.

@@ -7,12 +7,13 @@ import (
 	"github.com/duckdb/duckdb-go/v2"
 
 	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/verdict"
 )
 
 // stability(series, segments := NULL) -> STRUCT: the series' mean and
 // spread compared across segments, with the trend and ARCH tests.
 //
-// The maths: stats.Stability (stats/stability.go).
+// The maths: verdict.Stability (stats/verdict/stability.go).
 
 //go:embed sql/stability.sql
 var stabilityMacros string
@@ -30,7 +31,7 @@ func stabilityFunctions(t *types) []*function {
 			if err != nil {
 				return nil, err
 			}
-			r, err := stats.Stability(x, stats.StabilityOptions{Segments: segments})
+			r, err := verdict.Stability(x, verdict.StabilityOptions{Segments: segments})
 			if err != nil {
 				return nil, err
 			}
@@ -39,7 +40,7 @@ func stabilityFunctions(t *types) []*function {
 	}}
 }
 
-type stabilityResult = stats.StabilityResult
+type stabilityResult = verdict.StabilityResult
 
 // stabilityLayout is stability's STRUCT; every number is NULL unless the
 // status is ok.

@@ -9,9 +9,10 @@ import (
 	"github.com/duckdb/duckdb-go/v2"
 
 	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/verdict"
 )
 
-// The maths: stats.Stationarity and stats.Recipe (stats/verdict.go, stats/recipe.go).
+// The maths: verdict.Stationarity and verdict.Recipe (stats/verdict/verdict.go, stats/verdict/recipe.go).
 
 //go:embed sql/stationarize.sql
 var stationarizeMacros string
@@ -25,7 +26,7 @@ var stationarizeMacros string
 //	    first D·period + d rows have none (NULL).
 //	stationarize_recipes(source, by, at, value, period, alpha)
 //	    one row per group: the group columns, n, last_at, step, status, and
-//	    the recipe (see stats.Recipe): box_cox_lambda (NULL for none),
+//	    the recipe (see verdict.Recipe): box_cox_lambda (NULL for none),
 //	    period, seasonal_means (NULL for none), seasonal_differences,
 //	    trend_intercept and trend_slope (NULL for none), shift_position,
 //	    shift_at and shift_size (NULL for none), differences, and the
@@ -74,8 +75,8 @@ func stationarizeFunctions(t *types) []*function {
 }
 
 // stationarizeGroup judges x, applies its recipe and lays out the result.
-func stationarizeGroup(x []float64, opts stats.StationarityOptions) (any, error) {
-	v, err := stats.Stationarity(x, opts)
+func stationarizeGroup(x []float64, opts verdict.StationarityOptions) (any, error) {
+	v, err := verdict.Stationarity(x, opts)
 	if err != nil {
 		return nil, err
 	}
@@ -106,14 +107,14 @@ func stationarizeGroup(x []float64, opts stats.StationarityOptions) (any, error)
 type stationarized struct {
 	values any
 	status string
-	recipe *stats.Recipe
+	recipe *verdict.Recipe
 }
 
 // stationarizeLayout is plumb_stationarize's STRUCT: the values, the status
 // and the recipe's steps as stationarize_recipes stores them. Steps a
 // recipe does not take are NULL.
 var stationarizeLayout = func() *layout[stationarized] {
-	step := func(f func(r *stats.Recipe) any) func(*stationarized) any {
+	step := func(f func(r *verdict.Recipe) any) func(*stationarized) any {
 		return func(s *stationarized) any {
 			if s.recipe == nil {
 				return nil
@@ -124,52 +125,52 @@ var stationarizeLayout = func() *layout[stationarized] {
 	return newLayout(
 		doubles("values", func(s *stationarized) any { return s.values }),
 		varchar("status", func(s *stationarized) any { return s.status }),
-		num("box_cox_lambda", step(func(r *stats.Recipe) any {
+		num("box_cox_lambda", step(func(r *verdict.Recipe) any {
 			if r.BoxCox {
 				return r.Lambda
 			}
 			return nil
 		})),
-		integer64("period", step(func(r *stats.Recipe) any {
+		integer64("period", step(func(r *verdict.Recipe) any {
 			if r.Period > 0 {
 				return int64(r.Period)
 			}
 			return nil
 		})),
-		doubles("seasonal_means", step(func(r *stats.Recipe) any {
+		doubles("seasonal_means", step(func(r *verdict.Recipe) any {
 			if r.SeasonalMeans != nil {
 				return doubleList(r.SeasonalMeans)
 			}
 			return nil
 		})),
-		integer64("seasonal_differences", step(func(r *stats.Recipe) any { return int64(r.SeasonalDifferences) })),
-		num("trend_intercept", step(func(r *stats.Recipe) any {
+		integer64("seasonal_differences", step(func(r *verdict.Recipe) any { return int64(r.SeasonalDifferences) })),
+		num("trend_intercept", step(func(r *verdict.Recipe) any {
 			if r.Trend {
 				return r.TrendIntercept
 			}
 			return nil
 		})),
-		num("trend_slope", step(func(r *stats.Recipe) any {
+		num("trend_slope", step(func(r *verdict.Recipe) any {
 			if r.Trend {
 				return r.TrendSlope
 			}
 			return nil
 		})),
-		integer64("shift_position", step(func(r *stats.Recipe) any {
+		integer64("shift_position", step(func(r *verdict.Recipe) any {
 			if r.Shift {
 				return int64(r.ShiftIndex + 1)
 			}
 			return nil
 		})),
-		num("shift_size", step(func(r *stats.Recipe) any {
+		num("shift_size", step(func(r *verdict.Recipe) any {
 			if r.Shift {
 				return r.ShiftSize
 			}
 			return nil
 		})),
-		integer64("differences", step(func(r *stats.Recipe) any { return int64(r.Differences) })),
-		doubles("head", step(func(r *stats.Recipe) any { return flatten(r.Head) })),
-		doubles("tail", step(func(r *stats.Recipe) any { return flatten(r.Tail) })),
+		integer64("differences", step(func(r *verdict.Recipe) any { return int64(r.Differences) })),
+		doubles("head", step(func(r *verdict.Recipe) any { return flatten(r.Head) })),
+		doubles("tail", step(func(r *verdict.Recipe) any { return flatten(r.Tail) })),
 	)
 }()
 

@@ -9,15 +9,16 @@ import (
 
 	"github.com/plumb-sql/plumb/stats"
 	"github.com/plumb-sql/plumb/stats/defaults"
+	"github.com/plumb-sql/plumb/stats/unitroot"
 )
 
-// The maths: stats.ADF, stats.KPSS, stats.PhillipsPerron and stats.DFGLS (stats/adf.go, stats/kpss.go, stats/pp.go, stats/dfgls.go; p-values in stats/mackinnon.go, stats/kpss_limit.go, stats/dfgls_table.go).
+// The maths: unitroot.ADF, unitroot.KPSS, unitroot.PhillipsPerron and unitroot.DFGLS (stats/unitroot/adf.go, stats/unitroot/kpss.go, stats/unitroot/pp.go, stats/unitroot/dfgls.go; p-values in stats/unitroot/mackinnon.go, stats/unitroot/kpss_limit.go, stats/unitroot/dfgls_table.go).
 
 //go:embed sql/unit_root.sql
 var unitRootMacros string
 
-// unitRootFunctions wraps stats.ADF, stats.KPSS, stats.PhillipsPerron and
-// stats.DFGLS:
+// unitRootFunctions wraps unitroot.ADF, unitroot.KPSS, unitroot.PhillipsPerron and
+// unitroot.DFGLS:
 //
 //	unit_root(series, method, deterministic, lags, lag_rule) (defaults in udf/sql/unit_root.sql)
 //
@@ -66,7 +67,7 @@ func unitRootFunctions(t *types) []*function {
 				}
 				lags = &l
 			}
-			r, err := unitRoot(x, method, stats.Deterministic(deterministic), lags, stats.LagRule(rule))
+			r, err := unitRoot(x, method, unitroot.Deterministic(deterministic), lags, unitroot.LagRule(rule))
 			if err != nil {
 				return nil, err
 			}
@@ -75,22 +76,22 @@ func unitRootFunctions(t *types) []*function {
 	}}
 }
 
-func unitRoot(x []float64, method string, d stats.Deterministic, lags *int, rule stats.LagRule) (stats.UnitRootResult, error) {
+func unitRoot(x []float64, method string, d unitroot.Deterministic, lags *int, rule unitroot.LagRule) (unitroot.UnitRootResult, error) {
 	switch method {
 	case "adf":
-		return stats.ADF(x, stats.ADFOptions{Deterministic: d, LagRule: rule, MaxLag: lags})
+		return unitroot.ADF(x, unitroot.ADFOptions{Deterministic: d, LagRule: rule, MaxLag: lags})
 	case "kpss":
-		return stats.KPSS(x, stats.KPSSOptions{Deterministic: d, Bandwidth: lags})
+		return unitroot.KPSS(x, unitroot.KPSSOptions{Deterministic: d, Bandwidth: lags})
 	case "pp":
-		r, err := stats.PhillipsPerron(x, stats.PPOptions{Deterministic: d, Bandwidth: lags})
+		r, err := unitroot.PhillipsPerron(x, unitroot.PPOptions{Deterministic: d, Bandwidth: lags})
 		return r.UnitRootResult, err
 	case "dfgls":
-		return stats.DFGLS(x, stats.DFGLSOptions{Deterministic: d, LagRule: rule, MaxLag: lags})
+		return unitroot.DFGLS(x, unitroot.DFGLSOptions{Deterministic: d, LagRule: rule, MaxLag: lags})
 	}
-	return stats.UnitRootResult{}, fmt.Errorf("unknown method %q: use adf, kpss, pp or dfgls", method)
+	return unitroot.UnitRootResult{}, fmt.Errorf("unknown method %q: use adf, kpss, pp or dfgls", method)
 }
 
-type unitRootResult = stats.UnitRootResult
+type unitRootResult = unitroot.UnitRootResult
 
 // unitRootLayout is unit_root's STRUCT, in the order a reader asks: what
 // was tested, the evidence, how it was computed. A failed test has NULL

@@ -9,9 +9,10 @@ import (
 
 	"github.com/plumb-sql/plumb/stats"
 	"github.com/plumb-sql/plumb/stats/defaults"
+	"github.com/plumb-sql/plumb/stats/unitroot"
 )
 
-// The maths: stats.ZivotAndrews (stats/zivot_andrews*.go).
+// The maths: unitroot.ZivotAndrews (stats/unitroot/zivot_andrews*.go).
 
 //go:embed sql/zivot_andrews.sql
 var zivotAndrewsMacros string
@@ -19,7 +20,7 @@ var zivotAndrewsMacros string
 // zivotAndrewsFunctions wraps the Zivot-Andrews test:
 //
 //	zivot_andrews(series, kind, lags, lag_rule, trimming) -> STRUCT (defaults in udf/sql/zivot_andrews.sql)
-//	    stats.ZivotAndrews: a unit root against a trend-stationary series
+//	    unitroot.ZivotAndrews: a unit root against a trend-stationary series
 //	    whose level, slope or both (kind: level, slope, level_and_slope)
 //	    break once; break_at is the 1-based position of the first
 //	    observation after the break. Fields as unit_root's: what was tested,
@@ -34,14 +35,14 @@ func zivotAndrewsFunctions(t *types) []*function {
 		result:   zivotAndrewsLayout.info(t),
 		nullable: true,
 		eval: withSeries(func(x []float64, args []driver.Value) (any, error) {
-			o := stats.ZivotAndrewsOptions{Break: stats.BreakKind(defaults.BreakKind), LagRule: stats.LagRule(defaults.LagRule)}
+			o := unitroot.ZivotAndrewsOptions{Break: unitroot.BreakKind(defaults.BreakKind), LagRule: unitroot.LagRule(defaults.LagRule)}
 			var err error
 			if args[1] != nil {
 				s, err := text(args[1], "kind")
 				if err != nil {
 					return nil, err
 				}
-				o.Break = stats.BreakKind(s)
+				o.Break = unitroot.BreakKind(s)
 			}
 			if o.MaxLag, err = optionalInt(args[2], "lags"); err != nil {
 				return nil, err
@@ -54,12 +55,12 @@ func zivotAndrewsFunctions(t *types) []*function {
 				if err != nil {
 					return nil, err
 				}
-				o.LagRule = stats.LagRule(s)
+				o.LagRule = unitroot.LagRule(s)
 			}
 			if o.Trim, err = trimmingArg(args[4]); err != nil {
 				return nil, err
 			}
-			r, err := stats.ZivotAndrews(x, o)
+			r, err := unitroot.ZivotAndrews(x, o)
 			if err != nil {
 				return nil, err
 			}
@@ -68,7 +69,7 @@ func zivotAndrewsFunctions(t *types) []*function {
 	}}
 }
 
-type zivotAndrewsResult = stats.ZivotAndrewsResult
+type zivotAndrewsResult = unitroot.ZivotAndrewsResult
 
 // zivotAndrewsLayout is zivot_andrews' STRUCT, ordered as unit_root's:
 // what was tested, the evidence, how it was computed. NULL numbers unless

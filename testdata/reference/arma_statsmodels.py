@@ -1,9 +1,9 @@
 """Reference values for plumb's exact-likelihood ARMA fits and forecasts
-(stats/arma_*.go) from python3-statsmodels 0.13.5. Run with Debian's
+(stats/forecast/arma_*.go) from python3-statsmodels 0.13.5. Run with Debian's
 /usr/bin/python3 by regenerate.sh after export_arma_datasets.R; writes
 arma_statsmodels.csv with columns
   case, dataset, log, p, d, q, P, D, Q, s, mean, check, index, value.
-Check values only: plumb computes its own and stats/arma_reference_test.go
+Check values only: plumb computes its own and stats/forecast/arma_reference_test.go
 compares.
 
 Each case is an open dataset of Debian's R (datasets_arma_r.csv), optionally

@@ -3,7 +3,7 @@ python3-statsmodels 0.13.5. Run with Debian's /usr/bin/python3 by
 regenerate.sh after export_datasets.R and unit_root_statsmodels.py; writes
 forecast_statsmodels.csv with columns
   check, case, dataset, lambda, d, D, s, order, index, value.
-Check values only: plumb computes its own and stats/forecast_reference_test.go
+Check values only: plumb computes its own and stats/forecast/forecast_reference_test.go
 compares.
 
 Every case but one is an open dataset with a recipe; near_sine is a sine

@@ -6,7 +6,7 @@ Brownian bridge, which is the limit of the Cramer-von Mises statistic.
 scipy 1.10.1 (Debian's python3-scipy, installed with python3-statsmodels)
 computes that limit's distribution function by the series of Csorgo &
 Faraway (1996, eq. 1.2), a method independent of the one plumb uses
-(Smirnov's formula, stats/kpss_limit.go). It writes
+(Smirnov's formula, stats/unitroot/kpss_limit.go). It writes
   kpss_limit_scipy.csv  statistic, P(limit > statistic)
 on a grid where scipy's series is accurate (it stops adding terms below
 1e-7 and warns that it is not accurate above about 4). The values are check

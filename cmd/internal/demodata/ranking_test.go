@@ -7,7 +7,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/verdict"
 )
 
 // TestDemoTopRanksRight judges the demo's shop series for seeds 1-5 as
@@ -34,11 +34,11 @@ func demoTopRanks(t *testing.T, period int) {
 		shops := sets[0]
 		type judged struct {
 			s Series
-			v stats.StationarityResult
+			v verdict.StationarityResult
 		}
 		var all []judged
 		for _, s := range shops.Series {
-			v, err := stats.Stationarity(s.Values, stats.StationarityOptions{Period: period})
+			v, err := verdict.Stationarity(s.Values, verdict.StationarityOptions{Period: period})
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -51,7 +51,7 @@ func demoTopRanks(t *testing.T, period int) {
 			if j.s.Truth.Kind == RandomWalk {
 				cause := fmt.Sprintf("%s/d=%d", j.v.MeanCause, j.v.Differences)
 				causes[cause]++
-				if i < top && (j.v.MeanCause != stats.MeanUnitRoot || j.v.Differences < 1) {
+				if i < top && (j.v.MeanCause != verdict.MeanUnitRoot || j.v.Differences < 1) {
 					t.Errorf("seed %d: rank %d, %v, a planted random walk, is given %s", seed, i+1, j.s.Key, cause)
 				}
 			}

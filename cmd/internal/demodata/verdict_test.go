@@ -6,9 +6,10 @@ import (
 	"testing"
 
 	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/verdict"
 )
 
-// TestVerdictFindsPlantedBehaviour runs stats.Stationarity on every series
+// TestVerdictFindsPlantedBehaviour runs verdict.Stationarity on every series
 // of the demo for seeds 1-3 (378 series, 63 of each planted kind) and
 // prints the confusion table of planted kind against verdict and cause. The
 // targets, at α = 0.05: random walks get a unit root and d ≥ 1 in at least
@@ -23,7 +24,7 @@ import (
 // judged stationary.
 //
 // It runs with the period given (7 for shops, 24 for containers) and with
-// the period detected among stats.DefaultPeriods.
+// the period detected among verdict.DefaultPeriods.
 func TestVerdictFindsPlantedBehaviour(t *testing.T) {
 	for _, detect := range []bool{false, true} {
 		t.Run(fmt.Sprintf("detect=%v", detect), func(t *testing.T) { verdictConfusion(t, detect) })
@@ -49,22 +50,22 @@ func verdictConfusion(t *testing.T, detect bool) {
 	}
 	for _, ds := range sets {
 		for _, s := range ds.Series {
-			opts := stats.StationarityOptions{Period: ds.Period}
+			opts := verdict.StationarityOptions{Period: ds.Period}
 			if detect {
 				opts.Period = 0
 			}
-			v, err := stats.Stationarity(s.Values, opts)
+			v, err := verdict.Stationarity(s.Values, opts)
 			if err != nil {
 				t.Fatal(err)
 			}
 			c := counts[s.Truth.Kind]
 			c.n++
 			switch v.MeanCause {
-			case stats.MeanUnitRoot:
+			case verdict.MeanUnitRoot:
 				c.unitRoot++
-			case stats.MeanTrend:
+			case verdict.MeanTrend:
 				c.trend++
-			case stats.MeanLevelShift:
+			case verdict.MeanLevelShift:
 				c.shift++
 			}
 			if v.Seasonal && v.Period == ds.Period {
@@ -74,9 +75,9 @@ func verdictConfusion(t *testing.T, detect bool) {
 				c.spread++
 			}
 			switch v.SpreadCause {
-			case stats.SpreadTime:
+			case verdict.SpreadTime:
 				c.spreadTime++
-			case stats.SpreadLevel:
+			case verdict.SpreadLevel:
 				c.spreadLevel++
 			}
 			if !v.Stationary {
@@ -86,14 +87,14 @@ func verdictConfusion(t *testing.T, detect bool) {
 				c.period++
 			}
 			rec := v.Recipe()
-			if !rec.Identity() && v.SpreadCause != stats.SpreadTime {
+			if !rec.Identity() && v.SpreadCause != verdict.SpreadTime {
 				c.recipes++
 				y, status, err := rec.Apply(s.Values)
 				if err != nil {
 					t.Fatal(err)
 				}
 				if status == stats.StatusOK {
-					again, err := stats.Stationarity(y, opts)
+					again, err := verdict.Stationarity(y, opts)
 					if err != nil {
 						t.Fatal(err)
 					}

@@ -12,6 +12,7 @@ import (
 
 	"github.com/plumb-sql/plumb/cmd/internal/report"
 	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/verdict"
 	"github.com/plumb-sql/plumb/udf"
 )
 
@@ -249,7 +250,7 @@ func drawGroup(d *groupData, g *groupSeries, value string, period int) error {
 		return err
 	}
 	marks := report.Marks{Shift: -1}
-	if g.Verdict.MeanCause == stats.MeanLevelShift {
+	if g.Verdict.MeanCause == verdict.MeanLevelShift {
 		marks.Shift = g.Verdict.ShiftIndex
 	}
 	marks.Outliers = g.Verdict.Outliers

@@ -10,23 +10,25 @@ import (
 
 	"github.com/plumb-sql/plumb/cmd/internal/report"
 	"github.com/plumb-sql/plumb/stats"
+	"github.com/plumb-sql/plumb/stats/forecast"
+	"github.com/plumb-sql/plumb/stats/verdict"
 	"github.com/plumb-sql/plumb/udf"
 )
 
 // groupSeries is one group's values and what its verdict does with them.
-// The verdict is recomputed in Go (stats.Stationarity with diagnose's
+// The verdict is recomputed in Go (verdict.Stationarity with diagnose's
 // period and level, as the report does), which gives the recipe, the
 // outliers' positions, the transformed series and the forecasts.
 type groupSeries struct {
 	X       report.Axis
 	Y       []float64
-	Verdict stats.StationarityResult
+	Verdict verdict.StationarityResult
 	Judged  bool // the verdict could judge the series (recipe, transform and forecast exist)
 	// Transformed is the series after its recipe, at TX.
 	Transformed []float64
 	TX          report.Axis
 	// Forecast: Horizon steps at FX, with 95% intervals (Status not ok: none).
-	Forecast stats.Forecast
+	Forecast forecast.Forecast
 	FX       report.Axis
 	Why      string // why there is no transformed series or forecast
 }
@@ -71,7 +73,7 @@ func loadSeries(ctx context.Context, conn *sql.Conn, r *run, info *runInfo, keys
 	if alpha == 0 {
 		alpha = 0.05
 	}
-	if g.Verdict, err = stats.Stationarity(g.Y, stats.StationarityOptions{Period: period, Alpha: alpha}); err != nil {
+	if g.Verdict, err = verdict.Stationarity(g.Y, verdict.StationarityOptions{Period: period, Alpha: alpha}); err != nil {
 		return nil, err
 	}
 	if s := g.Verdict.Status; s != stats.StatusOK && s != stats.StatusSeasonUnknown {
@@ -91,7 +93,7 @@ func loadSeries(ctx context.Context, conn *sql.Conn, r *run, info *runInfo, keys
 	g.TX = report.Axis{X: g.X.X[rec.Lost():], IsTime: g.X.IsTime, Label: g.X.Label}
 	// As the report: a tenth of the series ahead, at most 60 steps, 95% intervals.
 	h := max(1, min(60, len(g.Y)/10))
-	f, err := stats.ForecastByRecipe(g.Verdict.Judged(), rec, stats.RecipeForecastOptions{Horizon: h, Coverage: 0.95, AR: stats.AROptions{Period: rec.Period}})
+	f, err := forecast.ForecastByRecipe(g.Verdict.Judged(), rec, forecast.RecipeForecastOptions{Horizon: h, Coverage: 0.95, AR: forecast.AROptions{Period: rec.Period}})
 	if err != nil {
 		return nil, err
 	}
@@ -122,8 +124,8 @@ func xText(a report.Axis, x float64) string {
 }
 
 // recipeSteps says the recipe's steps in words, in the order applied
-// (stats.Recipe).
-func recipeSteps(rec stats.Recipe, x report.Axis) []string {
+// (verdict.Recipe).
+func recipeSteps(rec verdict.Recipe, x report.Axis) []string {
 	var out []string
 	if rec.BoxCox {
 		if rec.Lambda == 0 {

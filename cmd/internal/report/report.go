@@ -18,6 +18,8 @@ import (
 	"github.com/plumb-sql/plumb/cmd/internal/diagnosis"
 	"github.com/plumb-sql/plumb/stats"
 	"github.com/plumb-sql/plumb/stats/defaults"
+	"github.com/plumb-sql/plumb/stats/forecast"
+	"github.com/plumb-sql/plumb/stats/verdict"
 	"github.com/plumb-sql/plumb/udf"
 )
 
@@ -214,7 +216,7 @@ func panels(ctx context.Context, conn *sql.Conn, table string, spec diagnosis.Sp
 }
 
 // drawPanel makes the three pictures of one group. The transformed series
-// is the group's own recipe (stats.Stationarity with diagnose's period and
+// is the group's own recipe (verdict.Stationarity with diagnose's period and
 // level) applied to its values; a group with missing values, which diagnose
 // may have filled, gets none.
 func drawPanel(p *Panel, spec diagnosis.Spec, atList, valueList any, period sql.NullInt64) error {
@@ -247,7 +249,7 @@ func drawPanel(p *Panel, spec diagnosis.Spec, atList, valueList any, period sql.
 	p.Series = template.HTML(svg)
 
 	missing := `<p class="missing">no transformed series: %s</p>`
-	v, err := stats.Stationarity(y, stats.StationarityOptions{Period: int(period.Int64), Alpha: spec.Alpha})
+	v, err := verdict.Stationarity(y, verdict.StationarityOptions{Period: int(period.Int64), Alpha: spec.Alpha})
 	switch {
 	case err != nil:
 		return err
@@ -299,11 +301,11 @@ func drawPanel(p *Panel, spec diagnosis.Spec, atList, valueList any, period sql.
 // forecast table function does, 95% intervals) for a tenth of its length,
 // at most 60 steps, and draws the last three horizons of history before
 // the forecasts.
-func forecastPicture(spec diagnosis.Spec, x axis, y []float64, v stats.StationarityResult) (string, error) {
+func forecastPicture(spec diagnosis.Spec, x axis, y []float64, v verdict.StationarityResult) (string, error) {
 	missing := `<p class="missing">no forecast: %s</p>`
 	h := max(1, min(60, len(y)/10))
 	rec := v.Recipe()
-	f, err := stats.ForecastByRecipe(v.Judged(), rec, stats.RecipeForecastOptions{Horizon: h, Coverage: defaults.Coverage, AR: stats.AROptions{Period: rec.Period}})
+	f, err := forecast.ForecastByRecipe(v.Judged(), rec, forecast.RecipeForecastOptions{Horizon: h, Coverage: defaults.Coverage, AR: forecast.AROptions{Period: rec.Period}})
 	if err != nil {
 		return "", err
 	}
